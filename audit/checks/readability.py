@@ -1,0 +1,45 @@
+"""Check ``readability``: every row's temperature and pressure could be read."""
+
+from __future__ import annotations
+
+from ..results import CheckResult, PointFlag
+from ._util import rows_text, worst_status
+from .registry import Check, register
+
+
+@register
+class Readability(Check):
+    """Rows whose temperature or pressure cell is not a number.
+
+    **What it checks.** That each data row's temperature and pressure cells
+    were read as finite numbers (ingest marks the others ``unreadable`` with
+    the reason and keeps their original text).
+
+    **Why it matters.** A cell such as ``12.3*`` (a footnote mark), ``<0.1``
+    (a detection limit) or ``n/a`` hides a value the curator must resolve by
+    hand; silently dropping it would make the audit look cleaner than the
+    table is.
+
+    **Example.** ``T/K = 300.0, P/kPa = 3.54*`` → row unreadable: "pressure
+    cell '3.54*' is not a number".
+
+    **Options.** none besides ``enabled`` and ``severity``.
+    """
+
+    id = "readability"
+    title = "Readable temperature and pressure values"
+    method = "Each cell is parsed as a number in the column's unit; failures keep their text."
+    references = ()
+    options = {}
+
+    def run(self, ctx):
+        sev = ctx.settings(self.id).severity
+        bad = [p for p in ctx.dataset.points if not p.readable]
+        flags = tuple(PointFlag(p.row, self.id, sev, p.reason or "value not readable") for p in bad)
+        n = ctx.dataset.n_rows
+        if bad:
+            msg = f"{len(bad)} of {n} rows unreadable ({rows_text(p.row for p in bad)}); fix or confirm them by hand"
+        else:
+            msg = f"all {n} rows readable"
+        return CheckResult(self.id, self.title, worst_status(len(bad), sev), msg,
+                           {"n_rows": n, "n_unreadable": len(bad)}, flags)

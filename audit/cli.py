@@ -1,0 +1,207 @@
+"""The ``vpaudit`` command.
+
+``vpaudit check DATA``   audit one table and write findings.json (and more);
+``vpaudit demo``         regenerate the bundled demonstration audits;
+``vpaudit profiles``     list rule profiles and their thresholds;
+``vpaudit explain ID``   what a check tests, its method, source and options.
+
+Exit codes: 0 verdict pass or warn; 1 fail (with ``--strict``, warn too);
+2 the input or the command line cannot be used (one message, no traceback).
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import textwrap
+from pathlib import Path
+
+from . import __version__
+from .errors import InputError
+
+EXIT_OK, EXIT_FAIL, EXIT_UNUSABLE, EXIT_INTERNAL = 0, 1, 2, 3
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that reports usage errors as InputError (exit 2, one message)."""
+
+    def error(self, message):  # noqa: D401
+        raise InputError(message, hint=f"see '{self.prog} --help'")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    p = _Parser(prog="vpaudit", description="Audit vapor-pressure data for thermodynamic consistency.")
+    p.add_argument("--version", action="version", version=f"vpaudit {__version__}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+
+    c = sub.add_parser("check", help="audit one pressure–temperature table")
+    c.add_argument("data", metavar="DATA", help="CSV, TSV, semicolon CSV, XLSX or JSON table")
+    c.add_argument("--substance", help="substance name or CAS number (looks up reference constants)")
+    c.add_argument("--profile", default="default", help="rule profile name or .toml path (default: default)")
+    c.add_argument("--out", help="output folder (default: audit-<data file stem>)")
+    c.add_argument("--format", default=None,
+                   help="comma-separated outputs among json,csv,html,pdf (default: all available)")
+    c.add_argument("--strict", action="store_true", help="exit 1 on a warn verdict too")
+    c.add_argument("--metadata", help="metadata .toml (default: beside DATA with the same stem)")
+    g = c.add_argument_group("column overrides (otherwise found from the header)")
+    g.add_argument("--temperature-column", metavar="NAME")
+    g.add_argument("--temperature-unit", metavar="UNIT", help="e.g. K, degC, degF, degR")
+    g.add_argument("--pressure-column", metavar="NAME")
+    g.add_argument("--pressure-unit", metavar="UNIT", help="e.g. Pa, kPa, mmHg, Torr, bar, log10(P/kPa)")
+    g.add_argument("--phase-column", metavar="NAME")
+    g.add_argument("--source-column", metavar="NAME")
+    g.add_argument("--u-temperature-column", metavar="NAME")
+    g.add_argument("--u-pressure-column", metavar="NAME")
+    g.add_argument("--u-pressure-unit", metavar="UNIT", help="unit of u(P), or %% for relative")
+    g.add_argument("--sheet", metavar="NAME", help="XLSX sheet (default: the first)")
+    c.add_argument("--audit-time", metavar="ISO8601",
+                   help="time stamp to record (default: now, or SOURCE_DATE_EPOCH)")
+
+    d = sub.add_parser("demo", help="audit the bundled synthetic demo data")
+    d.add_argument("--out", default="reports_demo", help="output folder (default: reports_demo)")
+    d.add_argument("--format", default=None, help="as for check")
+
+    sub.add_parser("profiles", help="list rule profiles and their thresholds")
+
+    e = sub.add_parser("explain", help="what a check tests, its method, source and thresholds")
+    e.add_argument("check", metavar="CHECK", nargs="?", help="check id (omit to list them)")
+    e.add_argument("--profile", default="default", help="show the thresholds of this profile")
+    return p
+
+
+def _available_formats() -> str:
+    from .report import available_formats
+
+    return ",".join(available_formats())
+
+
+def _overrides(args):
+    from .ingest import ColumnOverrides
+
+    return ColumnOverrides(
+        temperature=args.temperature_column, temperature_unit=args.temperature_unit,
+        pressure=args.pressure_column, pressure_unit=args.pressure_unit,
+        phase=args.phase_column, source=args.source_column,
+        u_temperature=args.u_temperature_column, u_pressure=args.u_pressure_column,
+        u_pressure_unit=args.u_pressure_unit, sheet=args.sheet, substance=args.substance,
+    )
+
+
+def audit_file(data: str, *, profile: str = "default", overrides=None, metadata: str | None = None,
+               substance: str | None = None, audited_at: str | None = None):
+    """Read, enrich and audit one file; return (dataset, profile, result)."""
+    from .ingest import read_table
+    from .pipeline import run_audit
+    from .profiles import load_profile
+    from .substances import with_library_constants
+
+    prof = load_profile(profile)
+    dataset = read_table(data, overrides, metadata_path=metadata)
+    dataset = with_library_constants(dataset, substance)
+    return dataset, prof, run_audit(dataset, prof, audited_at=audited_at)
+
+
+def cmd_check(args) -> int:
+    from .report import parse_formats, write_outputs
+
+    formats = parse_formats(args.format or _available_formats())
+    _, _, result = audit_file(args.data, profile=args.profile, overrides=_overrides(args),
+                              metadata=args.metadata, substance=args.substance,
+                              audited_at=args.audit_time)
+    out = Path(args.out or f"audit-{Path(args.data).stem}")
+    written = write_outputs(result, out, formats, input_bytes=Path(args.data).read_bytes())
+    print(_summary_line(result))
+    for fmt, path in written.items():
+        print(f"  {fmt:4s} {path}")
+    return _exit_code(result.verdict, args.strict)
+
+
+def _summary_line(result) -> str:
+    return (f"{result.dataset.file_name}: verdict {result.verdict.upper()} — "
+            f"{len(result.points)} rows, {result.count('reject')} rejected, "
+            f"{result.count('suspect')} suspect, {result.count('unreadable')} unreadable")
+
+
+def _exit_code(verdict: str, strict: bool) -> int:
+    if verdict == "fail" or (strict and verdict == "warn"):
+        return EXIT_FAIL
+    return EXIT_OK
+
+
+def cmd_demo(args) -> int:
+    from .demo import run_demo
+
+    run_demo(Path(args.out), formats=args.format)
+    return EXIT_OK
+
+
+def cmd_profiles(args) -> int:
+    from .checks import all_checks
+    from .profiles import load_profile, shipped_profiles
+
+    for name in shipped_profiles():
+        prof = load_profile(name)
+        extends = f" (extends {' → '.join(Path(c).stem for c in prof.chain[:-1])})" if len(prof.chain) > 1 else ""
+        print(f"{prof.name}{extends}: {prof.description}")
+        for check_id in all_checks():
+            s = prof.settings(check_id)
+            opts = ", ".join(f"{k}={v}" for k, v in s.options.items())
+            state = f"{s.severity}" if s.enabled else "disabled"
+            print(f"  {check_id:24s} {state:8s} {opts}")
+        print()
+    return EXIT_OK
+
+
+def cmd_explain(args) -> int:
+    from .checks import all_checks, get_check
+    from .profiles import load_profile
+
+    if not args.check:
+        for check_id, cls in all_checks().items():
+            print(f"{check_id:24s} {cls.title}")
+        return EXIT_OK
+    cls = get_check(args.check)
+    settings = load_profile(args.profile).settings(cls.id)
+    width = 88
+    print(f"{cls.id} — {cls.title}\n")
+    print(textwrap.dedent(cls.__doc__ or "").strip() + "\n")
+    print("Method:\n" + textwrap.fill(cls.method, width, initial_indent="  ", subsequent_indent="  "))
+    if cls.references:
+        print("Published sources:")
+        for ref in cls.references:
+            print(textwrap.fill(ref, width, initial_indent="  - ", subsequent_indent="    "))
+    print(f"\nIn profile '{args.profile}': {'enabled' if settings.enabled else 'disabled'}, "
+          f"severity {settings.severity}")
+    for name, opt in cls.options.items():
+        unit = f" [{opt.unit}]" if opt.unit else ""
+        print(f"  {name} = {settings.options[name]}{unit}  — {opt.doc}")
+    return EXIT_OK
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+        if args.command is None:
+            parser.print_help()
+            return EXIT_UNUSABLE
+        handler = {"check": cmd_check, "demo": cmd_demo, "profiles": cmd_profiles,
+                   "explain": cmd_explain}[args.command]
+        return handler(args)
+    except InputError as exc:
+        print(f"vpaudit: error: {exc.message}", file=sys.stderr)
+        return EXIT_UNUSABLE
+    except KeyboardInterrupt:
+        print("vpaudit: interrupted", file=sys.stderr)
+        return 130
+    except Exception as exc:  # a bug of ours, not the user's input
+        if os.environ.get("VPAUDIT_DEBUG"):
+            raise
+        print(f"vpaudit: internal error: {type(exc).__name__}: {exc} — this is a bug in vpaudit; "
+              "rerun with VPAUDIT_DEBUG=1 for details and report it", file=sys.stderr)
+        return EXIT_INTERNAL
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,80 @@
+"""The state a run of checks shares.
+
+Checks run in registry order.  Each sees the dataset, its own settings and
+the verdicts of the checks before it: a point rejected by ``physical-range``
+(T <= 0) or by ``outliers`` no longer bends the fits of later checks.
+Products that several checks use (the consensus fit of a branch, the triple
+point) are left in :attr:`AuditContext.shared` under documented keys.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+from .model import Dataset, Point
+from .profiles import CheckSettings, Profile
+from .results import Cause, CheckResult, PointFlag
+
+_RANK = {"ok": 0, "suspect": 1, "reject": 2, "unreadable": 3}
+
+
+@dataclass
+class AuditContext:
+    """Mutable while the checks run; the audit freezes it into an AuditResult.
+
+    Keys of ``shared`` (set by the check named):
+    ``consensus`` (outliers): dict branch -> VaporPressureFit of the robust
+    consensus fit; ``triple_point`` (triple-point): the estimate.
+    """
+
+    dataset: Dataset
+    profile: Profile
+    status: dict[int, str] = field(default_factory=dict)
+    flags: dict[int, list[PointFlag]] = field(default_factory=dict)
+    causes: dict[int, Cause] = field(default_factory=dict)
+    residual_sigma: dict[int, float] = field(default_factory=dict)
+    phase_inferred: dict[int, str] = field(default_factory=dict)
+    shared: dict[str, Any] = field(default_factory=dict)
+    notes: list[str] = field(default_factory=list)
+
+    def __post_init__(self) -> None:
+        for p in self.dataset.points:
+            self.status.setdefault(p.row, "unreadable" if not p.readable else "ok")
+            self.flags.setdefault(p.row, [])
+
+    # -- what checks read -------------------------------------------------
+    def settings(self, check_id: str) -> CheckSettings:
+        return self.profile.settings(check_id)
+
+    def phase(self, p: Point) -> str:
+        """Phase used by the audit: as labelled, else as inferred by a check."""
+        if p.phase != "unknown":
+            return p.phase
+        return self.phase_inferred.get(p.row, "unknown")
+
+    def usable(self, branch: str | None = None, *, include_suspect: bool = True) -> list[Point]:
+        """Readable points not rejected so far, optionally of one branch."""
+        allowed = ("ok", "suspect") if include_suspect else ("ok",)
+        out = [p for p in self.dataset.points if self.status[p.row] in allowed]
+        if branch is not None:
+            out = [p for p in out if self.phase(p) == branch]
+        return out
+
+    def branches(self) -> list[str]:
+        """Branches present among usable points ('solid', 'liquid', 'unknown')."""
+        return sorted({self.phase(p) for p in self.usable()})
+
+    # -- what the audit writes back ----------------------------------------
+    def absorb(self, result: CheckResult) -> None:
+        for f in result.flags:
+            self.flags.setdefault(f.row, []).append(f)
+        for row, st in result.point_status.items():
+            if _RANK[st] > _RANK[self.status[row]]:
+                self.status[row] = st
+        for row, cause in result.causes.items():
+            self.causes[row] = cause
+        for row, sigma in result.residual_sigma.items():
+            self.residual_sigma[row] = sigma
+        for row, ph in result.phase_inferred.items():
+            self.phase_inferred[row] = ph

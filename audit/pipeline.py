@@ -1,0 +1,93 @@
+"""The audit of one dataset: a pure function of (dataset, profile).
+
+:func:`run_audit` is what the CLI, the tests and any batch or distributed
+runner call.  It reads no files and writes none; it returns an
+:class:`~audit.results.AuditResult` that the writers in :mod:`audit.report`
+render.  The only input besides the two arguments is the audit time, which a
+caller may fix for reproducible output.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import os
+
+from . import __version__
+from .checks import registry
+from .context import AuditContext
+from .model import Dataset
+from .profiles import Profile
+from .results import AuditResult, CheckResult, PointVerdict
+
+
+def audit_time(fixed: str | None = None) -> str:
+    """ISO 8601 UTC time of the audit; honours ``SOURCE_DATE_EPOCH``.
+
+    Reproducible builds convention (reproducible-builds.org): when
+    ``SOURCE_DATE_EPOCH`` is set, it is the time stamp of every output.
+    """
+    if fixed:
+        return fixed
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    if epoch and epoch.strip().isdigit():
+        t = _dt.datetime.fromtimestamp(int(epoch), tz=_dt.timezone.utc)
+    else:
+        t = _dt.datetime.now(tz=_dt.timezone.utc).replace(microsecond=0)
+    return t.isoformat().replace("+00:00", "Z")
+
+
+def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = None) -> AuditResult:
+    """Run every enabled check of ``profile`` on ``dataset``.
+
+    Parameters
+    ----------
+    dataset : Dataset
+        From :func:`audit.ingest.read_table` or :func:`audit.model.from_arrays`.
+    profile : Profile
+        From :func:`audit.profiles.load_profile`.
+    audited_at : str, optional
+        ISO 8601 time to record; default now (or ``SOURCE_DATE_EPOCH``).
+
+    Returns
+    -------
+    AuditResult
+    """
+    ctx = AuditContext(dataset=dataset, profile=profile)
+    results: list[CheckResult] = []
+    for check_id, check_cls in registry.all_checks().items():
+        settings = profile.settings(check_id)
+        if not settings.enabled:
+            results.append(CheckResult(check_id, check_cls.title, "skipped",
+                                       f"disabled in profile '{profile.name}'"))
+            continue
+        result = check_cls().run(ctx)
+        ctx.absorb(result)
+        results.append(result)
+
+    from .summary import summarise  # fits, enthalpy, sources, triple point from the final state
+
+    products = summarise(ctx)
+    points = []
+    for p in dataset.points:
+        points.append(PointVerdict(
+            row=p.row, T_K=p.T_K, P_Pa=p.P_Pa, phase=ctx.phase(p), source=p.source,
+            status=ctx.status[p.row], flags=tuple(ctx.flags.get(p.row, ())),
+            cause=ctx.causes.get(p.row), residual_sigma=ctx.residual_sigma.get(p.row),
+            phase_inferred=p.row in ctx.phase_inferred and p.phase == "unknown",
+        ))
+    return AuditResult(
+        dataset=dataset,
+        profile_name=profile.name,
+        profile_sha256=profile.sha256,
+        profile_text=profile.text,
+        tool_version=__version__,
+        audited_at=audit_time(audited_at),
+        checks=tuple(results),
+        points=tuple(points),
+        fits=products.fits,
+        enthalpy=products.enthalpy,
+        sources=products.sources,
+        triple_point=products.triple_point,
+        notes=tuple(ctx.notes) + products.notes,
+        plot_data=products.plot_data,
+    )

@@ -1,0 +1,280 @@
+"""The results object: everything an audit found, and nothing else.
+
+The reports (HTML, PDF, JSON, CSV) render from an :class:`AuditResult`
+only; nothing is recomputed there.  :meth:`AuditResult.to_findings` produces
+the ``findings.json`` contract (schema_version 1, see
+``audit/schema/findings-v1.schema.json``).  Later work adds fields, never
+renames or removes them.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any, Literal, Mapping
+
+from .model import Dataset
+
+Status = Literal["pass", "warn", "fail", "skipped"]
+PointStatus = Literal["ok", "suspect", "reject", "unreadable"]
+CAUSE_KINDS = ("pressure-unit", "temperature-unit", "decimal-shift", "digit-swap", "phase-label")
+SCHEMA_VERSION = 1
+
+
+@dataclass(frozen=True)
+class PointFlag:
+    """A check's remark on one row."""
+
+    row: int
+    check: str
+    severity: Literal["warn", "fail"]
+    message: str
+
+    def to_dict(self) -> dict:
+        return {"check": self.check, "severity": self.severity, "message": self.message}
+
+
+@dataclass(frozen=True)
+class Cause:
+    """The likely cause of a suspect or rejected point, with the corrected value."""
+
+    kind: str
+    explanation: str
+    suggested_T_K: float | None
+    suggested_P_Pa: float | None
+
+    def to_dict(self) -> dict:
+        return {"kind": self.kind, "explanation": self.explanation,
+                "suggested": {"T_K": _num(self.suggested_T_K), "P_Pa": _num(self.suggested_P_Pa)}}
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    """What one check found.
+
+    ``point_status`` proposes a status for rows (``suspect`` or ``reject``);
+    the audit keeps the most severe proposal per row.  ``causes`` and
+    ``residual_sigma`` fill the matching fields of the points.
+    """
+
+    id: str
+    title: str
+    status: Status
+    message: str
+    metrics: Mapping[str, Any] = field(default_factory=dict)
+    flags: tuple[PointFlag, ...] = ()
+    point_status: Mapping[int, str] = field(default_factory=dict)
+    causes: Mapping[int, Cause] = field(default_factory=dict)
+    residual_sigma: Mapping[int, float] = field(default_factory=dict)
+    phase_inferred: Mapping[int, str] = field(default_factory=dict)
+
+    def to_dict(self) -> dict:
+        return {"id": self.id, "title": self.title, "status": self.status,
+                "message": self.message, "metrics": _jsonable(dict(self.metrics))}
+
+
+@dataclass(frozen=True)
+class PointVerdict:
+    """The audit's verdict on one input row."""
+
+    row: int
+    T_K: float | None
+    P_Pa: float | None
+    phase: str
+    source: str | None
+    status: str
+    flags: tuple[PointFlag, ...]
+    cause: Cause | None
+    residual_sigma: float | None
+    phase_inferred: bool = False
+
+    def to_dict(self) -> dict:
+        return {"row": self.row, "T_K": _num(self.T_K), "P_Pa": _num(self.P_Pa),
+                "phase": self.phase, "source": self.source, "status": self.status,
+                "flags": [f.to_dict() for f in self.flags],
+                "cause": None if self.cause is None else self.cause.to_dict(),
+                "residual_sigma": _num(self.residual_sigma)}
+
+
+@dataclass(frozen=True)
+class FitRecord:
+    """A fitted vapor-pressure equation for one branch, as reported."""
+
+    branch: str
+    equation: str
+    parameters: Mapping[str, float]
+    covariance: tuple[tuple[float, ...], ...]
+    T_range_K: tuple[float, float]
+    n_used: int
+    rms_percent: float
+    recommended: bool = True
+    extra: Mapping[str, Any] = field(default_factory=dict)
+    #: the fitted equation object, for plotting (not serialised)
+    model: Any = field(default=None, compare=False, repr=False)
+
+    def to_dict(self) -> dict:
+        d = {"branch": self.branch, "equation": self.equation,
+             "parameters": _jsonable(dict(self.parameters)),
+             "covariance": [[_num(v) for v in row] for row in self.covariance],
+             "T_range_K": [_num(self.T_range_K[0]), _num(self.T_range_K[1])],
+             "n_used": self.n_used, "rms_percent": _num(self.rms_percent)}
+        if not self.recommended:
+            d["recommended"] = False
+        d.update(_jsonable(dict(self.extra)))
+        return d
+
+
+@dataclass(frozen=True)
+class EnthalpyValue:
+    branch: str
+    T_K: float
+    dH_J_per_mol: float
+    u_dH_J_per_mol: float | None
+    real_gas_corrected: bool
+    dH_apparent_J_per_mol: float | None = None
+    delta_z: float | None = None
+
+    def to_dict(self) -> dict:
+        return {"branch": self.branch, "T_K": _num(self.T_K), "dH_J_per_mol": _num(self.dH_J_per_mol),
+                "u_dH_J_per_mol": _num(self.u_dH_J_per_mol),
+                "real_gas_corrected": self.real_gas_corrected,
+                "dH_apparent_J_per_mol": _num(self.dH_apparent_J_per_mol),
+                "delta_z": _num(self.delta_z)}
+
+
+@dataclass(frozen=True)
+class SourceAgreement:
+    source: str
+    n: int
+    bias_percent: float | None
+    u_bias_percent: float | None
+    temperature_offset_K: float | None
+    pattern: str
+    status: str
+    extra: Mapping[str, Any] = field(default_factory=dict)
+
+    def to_dict(self) -> dict:
+        d = {"source": self.source, "n": self.n, "bias_percent": _num(self.bias_percent),
+             "u_bias_percent": _num(self.u_bias_percent),
+             "temperature_offset_K": _num(self.temperature_offset_K),
+             "pattern": self.pattern, "status": self.status}
+        d.update(_jsonable(dict(self.extra)))
+        return d
+
+
+@dataclass(frozen=True)
+class TriplePointRecord:
+    T_K: float
+    u_T_K: float | None
+    P_Pa: float
+    u_P_Pa: float | None
+    dH_fus_J_per_mol: float | None
+    u_dH_fus_J_per_mol: float | None
+    reference: Mapping[str, Any] | None
+
+    def to_dict(self) -> dict:
+        return {"T_K": _num(self.T_K), "u_T_K": _num(self.u_T_K), "P_Pa": _num(self.P_Pa),
+                "u_P_Pa": _num(self.u_P_Pa), "dH_fus_J_per_mol": _num(self.dH_fus_J_per_mol),
+                "u_dH_fus_J_per_mol": _num(self.u_dH_fus_J_per_mol),
+                "reference": None if self.reference is None else _jsonable(dict(self.reference))}
+
+
+@dataclass(frozen=True)
+class AuditResult:
+    """Everything one audit of one dataset under one profile found."""
+
+    dataset: Dataset
+    profile_name: str
+    profile_sha256: str
+    profile_text: str
+    tool_version: str
+    audited_at: str
+    checks: tuple[CheckResult, ...]
+    points: tuple[PointVerdict, ...]
+    fits: tuple[FitRecord, ...] = ()
+    enthalpy: tuple[EnthalpyValue, ...] = ()
+    sources: tuple[SourceAgreement, ...] = ()
+    triple_point: TriplePointRecord | None = None
+    notes: tuple[str, ...] = ()
+    #: series prepared for plots (computed by the audit, only drawn by the report)
+    plot_data: Mapping[str, Any] = field(default_factory=dict, compare=False, repr=False)
+
+    @property
+    def verdict(self) -> str:
+        statuses = {c.status for c in self.checks}
+        if "fail" in statuses:
+            return "fail"
+        if "warn" in statuses:
+            return "warn"
+        return "pass"
+
+    def count(self, status: str) -> int:
+        return sum(1 for p in self.points if p.status == status)
+
+    @property
+    def usable_points(self) -> list[PointVerdict]:
+        return [p for p in self.points if p.status in ("ok", "suspect")]
+
+    def to_findings(self) -> dict:
+        """The ``findings.json`` document (schema_version 1)."""
+        ds = self.dataset
+        usable = self.usable_points
+        Ts = [p.T_K for p in usable]
+        Ps = [p.P_Pa for p in usable]
+        branches = sorted({p.phase for p in usable})
+        return {
+            "schema_version": SCHEMA_VERSION,
+            "tool": {"name": "vpaudit", "version": self.tool_version},
+            "profile": {"name": self.profile_name, "sha256": self.profile_sha256},
+            "input": {"file": ds.file_name, "sha256": ds.sha256, "format": ds.file_format,
+                      "rows": ds.n_rows},
+            "audited_at": self.audited_at,
+            "dataset": {
+                "substance": ds.metadata.substance,
+                "n_points": ds.n_rows,
+                "n_usable": len(usable),
+                "T_range_K": [min(Ts), max(Ts)] if Ts else None,
+                "P_range_Pa": [min(Ps), max(Ps)] if Ps else None,
+                "branches": branches,
+                "sources": ds.sources,
+                "columns": [{"role": c.role, "column": c.column, "unit": c.unit, "log": c.log,
+                             "how": c.how} for c in ds.columns],
+                "constants": {k: c.to_dict() for k, c in ds.metadata.constants.items()},
+                "notes": list(ds.notes),
+            },
+            "verdict": self.verdict,
+            "checks": [c.to_dict() for c in self.checks],
+            "points": [p.to_dict() for p in self.points],
+            "sources": [s.to_dict() for s in self.sources],
+            "fits": [f.to_dict() for f in self.fits],
+            "enthalpy": [e.to_dict() for e in self.enthalpy],
+            "triple_point": None if self.triple_point is None else self.triple_point.to_dict(),
+            "notes": list(self.notes),
+        }
+
+
+def _num(x: Any) -> float | None:
+    """A JSON-safe number: NaN and inf become null (JSON has neither)."""
+    if x is None:
+        return None
+    x = float(x)
+    return x if math.isfinite(x) else None
+
+
+def _jsonable(obj: Any) -> Any:
+    """Convert numpy scalars/arrays and tuples to plain JSON values."""
+    if obj is None or isinstance(obj, (bool, str)):
+        return obj
+    if isinstance(obj, int):
+        return obj
+    if isinstance(obj, float):
+        return _num(obj)
+    if isinstance(obj, Mapping):
+        return {str(k): _jsonable(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_jsonable(v) for v in obj]
+    if hasattr(obj, "tolist"):
+        return _jsonable(obj.tolist())
+    if hasattr(obj, "item"):
+        return _jsonable(obj.item())
+    return str(obj)

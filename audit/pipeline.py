@@ -74,6 +74,9 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
             status=ctx.status[p.row], flags=tuple(ctx.flags.get(p.row, ())),
             cause=ctx.causes.get(p.row), residual_sigma=ctx.residual_sigma.get(p.row),
             phase_inferred=p.row in ctx.phase_inferred and p.phase == "unknown",
+            deviation_percent=products.deviation_percent.get(p.row),
+            u_percent=products.u_percent.get(p.row),
+            reference_deviation_percent=products.reference_deviation_percent.get(p.row),
         ))
     return AuditResult(
         dataset=dataset,

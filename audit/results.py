@@ -87,6 +87,12 @@ class PointVerdict:
     cause: Cause | None
     residual_sigma: float | None
     phase_inferred: bool = False
+    #: 100·(P − P_fit)/P_fit against the branch's consensus fit [%]
+    deviation_percent: float | None = None
+    #: the point's standard uncertainty in the same relative terms [%]
+    u_percent: float | None = None
+    #: 100·(P − P_ref)/P_ref against the reference correlation, when one is used [%]
+    reference_deviation_percent: float | None = None
 
     def to_dict(self) -> dict:
         return {"row": self.row, "T_K": _num(self.T_K), "P_Pa": _num(self.P_Pa),

@@ -23,6 +23,9 @@ class Products:
     triple_point: TriplePointRecord | None = None
     notes: tuple[str, ...] = ()
     plot_data: Mapping[str, Any] = field(default_factory=dict)
+    deviation_percent: Mapping[int, float] = field(default_factory=dict)
+    u_percent: Mapping[int, float] = field(default_factory=dict)
+    reference_deviation_percent: Mapping[int, float] = field(default_factory=dict)
 
 
 def summarise(ctx: AuditContext) -> Products:

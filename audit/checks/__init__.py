@@ -6,6 +6,16 @@ range, outliers) run before the checks that fit what is left.
 
 from .registry import Check, Option, all_checks, get_check, register  # noqa: F401
 
+import importlib
+
+#: check modules in run order
+_CHECK_MODULES = (
+    "readability",
+    "physical_range",
+    "duplicates",
+    "monotonic",
+)
+
 _loaded = False
 
 
@@ -14,7 +24,8 @@ def _load_all() -> None:
     if _loaded:
         return
     _loaded = True
-    from . import readability, physical_range, duplicates, monotonic  # noqa: F401
+    for name in _CHECK_MODULES:
+        importlib.import_module(f"{__name__}.{name}")
 
 
 __all__ = ["Check", "Option", "all_checks", "get_check", "register"]

@@ -1,0 +1,200 @@
+"""The metadata file: what is known about the substance, in TOML.
+
+Format (our own)::
+
+    substance = "naphthalene"        # optional
+    cas = "91-20-3"                  # optional; the check digit is verified
+    notes = "..."                    # optional; text or list of texts
+    [columns]                        # optional; same keys as the command-line choices
+    temperature = "Temp"
+    temperature_unit = "degC"
+    [constants]                      # value, unit (any pint unit), source; optional uncertainty
+    T_triple = { value = 353.37, unit = "K", source = "..." }
+    [reference_equation]             # optional; kept verbatim
+
+Each constant is converted with pint to the SI unit listed in
+:data:`audit.model.CONSTANT_UNITS` (the dipole moment stays in debye).
+Anything not understood is an error naming the file and the key: a typo in a
+metadata file must not silently drop a constant.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import re
+import tomllib
+
+from audit.errors import InputError
+from audit.ingest import units as _units
+from audit.ingest.columns import OVERRIDE_FIELDS, ColumnOverrides
+from audit.model import CONSTANT_UNITS, Constant, Metadata
+
+_TOP_LEVEL = ("substance", "cas", "notes", "columns", "constants", "reference_equation")
+_CONSTANT_KEYS = ("value", "unit", "source", "uncertainty")
+_COLUMN_KEYS = tuple(f for f in OVERRIDE_FIELDS if f != "substance")
+_DIMENSIONLESS = {"", "1", "-", "dimensionless"}
+
+
+def cas_number_is_valid(cas: str) -> bool:
+    """True when ``cas`` has the CAS Registry Number form and check digit.
+
+    The check digit is the sum of the other digits, each multiplied by its
+    position counted from the right (starting at 1), modulo 10 (CAS, "CAS
+    Registry Number" check-digit rule).
+    """
+    m = re.fullmatch(r"(\d{2,7})-(\d{2})-(\d)", cas.strip())
+    if not m:
+        return False
+    digits = (m.group(1) + m.group(2))[::-1]
+    return sum((i + 1) * int(d) for i, d in enumerate(digits)) % 10 == int(m.group(3))
+
+
+def _convert(value: float, unit: str, target: str) -> float:
+    ureg = _units.registry()
+    if target == "1":
+        unit = "dimensionless" if unit.strip() in _DIMENSIONLESS else unit
+        target = "dimensionless"
+    return float(ureg.Quantity(value, unit).to(target).magnitude)
+
+
+def _number(x) -> bool:
+    return isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x)
+
+
+def _read_constant(name: str, spec, file: str) -> Constant:
+    key = f"constants.{name}"
+    if name not in CONSTANT_UNITS:
+        raise InputError(f"unknown constant {key!r}", file=file,
+                         hint="known constants: " + ", ".join(CONSTANT_UNITS))
+    if not isinstance(spec, dict):
+        raise InputError(f"{key!r} must be a table {{ value = ..., unit = \"...\", source = \"...\" }}",
+                         file=file)
+    extra = [k for k in spec if k not in _CONSTANT_KEYS]
+    if extra:
+        raise InputError(f"{key!r} has unknown key(s) {', '.join(map(repr, extra))}", file=file,
+                         hint="allowed: " + ", ".join(_CONSTANT_KEYS))
+    for needed in ("value", "unit", "source"):
+        if needed not in spec:
+            raise InputError(f"{key!r} has no {needed!r}", file=file,
+                             hint="every constant needs value, unit and source")
+    value, unit, source = spec["value"], spec["unit"], spec["source"]
+    if not _number(value):
+        raise InputError(f"{key}.value must be a finite number, not {value!r}", file=file)
+    if not isinstance(unit, str):
+        raise InputError(f"{key}.unit must be text, e.g. \"K\", not {unit!r}", file=file)
+    if not isinstance(source, str) or not source.strip():
+        raise InputError(f"{key}.source must be a non-empty text naming where the value comes from",
+                         file=file)
+    uncertainty = spec.get("uncertainty")
+    if uncertainty is not None and (not _number(uncertainty) or uncertainty < 0):
+        raise InputError(f"{key}.uncertainty must be a finite number >= 0, not {uncertainty!r}",
+                         file=file)
+    target = CONSTANT_UNITS[name]
+    try:
+        si = _convert(float(value), unit, target)
+        u_si = (None if uncertainty is None
+                else abs(_convert(float(value) + float(uncertainty), unit, target) - si))
+    except Exception as exc:  # noqa: BLE001 -- pint raises many types for unparseable unit text
+        what = "dimensionless" if target == "1" else target
+        raise InputError(f"{key}.unit {unit!r} cannot be converted to {what} ({type(exc).__name__})",
+                         file=file, hint="write units the way pint reads them, e.g. 'kJ/mol', "
+                                         "'g/mol', 'cm^3/mol', 'degC', 'MPa'") from None
+    if not math.isfinite(si):
+        raise InputError(f"{key} is out of range after conversion", file=file)
+    return Constant(value=si, unit=target, source=source.strip(), uncertainty=u_si)
+
+
+def read_metadata_and_columns(path: str | os.PathLike) -> tuple[Metadata, ColumnOverrides]:
+    """Read a metadata file: the substance information and its column choices.
+
+    Parameters
+    ----------
+    path : str or path-like
+        The TOML file.
+
+    Returns
+    -------
+    (Metadata, ColumnOverrides)
+
+    Raises
+    ------
+    InputError
+        Unreadable file, invalid TOML, unknown keys, wrong types, unknown
+        constants or units that cannot be converted.
+    """
+    file = str(path)
+    try:
+        with open(path, "rb") as fh:
+            data = fh.read()
+    except OSError as exc:
+        raise InputError(f"cannot read the metadata file ({exc.strerror or exc})", file=file) from None
+    try:
+        doc = tomllib.loads(data.decode("utf-8-sig"))
+    except UnicodeDecodeError:
+        raise InputError("the metadata file is not UTF-8 text", file=file) from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"invalid TOML: {exc}", file=file) from None
+    unknown = [k for k in doc if k not in _TOP_LEVEL]
+    if unknown:
+        raise InputError(f"unknown key(s) in the metadata file: {', '.join(map(repr, unknown))}",
+                         file=file, hint="allowed: " + ", ".join(_TOP_LEVEL))
+    for key in ("substance", "cas"):
+        if key in doc and not isinstance(doc[key], str):
+            raise InputError(f"{key!r} must be text", file=file)
+    cas = doc.get("cas")
+    if cas is not None and not cas_number_is_valid(cas):
+        raise InputError(f"'cas' = {cas!r} is not a valid CAS Registry Number (form or check digit)",
+                         file=file, hint="write it like \"91-20-3\"")
+    extra: dict[str, object] = {}
+    if "notes" in doc:
+        notes = doc["notes"]
+        if isinstance(notes, str):
+            notes = [notes]
+        if not isinstance(notes, list) or not all(isinstance(n, str) for n in notes):
+            raise InputError("'notes' must be a text or a list of texts", file=file)
+        extra["notes"] = list(notes)
+    if "reference_equation" in doc:
+        if not isinstance(doc["reference_equation"], dict):
+            raise InputError("'reference_equation' must be a table", file=file)
+        extra["reference_equation"] = doc["reference_equation"]
+    columns = doc.get("columns", {})
+    if not isinstance(columns, dict):
+        raise InputError("'columns' must be a table", file=file)
+    bad = [k for k in columns if k not in _COLUMN_KEYS]
+    if bad:
+        raise InputError(f"unknown key(s) under [columns]: {', '.join(map(repr, bad))}", file=file,
+                         hint="allowed: " + ", ".join(_COLUMN_KEYS))
+    for k, v in columns.items():
+        if not isinstance(v, str):
+            raise InputError(f"columns.{k} must be text, not {v!r}", file=file)
+    if columns:
+        extra["columns"] = dict(columns)
+    constants_table = doc.get("constants", {})
+    if not isinstance(constants_table, dict):
+        raise InputError("'constants' must be a table", file=file)
+    constants = {name: _read_constant(name, spec, file) for name, spec in constants_table.items()}
+    metadata = Metadata(substance=doc.get("substance"), cas=cas, constants=constants, extra=extra)
+    return metadata, ColumnOverrides(**columns)
+
+
+def read_metadata(path: str | os.PathLike) -> Metadata:
+    """Read a metadata TOML file.
+
+    Parameters
+    ----------
+    path : str or path-like
+
+    Returns
+    -------
+    Metadata
+        Constants in SI (see :data:`audit.model.CONSTANT_UNITS`); the
+        ``[columns]``, ``notes`` and ``[reference_equation]`` tables are kept
+        in ``extra``.
+
+    Raises
+    ------
+    InputError
+        See :func:`read_metadata_and_columns`.
+    """
+    return read_metadata_and_columns(path)[0]

@@ -1,0 +1,124 @@
+"""The vpaudit command as a user runs it: exit codes, outputs, messages.
+
+The supplier-style table below is written in the layout of the foundation
+issue's acceptance case: semicolon-separated, decimal commas, °C and mmHg,
+a footnote-marked cell.  Its pressures are water's saturation pressures from
+IAPWS-95 (via the iapws package) converted with 1 mmHg = 133.322387415 Pa
+(NIST SP 811 (2008), Appendix B).
+"""
+
+from __future__ import annotations
+
+import csv
+import hashlib
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from audit.cli import main
+from audit.schema import validate_findings
+from tests.conftest import iapws_saturation_pressure
+
+MMHG = 133.322387415  # Pa, NIST SP 811 (2008) Appendix B
+
+
+def _supplier_table(path: Path) -> list[str]:
+    t_c = [10.0, 20.0, 30.0, 40.0, 50.0, 60.0, 70.0, 80.0]
+    p = iapws_saturation_pressure([t + 273.15 for t in t_c]) / MMHG
+    cells = [f"{v:.2f}".replace(".", ",") for v in p]
+    cells[5] = cells[5] + "*"  # footnote mark
+    lines = ["Temperature (°C);Vapour pressure (mmHg);Reference"]
+    lines += [f"{t:.1f}".replace(".", ",") + f";{c};=HYPERLINK(\"x\")" if i == 2 else
+              f"{t:.1f}".replace(".", ",") + f";{c};Lab A" for i, (t, c) in enumerate(zip(t_c, cells))]
+    path.write_bytes(("\n".join(lines) + "\n").encode("cp1252"))
+    return cells
+
+
+def test_check_semicolon_mmhg_celsius_with_footnote(tmp_path, capsys):
+    data = tmp_path / "supplier.csv"
+    cells = _supplier_table(data)
+    before = hashlib.sha256(data.read_bytes()).hexdigest()
+    out = tmp_path / "out"
+    code = main(["check", str(data), "--out", str(out), "--format", "json,csv"])
+    assert code in (0, 1)
+    assert hashlib.sha256(data.read_bytes()).hexdigest() == before  # input untouched
+
+    findings = json.loads((out / "findings.json").read_text("utf-8"))
+    validate_findings(findings)
+    assert findings["input"]["rows"] == 8
+    assert findings["input"]["sha256"] == before
+    assert [p["row"] for p in findings["points"]] == list(range(1, 9))
+    # the footnote-marked cell is kept, unreadable, with its text in the reason
+    assert findings["points"][5]["status"] == "unreadable"
+    assert any("70,35*" in f["message"] or cells[5] in f["message"] for f in findings["points"][5]["flags"])
+    # 20 °C: IAPWS-95 gives 2339.2 Pa; the table printed it in mmHg to 0.01 mmHg (±0.67 Pa)
+    p20 = findings["points"][1]
+    assert p20["T_K"] == pytest.approx(293.15, abs=1e-9)
+    assert p20["P_Pa"] == pytest.approx(2339.2, abs=1.0)
+
+    with open(out / "annotated.csv", encoding="utf-8-sig", newline="") as fh:
+        rows = list(csv.reader(fh))
+    assert rows[0][:3] == ["Temperature (°C)", "Vapour pressure (mmHg)", "Reference"]
+    assert len(rows) == 1 + 8
+    assert rows[1][1] == cells[0]  # original text kept
+    assert rows[3][2] == "'=HYPERLINK(\"x\")"  # formula neutralised
+    status_col = rows[0].index("audit_status")
+    assert rows[6][status_col] == "unreadable"
+
+
+def test_missing_file_is_exit_2_with_one_message(tmp_path, capsys):
+    code = main(["check", str(tmp_path / "nope.csv"), "--out", str(tmp_path / "o")])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "nope.csv" in err and "Traceback" not in err
+    assert len(err.strip().splitlines()) == 1
+
+
+def test_unknown_unit_names_the_column(tmp_path, capsys):
+    data = tmp_path / "bad.csv"
+    data.write_text("T/K,P/furlong\n300,1\n", encoding="utf-8")
+    code = main(["check", str(data), "--out", str(tmp_path / "o")])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "P/furlong" in err and "bad.csv" in err
+
+
+def test_unknown_format_and_profile_are_usage_errors(tmp_path, capsys):
+    data = tmp_path / "w.csv"
+    data.write_text("T/K,P/Pa\n300,3536.8\n310,6231.4\n", encoding="utf-8")
+    assert main(["check", str(data), "--format", "docx", "--out", str(tmp_path / "o")]) == 2
+    assert "docx" in capsys.readouterr().err
+    assert main(["check", str(data), "--profile", "nonesuch", "--out", str(tmp_path / "o")]) == 2
+    assert "nonesuch" in capsys.readouterr().err
+
+
+def test_fail_verdict_exits_1_and_strict_turns_warn_into_1(tmp_path):
+    data = tmp_path / "w.csv"
+    # IAPWS-95: 300 K -> 3536.8 Pa, 310 K -> 6231.4 Pa, 320 K -> 10546.7 Pa; the last row drops
+    data.write_text("T/K,P/Pa\n300,3536.8\n310,6231.4\n320,1054.67\n", encoding="utf-8")
+    assert main(["check", str(data), "--out", str(tmp_path / "o"), "--format", "json"]) == 1
+    warn = tmp_path / "warn.csv"
+    warn.write_text("T/K,P/Pa\n300,3536.8\n310,n/a\n320,10546.7\n", encoding="utf-8")
+    assert main(["check", str(warn), "--out", str(tmp_path / "o2"), "--format", "json",
+                 "--profile", "default"]) in (0, 1)
+    doc = json.loads((tmp_path / "o2" / "findings.json").read_text())
+    if doc["verdict"] == "warn":
+        assert main(["check", str(warn), "--out", str(tmp_path / "o3"), "--format", "json", "--strict"]) == 1
+
+
+def test_profiles_and_explain(capsys):
+    assert main(["profiles"]) == 0
+    out = capsys.readouterr().out
+    assert "default" in out and "strict" in out and "P_tolerance_percent=1.0" in out
+    assert main(["explain", "monotonic"]) == 0
+    out = capsys.readouterr().out
+    assert "Clapeyron" in out and "T_tolerance_K" in out and "Published sources" in out
+    assert main(["explain", "no-such-check"]) == 2
+
+
+def test_python_dash_m_audit_runs():
+    proc = subprocess.run([sys.executable, "-m", "audit", "--version"], capture_output=True, text=True)
+    assert proc.returncode == 0 and proc.stdout.startswith("vpaudit ")

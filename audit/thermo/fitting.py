@@ -1,0 +1,656 @@
+"""Weighted, robust fitting of vapor-pressure equations, and choice of form.
+
+The fit minimises weighted squared residuals in ln P.  Each point's standard
+uncertainty in ln P is the *effective variance*
+
+    σ²(ln P) = (u_P/P)² + (d ln P/dT)² u_T²,
+
+with the slope d ln P/dT re-evaluated from the current fit at every
+iteration, so that a temperature uncertainty counts where the curve is steep.
+Gross errors are handled by iteratively reweighted least squares (IRLS):
+first Huber weights with a MAD scale updated each iteration (the estimator
+of statsmodels' RLM), then Tukey's redescending biweight on
+leverage-studentized residuals with the scale held at the Qn estimate
+(Rousseeuw & Croux 1993) of the Huber residuals, so a point with a unit slip
+gets weight zero instead of bending the curve.  With 0.05 % noise on 25
+water points, a good point is cut off in about 0.5-1.5 % of data sets
+(measured over 200 seeds for the 3- and 4-parameter forms).
+
+References
+----------
+.. [1] J. Orear, "Least squares when both variables have uncertainties",
+   Am. J. Phys. 50, 912 (1982), doi:10.1119/1.12972 (effective variance).
+.. [2] P. J. Huber, "Robust estimation of a location parameter", Ann. Math.
+   Stat. 35, 73 (1964), doi:10.1214/aoms/1177703732.
+.. [3] A. E. Beaton and J. W. Tukey, "The fitting of power series, meaning
+   polynomials, illustrated on band-spectroscopic data", Technometrics 16,
+   147 (1974), doi:10.1080/00401706.1974.10489171 (biweight).
+.. [5] P. J. Rousseeuw and C. Croux, "Alternatives to the median absolute
+   deviation", J. Am. Stat. Assoc. 88, 1273 (1993), doi:10.1080/01621459.1993.10476408.
+.. [4] C. M. Hurvich and C.-L. Tsai, "Regression and time series model
+   selection in small samples", Biometrika 76, 297 (1989),
+   doi:10.1093/biomet/76.2.297 (AICc).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Sequence
+
+import numpy as np
+from scipy import optimize
+
+from .constants import R
+from .enthalpy import apparent_enthalpy, heat_capacity_change
+from .equations import Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner, get_form
+
+__all__ = [
+    "VaporPressureFit",
+    "fit_equation",
+    "CandidateAssessment",
+    "EquationChoice",
+    "select_equation",
+    "CANDIDATES",
+]
+
+#: Φ⁻¹(3/4): MAD / this is a consistent estimate of a normal standard deviation.
+_MAD_NORMAL = 0.6744897501960817
+#: Huber tuning constant (95 % efficiency at the normal; Huber 1964).
+HUBER_C = 1.345
+#: Tukey biweight tuning constant (95 % efficiency at the normal).
+TUKEY_C = 4.685
+
+
+def _readonly(a) -> np.ndarray:
+    a = np.array(a, dtype=float)
+    a.setflags(write=False)
+    return a
+
+
+@dataclass(frozen=True)
+class VaporPressureFit:
+    """Result of :func:`fit_equation`.
+
+    Attributes
+    ----------
+    equation : VaporPressureEquation
+        The fitted equation.
+    params, standard_errors : ndarray
+        Parameter values and standard errors (order of ``parameter_names``).
+    parameter_names : tuple of str
+    covariance : ndarray
+        Parameter covariance from the final weighted fit; multiplied by
+        ``scale**2`` when ``scale_estimated``.
+    T, P : ndarray
+        The data fitted [K], [Pa], in the order given.
+    residuals_lnP : ndarray
+        ln P - ln P_fit for every point (also the rejected ones).
+    sigma_lnP : ndarray
+        Effective standard uncertainty of ln P per point (1 for all points
+        when no uncertainties were given).
+    weights : ndarray
+        Final robust weight of each point in [0, 1] (times any point weights
+        passed in); 0 means the point did not influence the fit.
+    scale : float
+        Residual scale sqrt(χ²/dof).  With uncertainties given it is the
+        Birge ratio (about 1 when they are consistent with the scatter);
+        without, the residual standard deviation of ln P.
+    scale_estimated : bool
+        True when no uncertainties were given, so the covariance is scaled by
+        the residual variance.
+    n_used, dof : int
+        Points with non-zero weight; n_used minus the number of parameters.
+    chi2 : float
+        Σ w_i r_i²/σ_i² over all points (robust weights included).
+    rms_percent : float
+        RMS of 100 (P - P_fit)/P_fit over the points with non-zero weight.
+    aicc, bic : float
+        Small-sample Akaike and Bayesian information criteria with the
+        common scale of the σ estimated (so the given uncertainties act as
+        relative weights): AIC = n ln(χ²/n) + 2(k+1).
+    T_range : (float, float)
+        Range of the points with non-zero weight [K].
+    T_ref : float
+        1/mean(1/T) of those points [K]: where parameter correlations are
+        smallest; a natural temperature to quote ΔH and ΔCp at.
+    converged : bool
+    iterations : int
+    robust : str
+        'none', 'huber' or 'huber+tukey'.
+    uncertainties_given : bool
+    """
+
+    equation: VaporPressureEquation
+    params: np.ndarray
+    parameter_names: tuple[str, ...]
+    covariance: np.ndarray
+    standard_errors: np.ndarray
+    T: np.ndarray
+    P: np.ndarray
+    residuals_lnP: np.ndarray
+    sigma_lnP: np.ndarray
+    weights: np.ndarray
+    scale: float
+    scale_estimated: bool
+    n_used: int
+    dof: int
+    chi2: float
+    rms_percent: float
+    aicc: float
+    bic: float
+    T_range: tuple[float, float]
+    T_ref: float
+    converged: bool
+    iterations: int
+    robust: str
+    uncertainties_given: bool
+
+    @property
+    def form_name(self) -> str:
+        return type(self.equation).__name__
+
+    @property
+    def n_params(self) -> int:
+        return len(self.params)
+
+    @property
+    def standardized_residuals(self) -> np.ndarray:
+        """Residuals divided by σ and by the scale (about N(0, 1) for good points)."""
+        s = self.scale if (self.scale_estimated and self.scale > 0) else 1.0
+        return self.residuals_lnP / (self.sigma_lnP * s)
+
+    @property
+    def used(self) -> np.ndarray:
+        return self.weights > 0
+
+    def summary(self) -> str:
+        lines = [f"{self.form_name} fit of {self.n_used} of {self.T.size} points, "
+                 f"T = {self.T_range[0]:.6g}-{self.T_range[1]:.6g} K",
+                 f"  {self.equation.describe()}"]
+        for n, v, s, u in zip(self.parameter_names, self.params, self.standard_errors,
+                              self.equation.parameter_units):
+            lines.append(f"  {n:8s} = {v:.8g} ± {s:.2g} [{u}]")
+        if self.scale_estimated:
+            lines.append(f"  no uncertainties given: scale estimated from the residuals, "
+                         f"s(ln P) = {self.scale:.3g}")
+        else:
+            lines.append(f"  χ²/dof = {self.chi2:.4g}/{self.dof} (Birge ratio {self.scale:.3g})")
+        lines.append(f"  RMS deviation {self.rms_percent:.3g} %; AICc {self.aicc:.2f}; BIC {self.bic:.2f}; "
+                     f"robust: {self.robust}; {'converged' if self.converged else 'NOT converged'} "
+                     f"after {self.iterations} iterations")
+        rejected = int(np.sum(self.weights == 0))
+        if rejected:
+            lines.append(f"  {rejected} point(s) given zero weight")
+        return "\n".join(lines)
+
+    def to_dict(self) -> dict:
+        return {
+            "equation": self.equation.to_dict(),
+            "standard_errors": dict(zip(self.parameter_names, map(float, self.standard_errors))),
+            "covariance": self.covariance.tolist(),
+            "scale": self.scale, "scale_estimated": self.scale_estimated,
+            "n_used": self.n_used, "dof": self.dof, "chi2": self.chi2,
+            "rms_percent": self.rms_percent, "aicc": self.aicc, "bic": self.bic,
+            "T_range": list(self.T_range), "T_ref": self.T_ref,
+            "converged": self.converged, "iterations": self.iterations, "robust": self.robust,
+        }
+
+
+# -- input handling -------------------------------------------------------------------
+def _as_data(T, P):
+    T = np.asarray(T, dtype=float).ravel()
+    P = np.asarray(P, dtype=float).ravel()
+    if T.size != P.size:
+        raise ValueError(f"T and P differ in length ({T.size} vs {P.size})")
+    if T.size == 0:
+        raise ValueError("no data points")
+    if not (np.all(np.isfinite(T)) and np.all(T > 0)):
+        raise ValueError("temperatures must be finite and above 0 K")
+    if not (np.all(np.isfinite(P)) and np.all(P > 0)):
+        raise ValueError("pressures must be finite and positive")
+    return T, P
+
+
+def _as_uncertainty(u, n, name):
+    if u is None:
+        return np.zeros(n)
+    arr = np.asarray(u, dtype=float)
+    if arr.ndim == 0:
+        arr = np.full(n, float(arr))
+    arr = arr.ravel()
+    if arr.size != n:
+        raise ValueError(f"{name} has {arr.size} values for {n} points")
+    if not (np.all(np.isfinite(arr)) and np.all(arr >= 0)):
+        raise ValueError(f"{name} must be finite and non-negative")
+    return arr
+
+
+def _default_fixed(cls, T, fixed: dict) -> dict:
+    fixed = dict(fixed)
+    if cls is ClarkeGlew:
+        fixed.setdefault("theta", float(1.0 / np.mean(1.0 / T)))
+        fixed.setdefault("n_terms", 3)
+    elif cls is Wagner:
+        if fixed.get("Tc") is None or fixed.get("Pc") is None:
+            raise ValueError("the Wagner form needs the critical constants Tc and Pc")
+        if np.any(T >= fixed["Tc"]):
+            raise ValueError("the Wagner form needs all temperatures below Tc")
+    elif cls is Antoine:
+        fixed.setdefault("base", "log10")
+        fixed.setdefault("P_unit", "Pa")
+        fixed.setdefault("T_unit", "K")
+    unknown = set(fixed) - _allowed_fixed(cls)
+    if unknown:
+        raise ValueError(f"{cls.__name__} does not take {sorted(unknown)}")
+    return fixed
+
+
+def _allowed_fixed(cls) -> set:
+    return {ClarkeGlew: {"theta", "p_ref", "n_terms"}, Wagner: {"Tc", "Pc", "variant"},
+            Antoine: {"base", "P_unit", "T_unit"}}.get(cls, set())
+
+
+def _n_params(cls, fixed) -> int:
+    if cls is ClarkeGlew:
+        return int(fixed["n_terms"])
+    return len(cls._names)
+
+
+# -- numerical kernels -----------------------------------------------------------------
+def _weighted_lstsq(X, y, w):
+    """Solve min Σ w (y - X b)²; return b and (XᵀWX)⁻¹ (column-scaled for conditioning)."""
+    sw = np.sqrt(w)
+    A = X * sw[:, None]
+    norms = np.linalg.norm(A, axis=0)
+    norms[norms == 0] = 1.0
+    U, s, Vt = np.linalg.svd(A / norms, full_matrices=False)
+    if s[-1] <= s[0] * 1e-14:
+        raise ValueError("the fit is ill-posed (parameters not determined by the data)")
+    b = (Vt.T @ ((U.T @ (y * sw)) / s)) / norms
+    cov = (Vt.T / s ** 2) @ Vt
+    cov = cov / np.outer(norms, norms)
+    return b, cov
+
+
+def _robust_weights(z, kind):
+    a = np.abs(z)
+    if kind == "huber":
+        return np.where(a <= HUBER_C, 1.0, HUBER_C / np.maximum(a, 1e-300))
+    u = z / TUKEY_C
+    return np.where(a < TUKEY_C, (1.0 - u * u) ** 2, 0.0)
+
+
+def _mad_scale(z, active):
+    zz = np.abs(z[active])
+    return float(np.median(zz) / _MAD_NORMAL) if zz.size else 0.0
+
+
+def _qn_scale(z) -> float:
+    from statsmodels.robust.scale import qn_scale
+
+    return float(qn_scale(np.asarray(z, dtype=float))) if z.size > 1 else 0.0
+
+
+def _antoine_start(T, y, w, fixed) -> Antoine:
+    b, _ = _weighted_lstsq(ClausiusClapeyron2(0, 0).design_matrix(T), y, w)
+    # ln P = a + b/T is the Antoine curve with C = 0 (T in K, natural log).
+    start = Antoine(A=b[0], B=-b[1], C=0.0, base="ln", P_unit="Pa", T_unit="K")
+    return start.converted(fixed["base"], fixed["P_unit"], fixed["T_unit"])
+
+
+def _solve(cls, template, T, y, w, current):
+    """One weighted solve; returns (equation, unscaled covariance)."""
+    if cls.linear:
+        X = template.design_matrix(T)
+        b, cov = _weighted_lstsq(X, y - template.design_offset(T), w)
+        return cls.from_coefficients(b, **template.fixed_parameters()), cov
+    # Antoine: nonlinear; keep T + C on the positive side of the pole.
+    Tu = current._parts(T)[3] - current.C  # T in the constants' unit
+    lo = np.array([-np.inf, -np.inf, -np.min(Tu) + 1e-6 * max(1.0, np.ptp(Tu))])
+    sw = np.sqrt(w)
+
+    def resid(x):
+        return sw * (y - current.with_params(x).ln_p(T))
+
+    def jac(x):
+        return -sw[:, None] * current.with_params(x).jacobian_ln_p(T)
+
+    x0 = current.params.copy()
+    x0[2] = max(x0[2], lo[2] + 1e-3 * max(1.0, abs(lo[2])))
+    sol = optimize.least_squares(resid, x0, jac=jac, bounds=(lo, np.full(3, np.inf)),
+                                 method="trf", x_scale="jac", xtol=1e-15, ftol=1e-15, gtol=1e-15,
+                                 max_nfev=2000)
+    eq = current.with_params(sol.x)
+    J = eq.jacobian_ln_p(T) * sw[:, None]
+    norms = np.linalg.norm(J, axis=0)
+    norms[norms == 0] = 1.0
+    _, s, Vt = np.linalg.svd(J / norms, full_matrices=False)
+    cov = ((Vt.T / s ** 2) @ Vt) / np.outer(norms, norms)
+    return eq, cov
+
+
+def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=None,
+                 max_iter: int = 200, **fixed) -> VaporPressureFit:
+    """Fit a vapor-pressure equation to (T, P) data.
+
+    Parameters
+    ----------
+    T : array_like
+        Temperatures [K].
+    P : array_like
+        Pressures [Pa].
+    form : type or str
+        An equation class of :mod:`audit.thermo.equations` or its short name
+        ('cc2', 'cc3', 'antoine', 'clarke-glew', 'wagner').
+    u_T, u_P : float or array_like, optional
+        Standard uncertainties [K], [Pa].  Without either, all points weigh
+        equally in ln P and the residual scale is estimated.
+    robust : bool or {'huber', 'tukey'}, optional
+        True or 'tukey': Huber IRLS then Tukey biweight (outliers get weight
+        0).  'huber': Huber only (every point keeps some weight).  False:
+        plain weighted least squares.
+    point_weights : array_like, optional
+        Prior weights in [0, 1] (0 excludes a point), multiplied into the
+        robust weights.
+    max_iter : int
+        Iteration limit of the effective-variance / IRLS loop.
+    **fixed
+        Quantities held fixed: ``theta``, ``p_ref``, ``n_terms`` (Clarke-Glew),
+        ``Tc``, ``Pc``, ``variant`` (Wagner), ``base``, ``P_unit``, ``T_unit``
+        (Antoine).
+
+    Returns
+    -------
+    VaporPressureFit
+
+    Notes
+    -----
+    Verified against: statsmodels ``RLM`` with ``HuberT`` norm and MAD scale
+    (robust='huber', no uncertainties: same parameters to 1e-6 relative) and
+    ``WLS`` (robust=False with u_P only: same parameters and covariance), in
+    ``tests/thermo/test_fitting_robust.py``.
+    """
+    cls = get_form(form)
+    T, P = _as_data(T, P)
+    n = T.size
+    uT = _as_uncertainty(u_T, n, "u_T")
+    uP = _as_uncertainty(u_P, n, "u_P")
+    given = u_T is not None or u_P is not None
+    prior = np.ones(n) if point_weights is None else _as_uncertainty(point_weights, n, "point_weights")
+    if np.any(prior > 1):
+        raise ValueError("point_weights must lie in [0, 1]")
+    active = prior > 0
+    fixed = _default_fixed(cls, T[active] if active.any() else T, fixed)
+    k = _n_params(cls, fixed)
+    if active.sum() <= k:
+        raise ValueError(f"{cls.__name__} has {k} parameters: needs more than {k} points, got {int(active.sum())}")
+    if given and np.any((uP == 0) & (uT == 0) & active):
+        raise ValueError("a point has zero uncertainty in both T and P")
+    if robust is True:
+        robust = "tukey"
+    if robust not in (False, None, "huber", "tukey"):
+        raise ValueError("robust must be True, False, 'huber' or 'tukey'")
+    y = np.log(P)
+    rel_uP = uP / P
+
+    if cls.linear:
+        template = cls.from_coefficients(np.zeros(k), **fixed)
+        eq, cov = _solve(cls, template, T, y, prior, None)
+    else:
+        template = None
+        eq = _antoine_start(T, y, prior, fixed)
+        eq, cov = _solve(cls, None, T, y, prior, eq)
+
+    phase = "huber" if robust else None
+    mad = 1.0
+    robust_w = np.ones(n)
+    w = prior.copy()
+    converged = False
+    it = 0
+    prev_lnp = eq.ln_p(T)
+    for it in range(1, max_iter + 1):
+        sigma = np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2) if given else np.ones(n)
+        z = (y - eq.ln_p(T)) / sigma
+        if phase is not None:
+            # Studentize by leverage for the redescending phase: an end point of
+            # a flexible curve pulls the curve towards itself, so its raw
+            # residual understates how far off it is.  (The Huber phase uses
+            # raw residuals, exactly as statsmodels' RLM does.)
+            J = template.design_matrix(T) if cls.linear else eq.jacobian_ln_p(T)
+            h = np.clip(w * np.einsum("ij,jk,ik->i", J, cov, J), 0.0, 0.99)
+            z_stud = z / np.sqrt(1.0 - h)
+        if phase == "huber":
+            mad = _mad_scale(z, active)
+            if mad > 0:
+                robust_w = _robust_weights(z / mad, "huber")
+        elif phase == "tukey" and mad > 0:
+            robust_w = _robust_weights(z_stud / mad, "tukey")
+            if np.sum(active & (robust_w > 0)) <= k:
+                robust_w = _robust_weights(z / mad, "huber")  # too few left: stay with Huber
+        w = prior * robust_w / sigma ** 2
+        eq, cov = _solve(cls, template, T, y, w, eq)
+        lnp = eq.ln_p(T)
+        change = float(np.max(np.abs(lnp - prev_lnp)))
+        prev_lnp = lnp
+        if change < 1e-11:
+            if phase == "huber" and robust == "tukey":
+                # Hold the scale for the redescending phase at Qn of the Huber
+                # residuals: as robust as the MAD but about twice as efficient,
+                # so fewer good points are cut off by a scale that came out low.
+                phase = "tukey"
+                mad = _qn_scale(z_stud[active]) or mad
+                continue
+            converged = True
+            break
+
+    sigma = np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2) if given else np.ones(n)
+    resid = y - eq.ln_p(T)
+    weights = prior * robust_w
+    used = weights > 0
+    n_used = int(used.sum())
+    dof = n_used - k
+    chi2 = float(np.sum(weights * (resid / sigma) ** 2))
+    scale = math.sqrt(chi2 / dof) if dof > 0 else float("nan")
+    covariance = cov * scale ** 2 if not given else cov
+    se = np.sqrt(np.diag(covariance))
+    rel = np.expm1(resid[used]) * 100.0  # (P - Pfit)/Pfit in %
+    rms = float(np.sqrt(np.mean(rel ** 2)))
+    rss = max(chi2, 1e-300)
+    m = n_used
+    aic = m * math.log(rss / m) + 2 * (k + 1)
+    aicc = aic + (2 * (k + 1) * (k + 2) / (m - k - 2) if m - k - 2 > 0 else math.inf)
+    bic = m * math.log(rss / m) + (k + 1) * math.log(m)
+    Tu = T[used]
+    return VaporPressureFit(
+        equation=eq, params=_readonly(eq.params), parameter_names=tuple(eq.parameter_names),
+        covariance=_readonly(covariance), standard_errors=_readonly(se), T=_readonly(T), P=_readonly(P),
+        residuals_lnP=_readonly(resid), sigma_lnP=_readonly(sigma), weights=_readonly(weights),
+        scale=scale, scale_estimated=not given, n_used=n_used, dof=dof, chi2=chi2, rms_percent=rms,
+        aicc=aicc, bic=bic, T_range=(float(Tu.min()), float(Tu.max())),
+        T_ref=float(1.0 / np.mean(1.0 / Tu)), converged=converged, iterations=it,
+        robust={None: "none", False: "none", "huber": "huber", "tukey": "huber+tukey"}[robust],
+        uncertainties_given=given,
+    )
+
+
+# -- choice of equation ---------------------------------------------------------------
+#: Candidate forms offered by :func:`select_equation`: name -> (form, fixed kwargs).
+CANDIDATES: dict[str, tuple[type, dict]] = {
+    "clausius-clapeyron-2": (ClausiusClapeyron2, {}),
+    "clausius-clapeyron-3": (get_form("cc3"), {}),
+    "antoine": (Antoine, {}),
+    "clarke-glew-4": (ClarkeGlew, {"n_terms": 4}),
+    "wagner-2.5-5": (Wagner, {"variant": "2.5-5"}),
+    "wagner-3-6": (Wagner, {"variant": "3-6"}),
+}
+
+DEFAULT_CANDIDATES = ("clausius-clapeyron-2", "clausius-clapeyron-3", "antoine",
+                      "clarke-glew-4", "wagner-2.5-5")
+
+
+@dataclass(frozen=True)
+class CandidateAssessment:
+    """One candidate form in :func:`select_equation`."""
+
+    name: str
+    n_params: int
+    fit: VaporPressureFit | None
+    aicc: float
+    bic: float
+    admissible: bool
+    reasons: tuple[str, ...] = ()
+    dCp_ref: float = math.nan
+    u_dCp_ref: float = math.nan
+
+
+@dataclass(frozen=True)
+class EquationChoice:
+    """Result of :func:`select_equation`."""
+
+    chosen: VaporPressureFit
+    chosen_name: str
+    candidates: tuple[CandidateAssessment, ...]
+    reason: str
+    point_weights: np.ndarray = field(repr=False, default=None)
+
+    def candidate(self, name: str) -> CandidateAssessment:
+        for c in self.candidates:
+            if c.name == name:
+                return c
+        raise KeyError(name)
+
+    def summary(self) -> str:
+        lines = [f"chosen: {self.chosen_name} — {self.reason}"]
+        for c in self.candidates:
+            a = f"AICc {c.aicc:9.2f}  BIC {c.bic:9.2f}" if c.fit is not None else " " * 29
+            lines.append(f"  {c.name:22s} k={c.n_params}  {a}  "
+                         f"{'ok' if c.admissible else 'rejected'}"
+                         + (f": {'; '.join(c.reasons)}" if c.reasons else ""))
+        return "\n".join(lines)
+
+
+def _direction_changes(values: np.ndarray) -> int:
+    d = np.diff(values)
+    tol = 1e-9 * np.max(np.abs(values))
+    s = np.sign(d[np.abs(d) > tol])
+    return int(np.sum(s[1:] != s[:-1])) if s.size > 1 else 0
+
+
+def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAULT_CANDIDATES,
+                    Tc: float | None = None, Pc: float | None = None, *, branch: str = "liquid",
+                    robust: bool = True, significance: float = 2.0,
+                    max_params_per_point: float = 1.0 / 3.0) -> EquationChoice:
+    """Choose a vapor-pressure equation by AICc among physically sane candidates.
+
+    Parameters
+    ----------
+    T, P : array_like
+        Temperatures [K] and pressures [Pa].
+    u_T, u_P : float or array_like, optional
+        Standard uncertainties [K], [Pa].
+    candidates : sequence of str
+        Names from :data:`CANDIDATES`.
+    Tc, Pc : float, optional
+        Critical constants [K], [Pa]; the Wagner forms are offered only with them.
+    branch : {'liquid', 'solid', 'unknown'}
+        Condensed phase.  The ΔCp < 0 rule is applied to 'liquid' and
+        'unknown' only: for solids ΔCp = Cp,gas - Cp,solid may be positive at
+        low temperature (ice below about 240 K).
+    robust : bool
+        Screen gross errors with a robust Clausius-Clapeyron fit first; the
+        resulting weights are used for all candidates so that their AICc
+        values refer to the same points.
+    significance : float
+        Coverage factor for "significantly positive ΔCp" (ΔCp - k u > 0).
+    max_params_per_point : float
+        Candidates with more than this fraction of n parameters are not
+        offered (at least 2 parameters always are).
+
+    Returns
+    -------
+    EquationChoice
+
+    Notes
+    -----
+    A candidate is rejected when, over the fitted range, its apparent
+    enthalpy -R d ln P/d(1/T) is ≤ 0 anywhere, changes direction more than
+    once (oscillates), or (liquids) its apparent ΔCp at T_ref is positive
+    beyond `significance` standard uncertainties.  Among the rest the lowest
+    AICc wins; when every candidate is rejected the two-parameter
+    Clausius-Clapeyron fit is returned and the reason says so.
+    """
+    T, P = _as_data(T, P)
+    n = T.size
+    if branch not in ("liquid", "solid", "unknown"):
+        raise ValueError("branch must be 'liquid', 'solid' or 'unknown'")
+    names = list(candidates)
+    for name in names:
+        if name not in CANDIDATES:
+            raise ValueError(f"unknown candidate {name!r}; known: {sorted(CANDIDATES)}")
+    if "clausius-clapeyron-2" not in names:
+        names.insert(0, "clausius-clapeyron-2")
+    max_k = max(2, int(math.floor(n * max_params_per_point)))
+
+    if robust:
+        screen_form = "cc3" if max_k >= 3 and n >= 6 else "cc2"
+        screen = fit_equation(T, P, screen_form, u_T, u_P, robust=True)
+        pw = np.array(screen.weights)
+    else:
+        pw = np.ones(n)
+
+    assessed: list[CandidateAssessment] = []
+    for name in names:
+        cls, extra = CANDIDATES[name]
+        kw = dict(extra)
+        k = _n_params(cls, _default_fixed(cls, T, kw) if cls is not Wagner else kw)
+        reasons: list[str] = []
+        if k > max_k:
+            assessed.append(CandidateAssessment(name, k, None, math.inf, math.inf, False,
+                                                (f"{k} parameters is too many for {n} points",)))
+            continue
+        if cls is Wagner:
+            if Tc is None or Pc is None:
+                assessed.append(CandidateAssessment(name, k, None, math.inf, math.inf, False,
+                                                    ("needs Tc and Pc",)))
+                continue
+            kw.update(Tc=Tc, Pc=Pc)
+        try:
+            fit = fit_equation(T, P, cls, u_T, u_P, robust=False, point_weights=pw, **kw)
+        except (ValueError, np.linalg.LinAlgError) as exc:
+            assessed.append(CandidateAssessment(name, k, None, math.inf, math.inf, False,
+                                                (f"fit failed: {exc}",)))
+            continue
+        grid = np.linspace(fit.T_range[0], fit.T_range[1], 201)
+        dH = apparent_enthalpy(fit.equation, grid)
+        if np.any(dH <= 0):
+            reasons.append(f"implied ΔH ≤ 0 in range (minimum {dH.min() / 1000:.3g} kJ/mol)")
+        nchg = _direction_changes(dH)
+        if nchg > 1:
+            reasons.append(f"implied ΔH(T) oscillates ({nchg} changes of direction in range)")
+        cp = heat_capacity_change(fit, fit.T_ref)
+        if branch != "solid" and cp.value - significance * cp.uncertainty > 0:
+            reasons.append(f"implied ΔCp = {cp.value:.3g} ± {cp.uncertainty:.2g} J/(mol K) at "
+                           f"{fit.T_ref:.5g} K is significantly positive (ΔCp < 0 for a liquid)")
+        if not fit.converged:
+            reasons.append("fit did not converge")
+        assessed.append(CandidateAssessment(name, k, fit, fit.aicc, fit.bic, not reasons, tuple(reasons),
+                                            float(cp.value), float(cp.uncertainty)))
+
+    ok = [c for c in assessed if c.admissible]
+    if ok:
+        best = min(ok, key=lambda c: c.aicc)
+        others = sorted((c for c in ok if c is not best), key=lambda c: c.aicc)
+        reason = f"lowest AICc among {len(ok)} admissible candidate(s)"
+        if others:
+            reason += f" (next: {others[0].name}, ΔAICc = {others[0].aicc - best.aicc:.2f})"
+    else:
+        best = next(c for c in assessed if c.name == "clausius-clapeyron-2")
+        if best.fit is None:
+            raise ValueError("no candidate equation could be fitted")
+        reason = "every candidate failed a physical check; falling back to the two-parameter form"
+    rejected = [f"{c.name}: {'; '.join(c.reasons)}" for c in assessed if not c.admissible]
+    if rejected:
+        reason += ". Not chosen: " + " | ".join(rejected)
+    return EquationChoice(chosen=best.fit, chosen_name=best.name, candidates=tuple(assessed),
+                          reason=reason, point_weights=_readonly(pw))

@@ -1,0 +1,186 @@
+"""Residual structure and curvature statistics of vapor-pressure fits.
+
+Pure statistics (no thresholds): the checks decide what is significant.
+
+References
+----------
+.. [1] A. Wald and J. Wolfowitz, "On a test whether two samples are from the
+   same population", Ann. Math. Stat. 11, 147-162 (1940),
+   doi:10.1214/aoms/1177731909 (runs test).
+.. [2] J. Durbin and G. S. Watson, "Testing for serial correlation in least
+   squares regression. I", Biometrika 37, 409-428 (1950),
+   doi:10.1093/biomet/37.3-4.409.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy import stats
+
+from .enthalpy import heat_capacity_change
+
+__all__ = ["CurvatureTest", "curvature_test", "RunsTest", "residual_runs"]
+
+
+@dataclass(frozen=True)
+class CurvatureTest:
+    """Does the richer (curved) form fit significantly better?
+
+    Attributes
+    ----------
+    method : str
+        'F' (scale estimated from residuals) or 'chi2' (uncertainties given:
+        the χ² difference is referred to χ²(Δk)).
+    statistic, p_value : float
+    df : tuple of int
+        (Δk, residual dof) for F; (Δk,) for χ².
+    dCp, u_dCp : float
+        Apparent ΔCp of the richer fit at `T_ref` and its standard
+        uncertainty [J/(mol K)].
+    T_ref : float
+        [K].
+    """
+
+    method: str
+    statistic: float
+    p_value: float
+    df: tuple[int, ...]
+    dCp: float
+    u_dCp: float
+    T_ref: float
+
+    def summary(self) -> str:
+        return (f"curvature: {self.method} = {self.statistic:.4g} (df {self.df}), p = {self.p_value:.3g}; "
+                f"implied ΔCp = {self.dCp:.3g} ± {self.u_dCp:.2g} J/(mol K) at {self.T_ref:.5g} K")
+
+
+def curvature_test(fit2, fit3) -> CurvatureTest:
+    """Compare a straight ln P vs 1/T fit with a curved (nested) one.
+
+    Parameters
+    ----------
+    fit2, fit3 : VaporPressureFit
+        Fits of the same points with the same weights (use ``robust=False``
+        or the same ``point_weights``); `fit3` has more parameters.
+
+    Returns
+    -------
+    CurvatureTest
+
+    Notes
+    -----
+    F = ((χ²₂ - χ²₃)/Δk)/(χ²₃/dof₃) when the scale was estimated; with given
+    uncertainties the χ² difference is referred to χ²(Δk).  The implied ΔCp
+    is d/dT of the apparent enthalpy of `fit3` at its T_ref.  Verified
+    against statsmodels ``OLSResults.compare_f_test`` in
+    ``tests/thermo/test_iapws95_saturation.py``.
+    """
+    if fit3.n_params <= fit2.n_params:
+        raise ValueError("the second fit must have more parameters than the first")
+    if fit2.T.size != fit3.T.size or not np.array_equal(fit2.T, fit3.T) or not np.array_equal(fit2.P, fit3.P):
+        raise ValueError("the two fits must be of the same data")
+    if not np.array_equal(fit2.weights > 0, fit3.weights > 0):
+        raise ValueError("the two fits used different points; refit with the same point weights")
+    dk = fit3.n_params - fit2.n_params
+    d_chi2 = max(fit2.chi2 - fit3.chi2, 0.0)
+    if fit3.scale_estimated:
+        F = (d_chi2 / dk) / (fit3.chi2 / fit3.dof) if fit3.chi2 > 0 else math.inf
+        stat, p, df, method = F, float(stats.f.sf(F, dk, fit3.dof)), (dk, fit3.dof), "F"
+    else:
+        stat, p, df, method = d_chi2, float(stats.chi2.sf(d_chi2, dk)), (dk,), "chi2"
+    cp = heat_capacity_change(fit3, fit3.T_ref)
+    return CurvatureTest(method=method, statistic=float(stat), p_value=p, df=df, dCp=float(cp.value),
+                         u_dCp=float(cp.uncertainty), T_ref=fit3.T_ref)
+
+
+@dataclass(frozen=True)
+class RunsTest:
+    """Sign runs of residuals ordered by T.
+
+    Attributes
+    ----------
+    n_pos, n_neg, runs : int
+        Numbers of positive and negative residuals (zeros dropped) and of runs.
+    expected_runs : float
+    z : float
+        (runs - expected)/sd, no continuity correction.
+    p_value : float
+        Two-sided normal p-value.
+    p_value_too_few : float
+        One-sided: too few runs (systematic misfit, e.g. unmodelled curvature).
+    durbin_watson : float
+        Durbin-Watson statistic of the residuals (about 2 without serial correlation).
+    longest_run : int
+    longest_run_start, longest_run_stop : int
+        Index range [start, stop) of the longest same-sign run in the input order.
+    """
+
+    n_pos: int
+    n_neg: int
+    runs: int
+    expected_runs: float
+    z: float
+    p_value: float
+    p_value_too_few: float
+    durbin_watson: float
+    longest_run: int
+    longest_run_start: int
+    longest_run_stop: int
+
+    def summary(self) -> str:
+        return (f"{self.runs} runs of signs (expected {self.expected_runs:.1f}; z = {self.z:.2f}, "
+                f"p = {self.p_value:.3g}, too few: p = {self.p_value_too_few:.3g}); "
+                f"Durbin-Watson {self.durbin_watson:.2f}; longest run {self.longest_run} points "
+                f"[{self.longest_run_start}:{self.longest_run_stop}]")
+
+
+def residual_runs(residuals_sorted_by_T) -> RunsTest:
+    """Wald-Wolfowitz runs test on the signs of residuals, and Durbin-Watson.
+
+    Parameters
+    ----------
+    residuals_sorted_by_T : array_like
+        Residuals in order of increasing T.  Exact zeros are dropped from the
+        run count (they belong to neither sign).
+
+    Returns
+    -------
+    RunsTest
+
+    Notes
+    -----
+    μ = 2 n₊ n₋/n + 1, σ² = 2 n₊ n₋ (2 n₊ n₋ - n)/(n² (n - 1)) [1].
+    Verified against ``statsmodels.sandbox.stats.runs.runstest_1samp``
+    (cutoff 0, no correction) and ``statsmodels.stats.stattools.durbin_watson``
+    in ``tests/thermo/test_stats_runs.py``.
+    """
+    from statsmodels.stats.stattools import durbin_watson
+
+    r = np.asarray(residuals_sorted_by_T, dtype=float).ravel()
+    if r.size < 2 or not np.all(np.isfinite(r)):
+        raise ValueError("need at least two finite residuals")
+    nonzero = np.flatnonzero(r != 0)
+    s = np.sign(r[nonzero])
+    n_pos, n_neg = int(np.sum(s > 0)), int(np.sum(s < 0))
+    n = n_pos + n_neg
+    changes = np.flatnonzero(s[1:] != s[:-1]) + 1
+    runs = int(changes.size + 1) if n else 0
+    if n_pos and n_neg and n > 1:
+        mu = 2.0 * n_pos * n_neg / n + 1.0
+        var = 2.0 * n_pos * n_neg * (2.0 * n_pos * n_neg - n) / (n * n * (n - 1.0))
+        z = (runs - mu) / math.sqrt(var) if var > 0 else 0.0
+        p2, p1 = float(2 * stats.norm.sf(abs(z))), float(stats.norm.cdf(z))
+    else:  # all residuals of one sign: a single run, maximal structure
+        mu, z, p2, p1 = 1.0, math.nan, math.nan, math.nan
+    bounds = np.concatenate([[0], changes, [s.size]])
+    lengths = np.diff(bounds)
+    j = int(np.argmax(lengths)) if lengths.size else 0
+    start = int(nonzero[bounds[j]]) if lengths.size else 0
+    stop = int(nonzero[bounds[j + 1] - 1] + 1) if lengths.size else 0
+    return RunsTest(n_pos=n_pos, n_neg=n_neg, runs=runs, expected_runs=float(mu), z=float(z), p_value=p2,
+                    p_value_too_few=p1, durbin_watson=float(durbin_watson(r)),
+                    longest_run=int(lengths[j]) if lengths.size else 0,
+                    longest_run_start=start, longest_run_stop=stop)

@@ -1,0 +1,67 @@
+"""Runs test and Durbin-Watson against statsmodels; local enthalpy and steps.
+
+Sources: statsmodels ``runstest_1samp`` and ``durbin_watson`` (independent
+implementations of Wald & Wolfowitz 1940 and Durbin & Watson 1950);
+IAPWS-95 and IAPWS R14 data via the ``iapws`` package; ΔH_fus(Tt) = 6.007
+kJ/mol (IAPWS).
+"""
+
+import numpy as np
+import pytest
+from statsmodels.sandbox.stats.runs import runstest_1samp
+from statsmodels.stats.stattools import durbin_watson
+
+from audit.thermo import enthalpy_steps, local_enthalpy, residual_runs
+
+from ._data import iapws_ice, iapws_liquid, noisy
+
+
+def test_runs_vs_statsmodels():
+    r = np.random.default_rng(3).standard_normal(40)
+    ours = residual_runs(r)
+    z, p = runstest_1samp(r, cutoff=0, correction=False)
+    assert ours.z == pytest.approx(z, rel=1e-12)
+    assert ours.p_value == pytest.approx(p, rel=1e-12)
+    assert ours.durbin_watson == pytest.approx(durbin_watson(r), rel=1e-12)
+
+
+def test_longest_run_location():
+    r = np.array([1, -1, 1, 1, 1, 1, -1, 1, -1.0])
+    res = residual_runs(r)
+    assert (res.longest_run, res.longest_run_start, res.longest_run_stop) == (4, 2, 6)
+    assert res.runs == 6
+
+
+def test_local_enthalpy_tracks_iapws():
+    T = np.linspace(280, 370, 31)
+    P = noisy(iapws_liquid(T), 2e-4, seed=12)
+    le = local_enthalpy(T, P, u_P=2e-4 * P, window=7)
+    # Apparent ΔH of IAPWS-95 (= -R dlnp/d(1/T) of the full formulation at
+    # the window centre, by finite difference); a 7-point window over 18 K
+    # has u ≈ 0.1-0.2 kJ/mol: 3u.
+    h = 1e-3
+    ref = np.array([-8.314462618 * (np.log(iapws_liquid(t + h)[0]) - np.log(iapws_liquid(t - h)[0]))
+                    / (1 / (t + h) - 1 / (t - h)) for t in le.T_center])
+    assert np.all(np.abs(le.dH - ref) < 3 * le.u_dH + 50)  # 50 J/mol: ΔH curvature within a window
+
+
+def test_enthalpy_step_at_triple_point():
+    Ti = np.linspace(230, 273.16, 15)
+    Tl = np.linspace(274, 320, 15)
+    T = np.concatenate([Ti, Tl])
+    P = np.concatenate([noisy(iapws_ice(Ti), 5e-4, 1), noisy(iapws_liquid(Tl), 5e-4, 2)])
+    st = enthalpy_steps(T, P)
+    assert 273.0 < st.T_step < 274.2  # between the last ice and first liquid point
+    # Step = -ΔH_fus (6.007 kJ/mol): within 4 u + 5 % (the base model has
+    # constant ΔCp on both sides, the two phases' ΔCp differ).
+    assert abs(st.dH_step + 6007) < 4 * st.u_dH_step + 300
+    assert st.p_value_adjusted < 1e-6
+
+
+def test_no_step_in_smooth_data():
+    T = np.linspace(280, 370, 30)
+    P = noisy(iapws_liquid(T), 5e-4, seed=13)
+    st = enthalpy_steps(T, P)
+    # Smooth data: the scanned maximum is not significant after adjustment
+    # (would fail by chance in well under 5 % of seeds).
+    assert st.p_value_adjusted > 0.01

@@ -11,13 +11,14 @@ from __future__ import annotations
 
 import datetime as _dt
 import os
+from dataclasses import replace
 
 from . import __version__
 from .checks import registry
 from .context import AuditContext
 from .model import Dataset
 from .profiles import Profile
-from .results import AuditResult, CheckResult, PointVerdict
+from .results import AuditResult, Cause, CheckResult, PointVerdict
 
 
 def audit_time(fixed: str | None = None) -> str:
@@ -34,6 +35,15 @@ def audit_time(fixed: str | None = None) -> str:
     else:
         t = _dt.datetime.now(tz=_dt.timezone.utc).replace(microsecond=0)
     return t.isoformat().replace("+00:00", "Z")
+
+
+def _complete(cause: Cause | None, p) -> Cause | None:
+    """A suggestion names both values: the one a cause leaves alone is kept as read."""
+    if cause is None:
+        return None
+    return replace(cause,
+                   suggested_T_K=p.T_K if cause.suggested_T_K is None else cause.suggested_T_K,
+                   suggested_P_Pa=p.P_Pa if cause.suggested_P_Pa is None else cause.suggested_P_Pa)
 
 
 def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = None) -> AuditResult:
@@ -72,7 +82,7 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
         points.append(PointVerdict(
             row=p.row, T_K=p.T_K, P_Pa=p.P_Pa, phase=ctx.phase(p), source=p.source,
             status=ctx.status[p.row], flags=tuple(ctx.flags.get(p.row, ())),
-            cause=ctx.causes.get(p.row), residual_sigma=ctx.residual_sigma.get(p.row),
+            cause=_complete(ctx.causes.get(p.row), p), residual_sigma=ctx.residual_sigma.get(p.row),
             phase_inferred=p.row in ctx.phase_inferred and p.phase == "unknown",
             deviation_percent=products.deviation_percent.get(p.row),
             u_percent=products.u_percent.get(p.row),

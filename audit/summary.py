@@ -1,15 +1,20 @@
 """Collect the audit's products (fits, enthalpy, sources, triple point)
 from the final state of a run, once every check has had its say.
 
-Checks leave their products in :attr:`AuditContext.shared`; this module only
-gathers them (and the plot series the report draws), so that the reports
-render and nothing is computed twice.
+Checks leave their products in :attr:`AuditContext.shared`; this module
+gathers them, and evaluates each branch's recommended equation (the one the
+checks used, or — when every fitting check is disabled — chosen now from the
+points left usable) for the ``fits`` and ``enthalpy`` sections of the
+contract.  The report renders these; it computes nothing itself.
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from typing import Any, Mapping
+
+import numpy as np
 
 from .context import AuditContext
 from .results import EnthalpyValue, FitRecord, SourceAgreement, TriplePointRecord
@@ -28,11 +33,54 @@ class Products:
     reference_deviation_percent: Mapping[int, float] = field(default_factory=dict)
 
 
+def _fit_record(branch: str, choice) -> FitRecord:
+    fit = choice.chosen
+    eq = fit.equation
+    params = {n: float(v) for n, v in zip(fit.parameter_names, fit.params)}
+    extra = {"form": eq.to_dict(), "description": eq.describe(),
+             "standard_errors": {n: float(v) for n, v in zip(fit.parameter_names, fit.standard_errors)},
+             "scale": fit.scale, "scale_estimated": fit.scale_estimated,
+             "uncertainties_given": fit.uncertainties_given,
+             "aicc": fit.aicc, "bic": fit.bic, "selection": choice.reason,
+             "candidates": [{"name": c.name, "n_params": c.n_params, "aicc": c.aicc, "admissible": c.admissible,
+                             "reasons": list(c.reasons)} for c in choice.candidates]}
+    return FitRecord(branch=branch, equation=choice.chosen_name, parameters=params,
+                     covariance=tuple(tuple(float(v) for v in row) for row in np.asarray(fit.covariance)),
+                     T_range_K=(float(fit.T_range[0]), float(fit.T_range[1])), n_used=int(fit.n_used),
+                     rms_percent=float(fit.rms_percent), extra=extra, model=eq)
+
+
 def summarise(ctx: AuditContext) -> Products:
+    from .checks._fits import implied, recommended
+
+    fits: list[FitRecord] = []
+    enthalpy: list[EnthalpyValue] = []
+    notes: list[str] = []
+    for branch in ctx.branches():
+        choice, data = recommended(ctx, branch)
+        if choice is None:
+            continue
+        fits.append(_fit_record(branch, choice))
+        h, corrected, why = implied(ctx, branch, data.T, data.P)
+        notes.append(f"{branch} enthalpy: {h.correction}" + ("" if corrected else f" ({why})"))
+        for i, T in enumerate(data.T):
+            enthalpy.append(EnthalpyValue(
+                branch=branch, T_K=float(T), dH_J_per_mol=float(h.dH[i]),
+                u_dH_J_per_mol=_finite(h.u_dH[i]), real_gas_corrected=corrected,
+                dH_apparent_J_per_mol=float(h.dH_apparent[i]), delta_z=float(h.delta_z[i])))
     return Products(
-        fits=tuple(ctx.shared.get("fit_records", ())),
-        enthalpy=tuple(ctx.shared.get("enthalpy_records", ())),
+        fits=tuple(fits),
+        enthalpy=tuple(enthalpy),
         sources=tuple(ctx.shared.get("source_records", ())),
         triple_point=ctx.shared.get("triple_point_record"),
+        notes=tuple(notes),
         plot_data=dict(ctx.shared.get("plot_data", {})),
+        deviation_percent=dict(ctx.shared.get("deviation_percent", {})),
+        u_percent=dict(ctx.shared.get("u_percent", {})),
+        reference_deviation_percent=dict(ctx.shared.get("reference_deviation_percent", {})),
     )
+
+
+def _finite(x) -> float | None:
+    x = float(x)
+    return x if math.isfinite(x) else None

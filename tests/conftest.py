@@ -29,3 +29,19 @@ def default_profile():
     from audit.profiles import load_profile
 
     return load_profile("default")
+
+
+@pytest.fixture
+def profile_without(tmp_path):
+    """A profile extending default with the named checks disabled (to test one check alone)."""
+    from audit.profiles import load_profile
+
+    def make(*check_ids):
+        body = '[profile]\nname = "test"\nextends = "default"\n'
+        for cid in check_ids:
+            body += f'\n[checks.{cid}]\nenabled = false\n'
+        path = tmp_path / "without.toml"
+        path.write_text(body, encoding="utf-8")
+        return load_profile(str(path))
+
+    return make

@@ -35,7 +35,8 @@ class Duplicates(Check):
 
     **Why it matters.** A vapor pressure is a function of temperature: two
     different pressures at one temperature cannot both be right, and the
-    outlier check alone may not tell which one is wrong.
+    outlier check alone may not tell which one is wrong.  Rows the outlier
+    screening rejected are left out (they carry their own explanation).
 
     **Example.** rows 7 and 8 at 320.00 K with 10.65 kPa and 10.05 kPa → both
     suspect: "P differs by 5.8 % from row 8 at the same T (limit 1 %)".

@@ -24,7 +24,9 @@ class Monotonic(Check):
     **Why it matters.** The Clapeyron equation, dP/dT = ΔH/(T·ΔV), has
     ΔH > 0 and ΔV > 0 for vaporization and sublimation, so a saturation
     pressure must increase with temperature.  A fall is a typing error, a
-    unit slip or a mislabelled phase.
+    unit slip or a mislabelled phase.  The check runs after the outlier
+    screening and judges the rows it kept: a rejected row already carries its
+    explanation and does not drag its neighbour into a pair.
 
     **Example.** 300 K → 3.54 kPa, 305 K → 3.45 kPa → "P falls from row 4 to
     row 5 as T rises by 5 K".

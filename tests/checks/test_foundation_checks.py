@@ -48,22 +48,22 @@ def test_supercritical_and_nonpositive_rows_rejected(default_profile):
     assert chk.metrics["n_outside"] == 3
 
 
-def test_conflicting_duplicate_marks_both_rows(default_profile):
+def test_conflicting_duplicate_marks_both_rows(profile_without):
     T = np.array([300.0, 310.0, 310.0, 320.0])
     P = iapws_saturation_pressure(T)
     P[2] *= 1.06  # 6 % apart at the same temperature, above the 1 % default
-    res = run_audit(from_arrays(T, P), default_profile)
+    res = run_audit(from_arrays(T, P), profile_without("outliers"))
     chk = _check(res, "duplicates")
     assert chk.metrics["n_conflicting_rows"] == 2
     assert [p.status for p in res.points] == ["ok", "suspect", "suspect", "ok"]
     assert "from row 3" in res.points[1].flags[0].message
 
 
-def test_pressure_falling_with_temperature_names_both_rows(default_profile):
+def test_pressure_falling_with_temperature_names_both_rows(profile_without):
     T = np.array([300.0, 305.0, 310.0, 315.0, 320.0])
     P = iapws_saturation_pressure(T)
-    P[2], P[3] = P[3], P[2]  # swapped rows: P falls from 315 K... to 310 K order
-    res = run_audit(from_arrays(T, P), default_profile)
+    P[2], P[3] = P[3], P[2]  # pressures of rows 3 and 4 swapped: P falls from row 3 to row 4
+    res = run_audit(from_arrays(T, P), profile_without("outliers"))
     chk = _check(res, "monotonic")
     assert chk.status == "fail"
     assert chk.metrics["pairs"] == [[3, 4]]
@@ -92,3 +92,16 @@ def test_unreadable_rows_are_kept_and_reported(default_profile):
     assert [p.status for p in res.points] == ["ok", "unreadable"]
     assert _check(res, "readability").status == "warn"
     assert "6.2*" in res.points[1].flags[0].message
+
+
+def test_a_rejected_slip_does_not_make_its_neighbour_suspect(default_profile):
+    # one pressure typed in kPa inside a Pa column (×1/1000): P falls to row 6.
+    # The outlier screening rejects row 6; monotonic then judges the rows kept,
+    # so row 5 — a correct IAPWS-95 value — stays ok.
+    T = np.linspace(290.0, 350.0, 13)
+    P = iapws_saturation_pressure(T)
+    P[5] /= 1000.0
+    res = run_audit(from_arrays(T, P, phase="liquid"), default_profile)
+    assert res.points[5].status == "reject"
+    assert [p.row for p in res.points if p.status != "ok"] == [6]
+    assert _check(res, "monotonic").status == "pass"

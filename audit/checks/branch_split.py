@@ -1,0 +1,135 @@
+"""Check ``branch-split``: solid and liquid branches in an unlabelled table."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..results import CheckResult, PointFlag
+from ._util import skipped
+from .registry import Check, Option, register
+
+
+@register
+class BranchSplit(Check):
+    """Find the solid and liquid branches when the table has no phase labels.
+
+    **What it checks.** When usable rows carry no phase label, whether ln P
+    against 1/T is better described by two straight lines than by one (a
+    slope break), scanning every split between temperature neighbours
+    (F-test, Bonferroni-adjusted).  The split is accepted only when it is
+    significant and the low-temperature side is the steeper one — the
+    enthalpy of sublimation exceeds that of vaporization by the enthalpy of
+    fusion.  Rows below the break are then treated as solid and rows above
+    as liquid, each with a flag saying the phase was inferred.
+
+    **Why it matters.** A table that runs through the triple point without
+    labels mixes two curves; fitting one curve through both bends it and
+    makes good points look like outliers.  A break with the shallower side
+    at low temperature is not a triple point and is left alone.
+
+    **Example.** ice + water 230–300 K unlabelled → "break at 273.2 K (adjusted
+    p = 1e-15): slopes 51.1 and 45.0 kJ/mol; rows 1–12 solid, 13–25 liquid".
+
+    **Options.** ``alpha``, ``min_points_per_side``, ``min_dH_ratio``.
+    """
+
+    id = "branch-split"
+    title = "Solid and liquid branches of unlabelled data"
+    method = ("Two-segment least-squares fit of ln P against 1/T at every split between T "
+              "neighbours; F-test of two lines against one, Bonferroni-adjusted over the splits; "
+              "accepted only when the low-T side is steeper (ΔH_sub > ΔH_vap).")
+    references = (
+        "G. C. Chow, Econometrica 28, 591 (1960), doi:10.2307/1910133 — test for a break.",
+        "ΔH_sub = ΔH_vap + ΔH_fus at the triple point (Kirchhoff/Hess), e.g. Atkins' Physical Chemistry, §4B.",
+    )
+    options = {
+        "alpha": Option(float, "significance level (adjusted) of the slope break", "", 1e-15, 0.5),
+        "min_points_per_side": Option(int, "fewest points on each side of a break", "", 3, 1000),
+        "min_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH taken as a "
+                               "solid/liquid break", "", 1.0, 3.0),
+    }
+
+    def run(self, ctx):
+        from ..thermo.triple_point import find_slope_break
+
+        s = ctx.settings(self.id)
+        unlabelled = sorted((p for p in ctx.usable() if p.phase == "unknown"), key=lambda p: (p.T_K, p.row))
+        labelled = [p for p in ctx.usable() if p.phase != "unknown"]
+        if not unlabelled:
+            return skipped(self, "every usable row carries a phase label")
+        if labelled:
+            return skipped(self, f"{len(unlabelled)} rows lack a phase label while {len(labelled)} have one; "
+                                 "the unlabelled rows are audited as their own branch")
+        m = s["min_points_per_side"]
+        if len(unlabelled) < 2 * m:
+            return skipped(self, f"{len(unlabelled)} unlabelled rows; a break needs {m} on each side")
+        T = np.array([p.T_K for p in unlabelled])
+        P = np.array([p.P_Pa for p in unlabelled])
+        u_T = np.array([p.u_T_K for p in unlabelled]) if all(p.u_T_K is not None for p in unlabelled) else None
+        u_P = np.array([p.u_P_Pa for p in unlabelled]) if all(p.u_P_Pa is not None for p in unlabelled) else None
+        try:
+            brk = find_slope_break(T, P, min_points_per_side=m, u_T=u_T, u_P=u_P)
+        except ValueError as exc:
+            return skipped(self, f"no slope break could be tested: {exc}")
+        ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")
+        metrics = {"T_break_K": brk.T_break, "p_value_adjusted": brk.p_value_adjusted, "F": brk.F,
+                   "dH_low_J_per_mol": brk.dH_low, "dH_high_J_per_mol": brk.dH_high, "dH_ratio": ratio}
+        accepted = (brk.p_value_adjusted < s["alpha"] and brk.solid_side_steeper
+                    and ratio >= s["min_dH_ratio"])
+        if not accepted:
+            desc = _describe(brk, brk.T_break)
+            why = ("not significant" if brk.p_value_adjusted >= s["alpha"] else
+                   "the low-temperature side is not steep enough to be a solid")
+            return CheckResult(self.id, self.title, "pass",
+                               f"one branch: best {desc} — {why} (limits p < {s['alpha']}, "
+                               f"ratio ≥ {s['min_dH_ratio']})", metrics)
+        Ts = T[brk.order]
+        split = _refine_split(Ts, P[brk.order], brk.split, m)
+        T_break = brk.T_break
+        if split != brk.split:  # midpoint in 1/T of the refined neighbours
+            T_break = 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
+            metrics.update({"T_break_K": T_break, "T_break_two_lines_K": brk.T_break})
+        desc = _describe(brk, T_break)
+        low = {unlabelled[i].row for i in brk.order[:split]}
+        inferred = {p.row: ("solid" if p.row in low else "liquid") for p in unlabelled}
+        flags = tuple(PointFlag(r, self.id, s.severity, f"phase inferred as {ph} from the {desc}")
+                      for r, ph in inferred.items())
+        ctx.shared["slope_break"] = brk
+        n_s = sum(1 for v in inferred.values() if v == "solid")
+        return CheckResult(self.id, self.title, s.severity,
+                           f"no phase labels; {desc}: {n_s} rows taken as solid, {len(inferred) - n_s} as "
+                           "liquid — label the phases to confirm", metrics, flags, phase_inferred=inferred)
+
+
+def _describe(brk, T_break: float) -> str:
+    return (f"slope break at {T_break:.2f} K (adjusted p = {brk.p_value_adjusted:.2g}): apparent ΔH "
+            f"{brk.dH_low / 1e3:.4g} kJ/mol below, {brk.dH_high / 1e3:.4g} kJ/mol above")
+
+
+def _refine_split(T, P, split: int, min_side: int, max_rounds: int = 5) -> int:
+    """Move the split to where each side's own curve fits its points best.
+
+    The two-line search takes both sides as straight lines; the liquid side,
+    usually the longer, curves (ΔCp < 0), which can pull a point next to the
+    break onto the wrong side.  Each round fits each side with the
+    constant-ΔCp form (a line when a side is short), then chooses, among
+    the splits near the current one, the one with the least total squared
+    residual against the two curves.
+    """
+    from ..thermo.fitting import fit_equation
+
+    y = np.log(P)
+    n = T.size
+    for _ in range(max_rounds):
+        lo_form = "cc3" if split >= 6 else "cc2"
+        hi_form = "cc3" if n - split >= 6 else "cc2"
+        f_lo = fit_equation(T[:split], P[:split], lo_form, robust="huber")
+        f_hi = fit_equation(T[split:], P[split:], hi_form, robust="huber")
+        r_lo = (y - f_lo.equation.ln_p(T)) ** 2
+        r_hi = (y - f_hi.equation.ln_p(T)) ** 2
+        candidates = range(max(min_side, split - 3), min(n - min_side, split + 3) + 1)
+        best = min(candidates, key=lambda k: r_lo[:k].sum() + r_hi[k:].sum())
+        if best == split:
+            break
+        split = best
+    return split

@@ -1,0 +1,129 @@
+"""Check ``enthalpy-continuity``: the enthalpy the slope implies is positive and smooth."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..results import CheckResult, PointFlag
+from ._fits import recommended
+from ._util import skipped
+from .registry import Check, Option, register
+
+
+@register
+class EnthalpyContinuity(Check):
+    """Local enthalpies from sliding windows against the smooth ΔH(T).
+
+    **What it checks.** Per branch, the apparent enthalpy −R·d ln P/d(1/T)
+    estimated locally from each window of ``window`` neighbouring points
+    (weighted straight-line fit in 1/T, effective variance including u(T))
+    is compared with the smooth ΔH(T) of the branch's recommended equation
+    at the window's temperature.  A window departing by more than ``k``
+    times its uncertainty AND by more than ``tolerance_percent`` is flagged
+    with its rows.  A step in ΔH(T) — the signature of one source handing
+    over to another with a different temperature or pressure scale — is
+    located by a hinge fit (F-test over all split positions, Bonferroni
+    adjusted).  Any local or smooth ΔH ≤ 0 fails.
+
+    **Why it matters.** By the Clapeyron equation every local slope is an
+    enthalpy of vaporization or sublimation: it must be positive and change
+    smoothly with temperature.  A window with a slope out of line is a
+    cluster of bad points that a global fit spreads thin; a step shows
+    where two data sets do not join.
+
+    **Example.** "liquid: step of +1.9 kJ/mol in ΔH at 331.2 K (p = 2e-5);
+    window at 305 K: 47.1 ± 0.4 kJ/mol vs 43.8 smooth (8 σ, 7 %)".
+
+    **Options.** ``window``, ``k``, ``tolerance_percent``, ``step_alpha``,
+    ``step_tolerance_percent``.
+    """
+
+    id = "enthalpy-continuity"
+    title = "Continuity of the implied enthalpy (Clapeyron)"
+    method = ("Sliding windows of neighbouring points give local apparent enthalpies −R·b from "
+              "ln P = a + b/T (effective-variance weights); each is compared with the recommended "
+              "fit's smooth ΔH(T). A continuous hinge in ln P vs 1/T (a step in ΔH) is tested at every "
+              "split with an F-test, Bonferroni-adjusted over the splits.")
+    references = (
+        "B. P. E. Clapeyron (1834) — ΔH = −R Δz d ln p/d(1/T).",
+        "J. W. Orear, Am. J. Phys. 50, 912 (1982), doi:10.1119/1.12972 — effective variance.",
+        "G. C. Chow, Econometrica 28, 591 (1960), doi:10.2307/1910133 — test for a structural break.",
+    )
+    options = {
+        "window": Option(int, "points per local window", "", 3, 50),
+        "k": Option(float, "coverage factor on the local window's uncertainty", "", 0.5, 20),
+        "tolerance_percent": Option(float, "smallest relative departure worth flagging", "%", 0, 100),
+        "step_alpha": Option(float, "significance level (adjusted) of a step in ΔH(T)", "", 1e-12, 0.5),
+        "step_tolerance_percent": Option(float, "smallest step in ΔH worth reporting", "%", 0, 100),
+    }
+
+    def run(self, ctx):
+        from ..thermo.enthalpy import apparent_enthalpy, enthalpy_steps, local_enthalpy
+
+        s = ctx.settings(self.id)
+        texts, flags, metrics, problems, failed = [], [], {}, [], False
+        local_series = []
+        for branch in ctx.branches():
+            choice, data = recommended(ctx, branch)
+            if choice is None or data.n < s["window"] + 1:
+                texts.append(f"{branch}: {data.n} points — too few for windows of {s['window']}")
+                continue
+            used = choice.chosen.weights > 0
+            T, P = data.T[used], data.P[used]
+            uT = None if data.u_T is None else data.u_T[used]
+            uP = None if data.u_P is None else data.u_P[used]
+            rows = np.array(data.rows)[used]
+            if T.size < s["window"] + 1:
+                texts.append(f"{branch}: too few points left after outliers for windows")
+                continue
+            loc = local_enthalpy(T, P, uT, uP, window=s["window"])
+            smooth = np.atleast_1d(apparent_enthalpy(choice.chosen.equation, loc.T_center))
+            dev = loc.dH - smooth
+            with np.errstate(divide="ignore", invalid="ignore"):
+                z = np.abs(dev) / loc.u_dH
+            rel = 100 * np.abs(dev) / np.abs(smooth)
+            bad = (z > s["k"]) & (rel > s["tolerance_percent"])
+            for w in np.flatnonzero(bad):
+                window_rows = sorted(int(r) for r in rows[loc.order[loc.start[w]:loc.stop[w]]])
+                msg = (f"local ΔH {loc.dH[w] / 1e3:.4g} ± {loc.u_dH[w] / 1e3:.2g} kJ/mol at "
+                       f"{loc.T_center[w]:.2f} K vs {smooth[w] / 1e3:.4g} kJ/mol from the {branch} fit: "
+                       f"{z[w]:.1f} u and {rel[w]:.2g} % (limits {s['k']} u and {s['tolerance_percent']} %)")
+                problems.append(f"{branch}: window rows {window_rows[0]}–{window_rows[-1]}: {msg}")
+                centre = window_rows[len(window_rows) // 2]
+                flags.append(PointFlag(centre, self.id, s.severity, msg))
+            nonpositive = int(np.sum(loc.dH <= 0) + np.sum(smooth <= 0))
+            if nonpositive:
+                failed = True
+                problems.append(f"{branch}: {nonpositive} local or smooth enthalpies ≤ 0 — impossible "
+                                "for vaporization or sublimation")
+            m = {"n_windows": int(loc.dH.size), "n_windows_flagged": int(bad.sum()),
+                 "max_departure_u": float(np.nanmax(z)) if z.size else None,
+                 "max_departure_percent": float(np.nanmax(rel)) if rel.size else None,
+                 "n_nonpositive": nonpositive}
+            for i in range(loc.dH.size):
+                local_series.append({"branch": branch, "T_K": float(loc.T_center[i]),
+                                     "dH_J_per_mol": float(loc.dH[i]), "u_dH_J_per_mol": float(loc.u_dH[i])})
+            if T.size >= 8:
+                try:
+                    step = enthalpy_steps(T, P, uT, uP, min_points_per_side=4)
+                except ValueError:
+                    step = None
+                if step is not None:
+                    step_rel = 100 * abs(step.dH_step) / float(np.median(np.abs(smooth)))
+                    m.update({"step_T_K": step.T_step, "step_dH_J_per_mol": step.dH_step,
+                              "u_step_dH_J_per_mol": step.u_dH_step, "step_p_adjusted": step.p_value_adjusted})
+                    if step.p_value_adjusted < s["step_alpha"] and step_rel > s["step_tolerance_percent"]:
+                        problems.append(f"{branch}: step of {step.dH_step / 1e3:+.3g} ± "
+                                        f"{step.u_dH_step / 1e3:.2g} kJ/mol ({step_rel:.2g} %) in ΔH at "
+                                        f"{step.T_step:.2f} K (adjusted p = {step.p_value_adjusted:.2g} < "
+                                        f"{s['step_alpha']})")
+            metrics[branch] = m
+            if not any(p.startswith(f"{branch}:") for p in problems):
+                texts.append(f"{branch}: {loc.dH.size} windows of {s['window']} points agree with the smooth "
+                             f"ΔH(T) (largest departure {m['max_departure_u']:.2g} u, "
+                             f"{m['max_departure_percent']:.2g} %); no step")
+        ctx.shared.setdefault("plot_data", {})["local_enthalpy"] = local_series
+        if not metrics:
+            return skipped(self, "; ".join(texts) or "no usable branch")
+        status = "fail" if failed else (s.severity if problems else "pass")
+        return CheckResult(self.id, self.title, status, "; ".join(problems + texts), metrics, tuple(flags))

@@ -1,0 +1,130 @@
+"""Consistency checks on water and ice data generated from the IAPWS releases.
+
+Reference values:
+- saturation pressure of liquid water, IAPWS-95 (Wagner & Pruss, J. Phys. Chem.
+  Ref. Data 31, 387 (2002), doi:10.1063/1.1461829), and sublimation pressure of
+  ice Ih, IAPWS R14-08(2011) (Wagner et al., J. Phys. Chem. Ref. Data 40, 043103
+  (2011), doi:10.1063/1.3657937), both through the ``iapws`` package;
+- triple point 273.16 K, 611.657 Pa (IAPWS R10-06(2009));
+- enthalpies from IAPWS-95 and IAPWS-06 (computed with ``iapws`` 1.5.5):
+  ΔH_vap(373.124 K) = 40.651 kJ/mol, ΔH_fus(Tt) = 6.007 kJ/mol, and the
+  Clapeyron quantity ΔH/Δz = 44.061 kJ/mol at 298.15 K and 41.317 kJ/mol at
+  373.124 K.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from audit.model import from_arrays
+from audit.pipeline import run_audit
+from tests.conftest import iapws_saturation_pressure, iapws_sublimation_pressure
+
+
+def _check(result, check_id):
+    return next(c for c in result.checks if c.id == check_id)
+
+
+def _ice_and_water(seed=7, labelled=True, noise_ice=0.001, noise_liq=0.0005):
+    rng = np.random.default_rng(seed)
+    Ts = np.linspace(230.0, 272.0, 12)
+    Tl = np.linspace(274.0, 372.0, 25)
+    Ps = iapws_sublimation_pressure(Ts) * (1 + noise_ice * rng.standard_normal(Ts.size))
+    Pl = iapws_saturation_pressure(Tl) * (1 + noise_liq * rng.standard_normal(Tl.size))
+    phase = ["solid"] * Ts.size + ["liquid"] * Tl.size if labelled else None
+    return from_arrays(np.r_[Ts, Tl], np.r_[Ps, Pl], phase=phase, substance="water")
+
+
+def test_ice_plus_liquid_table_gives_the_triple_point(default_profile):
+    res = run_audit(_ice_and_water(), default_profile)
+    tp = res.triple_point
+    chk = _check(res, "triple-point")
+    assert chk.status == "pass", chk.message
+    # 12 ice points at 0.1 % and 25 liquid points at 0.05 %: the crossing is
+    # determined to about 0.05 K (the curves differ in slope by only 0.97 %/K
+    # at Tt); allow 3 u, and check the stated u is honest about it.
+    assert abs(tp.T_K - 273.16) < 3 * tp.u_T_K
+    assert tp.u_T_K < 0.1
+    assert tp.P_Pa == pytest.approx(611.657, rel=0.015)
+    # ΔH_fus(Tt) = 6.007 kJ/mol (IAPWS-95 and IAPWS-06); extrapolated slopes: 2 %
+    assert tp.dH_fus_J_per_mol == pytest.approx(6007, rel=0.02)
+    assert tp.reference["source"].startswith("IAPWS R10-06")
+
+
+def test_unlabelled_ice_and_water_are_split_at_the_triple_point(default_profile):
+    res = run_audit(_ice_and_water(labelled=False), default_profile)
+    split = _check(res, "branch-split")
+    assert split.status == "warn"  # inferred phases are worth confirming
+    phases = [(p.T_K, p.phase) for p in res.points]
+    assert all((ph == "solid") == (T < 273.16) for T, ph in phases)
+    assert all(p.phase_inferred for p in res.points)
+    assert _check(res, "triple-point").status == "pass"
+
+
+def test_enthalpy_at_the_normal_boiling_point_is_real_gas_corrected(default_profile):
+    res = run_audit(_ice_and_water(), default_profile)
+    liq = [e for e in res.enthalpy if e.branch == "liquid"]
+    top = max(liq, key=lambda e: e.T_K)  # 372 K, nearest to Tb = 373.124 K
+    assert top.real_gas_corrected
+    # IAPWS-95 at 372 K: ΔH_vap = 40.70 kJ/mol (40.651 at 373.124 K, dΔH/dT ≈ −44 J/(mol K));
+    # 25 points at 0.05 % noise: the slope at the range's end is good to ~0.5 %
+    assert top.dH_J_per_mol == pytest.approx(40651 + 44 * 1.124, rel=0.006)
+    # the apparent value is larger by 1/Δz; IAPWS-95 gives Δz = 0.98389 at Tb
+    assert top.dH_apparent_J_per_mol / top.dH_J_per_mol == pytest.approx(1 / 0.98389, rel=0.002)
+
+
+def test_water_0_to_100_C_is_curved_with_a_plausible_negative_dCp(default_profile):
+    rng = np.random.default_rng(11)
+    T = np.linspace(273.16, 373.15, 30)
+    P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
+    res = run_audit(from_arrays(T, P, phase="liquid", substance="water"), default_profile)
+    chk = _check(res, "clapeyron-linearity")
+    assert chk.status == "pass", chk.message
+    m = chk.metrics["liquid"]
+    assert m["curvature_p_value"] < 1e-6
+    # the apparent ΔCp = d(ΔH/Δz)/dT; IAPWS-95 secant 298.15–373.124 K:
+    # (41.317 − 44.061) kJ/mol / 74.97 K = −36.6 J/(mol K); the fitted value is a
+    # tangent at T_ref ≈ 320 K, so allow 12 %
+    assert m["dCp_J_per_mol_K"] == pytest.approx(-36.6, rel=0.12)
+    fit = res.fits[0]
+    assert fit.rms_percent < 0.07  # the noise is 0.05 %
+    assert fit.equation != "clausius-clapeyron-2"
+
+
+def test_reference_agreement_finds_a_pressure_scale_bias(default_profile):
+    rng = np.random.default_rng(3)
+    T = np.linspace(280.0, 360.0, 20)
+    P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
+    clean = run_audit(from_arrays(T, P, phase="liquid", substance="water"), default_profile)
+    assert _check(clean, "reference-agreement").status == "pass"
+    biased = run_audit(from_arrays(T, P * 1.003, phase="liquid", substance="water"), default_profile)
+    chk = _check(biased, "reference-agreement")
+    assert chk.status == "warn"
+    assert chk.metrics["liquid"]["bias_percent"] == pytest.approx(0.3, abs=0.03)
+    assert biased.points[0].reference_deviation_percent == pytest.approx(
+        100 * (P[0] * 1.003 / iapws_saturation_pressure([T[0]])[0] - 1), rel=1e-3)
+
+
+def test_a_step_in_enthalpy_is_located(default_profile):
+    # a second 'source' above 330 K whose pressures imply ΔH 2 kJ/mol higher
+    # (continuous in P at 330 K): ln P gains (2000/R)(1/330 − 1/T)
+    rng = np.random.default_rng(5)
+    T = np.linspace(290.0, 370.0, 33)
+    P = iapws_saturation_pressure(T) * (1 + 0.0003 * rng.standard_normal(T.size))
+    R = 8.314462618
+    P = np.where(T > 330.0, P * np.exp(2000.0 / R * (1 / 330.0 - 1 / T)), P)
+    res = run_audit(from_arrays(T, P, phase="liquid", substance="water"), default_profile)
+    chk = _check(res, "enthalpy-continuity")
+    assert chk.status == "warn", chk.message
+    m = chk.metrics["liquid"]
+    assert m["step_T_K"] == pytest.approx(330.0, abs=5.0)
+    assert m["step_dH_J_per_mol"] == pytest.approx(2000.0, rel=0.3)
+
+
+def test_falling_pressure_implies_negative_enthalpy_and_fails(default_profile):
+    T = np.linspace(290.0, 350.0, 12)
+    P = iapws_saturation_pressure(T)[::-1].copy()
+    res = run_audit(from_arrays(T, P, phase="liquid"), default_profile)
+    assert _check(res, "enthalpy-continuity").status == "fail"
+    assert res.verdict == "fail"

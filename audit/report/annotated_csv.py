@@ -39,7 +39,11 @@ def _g(x) -> str:
 
 def annotated_rows(result: AuditResult):
     ds = result.dataset
-    yield [neutralise(h) for h in ds.header] + list(AUDIT_COLUMNS)
+    # ragged input rows: the table is as wide as its widest row, so the audit
+    # columns line up; cells beyond the header get a placeholder name
+    width = max([len(ds.header)] + [len(c) for c in ds.cells])
+    header = list(ds.header) + [f"(unnamed {i + 1})" for i in range(len(ds.header), width)]
+    yield [neutralise(h) for h in header] + list(AUDIT_COLUMNS)
     for cells, v in zip(ds.cells, result.points):
         flags = " | ".join(f"{f.check} ({f.severity}): {f.message}" for f in v.flags)
         cause = v.cause
@@ -47,7 +51,7 @@ def annotated_rows(result: AuditResult):
                  "" if cause is None else cause.kind, "" if cause is None else cause.explanation,
                  "" if cause is None else _g(cause.suggested_T_K),
                  "" if cause is None else _g(cause.suggested_P_Pa)]
-        row = list(cells) + [""] * (len(ds.header) - len(cells))
+        row = list(cells) + [""] * (width - len(cells))
         yield [neutralise(c) for c in row] + [neutralise(a) for a in audit]
 
 

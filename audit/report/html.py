@@ -1,0 +1,278 @@
+"""The audit report as one self-contained HTML file.
+
+The page is rendered by Jinja2 with autoescaping on for every value: whatever
+the input file holds (source names, cells, metadata) is shown as text, never
+as markup, links or references.  The only unescaped content is the figures'
+SVG, which :mod:`audit.report.plots` draws itself and checks for anything
+active.  The page needs no network, no script, no external style sheet,
+font or image; it reads on screen and prints (print CSS).  The same page is
+the source of the PDF (:mod:`audit.report.pdf`).
+
+Rendering is deterministic: the same :class:`~audit.results.AuditResult`
+gives the same bytes (the time shown is ``result.audited_at``).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any, Mapping
+
+from ..results import AuditResult, PointVerdict
+
+__all__ = ["render_html", "write_html", "report_context", "format_number", "VERDICT_TEXT"]
+
+VERDICT_TEXT = {
+    "pass": ("PASS", "No check failed or warned."),
+    "warn": ("WARN", "Some checks raised warnings: review the rows and checks below."),
+    "fail": ("FAIL", "At least one check failed: the data should not be used as they stand."),
+}
+STATUS_TEXT = {"pass": "pass", "warn": "warn", "fail": "fail", "skipped": "skipped",
+               "ok": "ok", "suspect": "suspect", "reject": "rejected", "unreadable": "unreadable"}
+#: marks that carry the status without colour (shape of the glyph)
+STATUS_MARK = {"pass": "✓", "warn": "▲", "fail": "✖", "skipped": "–", "ok": "●",
+               "suspect": "△", "reject": "✖", "unreadable": "?"}
+CAUTION = (
+    "This audit screens a table of vapor pressures for internal consistency and "
+    "plausibility. It does not replace the evaluation of the data by a qualified "
+    "person. Vapor pressures feed the sizing of relief devices and estimates of "
+    "flammability and of exposure; such work follows the applicable local codes "
+    "and licensed professional practice."
+)
+
+
+# -- formatting ----------------------------------------------------------------------
+def format_number(x: Any, digits: int = 5) -> str:
+    """A number for a table: ``digits`` significant digits, '—' when missing.
+
+    >>> format_number(101325.0)
+    '1.0132e+05'
+    >>> format_number(273.16)
+    '273.16'
+    """
+    if x is None:
+        return "—"
+    if isinstance(x, bool):
+        return "yes" if x else "no"
+    if isinstance(x, int):
+        return str(x)
+    try:
+        v = float(x)
+    except (TypeError, ValueError):
+        return str(x)
+    if not math.isfinite(v):
+        return "—"
+    if v == 0:
+        return "0"
+    text = f"{v:.{digits}g}"
+    return text
+
+
+def _fixed(x: Any, decimals: int) -> str:
+    if x is None or not isinstance(x, (int, float)) or not math.isfinite(x):
+        return "—"
+    return f"{x:.{decimals}f}"
+
+
+def _metric_text(metrics: Mapping[str, Any], limit: int = 3) -> str:
+    """The key metrics of a check, as one short line (scalars only)."""
+    parts = []
+    for k, v in metrics.items():
+        if isinstance(v, (list, tuple, dict)) or v is None:
+            continue
+        parts.append(f"{k} = {format_number(v, 4) if not isinstance(v, str) else v}")
+        if len(parts) == limit:
+            break
+    return "; ".join(parts)
+
+
+# -- the view model ------------------------------------------------------------------
+@dataclass(frozen=True)
+class FlaggedRow:
+    row: int
+    T_printed: str
+    P_printed: str
+    T_K: str
+    P_Pa: str
+    phase: str
+    phase_inferred: bool
+    source: str
+    status: str
+    sigma: str
+    why: tuple[str, ...]
+    suggested: str
+
+
+def _flagged_rows(result: AuditResult) -> list[FlaggedRow]:
+    by_row = {p.row: p for p in result.dataset.points}
+    out = []
+    for v in result.points:
+        if not (v.status in ("suspect", "reject", "unreadable") or v.flags):
+            continue
+        pt = by_row.get(v.row)
+        why = []
+        if v.cause is not None:
+            why.append(f"likely cause ({v.cause.kind}): {v.cause.explanation}")
+        if pt is not None and pt.reason and v.status == "unreadable":
+            why.append(pt.reason)
+        why.extend(f"{f.check}: {f.message}" for f in v.flags
+                   if not (pt is not None and pt.reason and f.message == pt.reason))
+        suggested = []
+        if v.cause is not None:
+            if v.cause.suggested_T_K is not None:
+                suggested.append(f"T = {format_number(v.cause.suggested_T_K, 6)} K")
+            if v.cause.suggested_P_Pa is not None:
+                suggested.append(f"p = {format_number(v.cause.suggested_P_Pa, 5)} Pa")
+        out.append(FlaggedRow(
+            row=v.row,
+            T_printed=_printed(pt.T_text if pt else "", pt.T_text_unit if pt else ""),
+            P_printed=_printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
+            T_K=format_number(v.T_K, 6), P_Pa=format_number(v.P_Pa, 5),
+            phase=v.phase, phase_inferred=v.phase_inferred, source=v.source or "—",
+            status=v.status, sigma=_fixed(v.residual_sigma, 1),
+            why=tuple(why) or ("(no message)",), suggested="; ".join(suggested) or "—"))
+    return out
+
+
+def _printed(text: str, unit: str) -> str:
+    return f"{text} {unit}".strip() if text else "(empty)"
+
+
+def _fit_rows(result: AuditResult) -> list[dict]:
+    rows = []
+    for f in result.fits:
+        names = list(f.parameters)
+        params = []
+        for i, name in enumerate(names):
+            u = None
+            try:
+                var = f.covariance[i][i]
+                u = math.sqrt(var) if var is not None and var >= 0 else None
+            except (IndexError, TypeError):
+                u = None
+            params.append({"name": name, "value": format_number(f.parameters[name], 8),
+                           "u": format_number(u, 2)})
+        extra = {k: v for k, v in f.extra.items() if not isinstance(v, (list, tuple, dict))}
+        rows.append({"branch": f.branch, "equation": f.equation, "params": params,
+                     "range": f"{format_number(f.T_range_K[0], 6)} – {format_number(f.T_range_K[1], 6)}",
+                     "n": f.n_used, "rms": format_number(f.rms_percent, 3),
+                     "recommended": f.recommended,
+                     "extra": "; ".join(f"{k} = {format_number(v, 4)}" for k, v in extra.items())})
+    return rows
+
+
+def _enthalpy_rows(result: AuditResult) -> list[dict]:
+    rows = []
+    for e in result.enthalpy:
+        corrected = e.dH_J_per_mol if e.real_gas_corrected else None
+        apparent = e.dH_apparent_J_per_mol if e.real_gas_corrected else e.dH_J_per_mol
+        rows.append({"branch": e.branch, "T": format_number(e.T_K, 6),
+                     "corrected": _fixed(None if corrected is None else corrected / 1000, 3),
+                     "apparent": _fixed(None if apparent is None else apparent / 1000, 3),
+                     "dz": _fixed(e.delta_z, 5),
+                     "u": _fixed(None if e.u_dH_J_per_mol is None else e.u_dH_J_per_mol / 1000, 3)})
+    return rows
+
+
+def _triple_point(result: AuditResult) -> dict | None:
+    tp = result.triple_point
+    if tp is None:
+        return None
+    ref = dict(tp.reference or {})
+    T_ref, P_ref = ref.get("T_K"), ref.get("P_Pa")
+    d = {"T": format_number(tp.T_K, 6), "uT": format_number(tp.u_T_K, 2),
+         "P": format_number(tp.P_Pa, 5), "uP": format_number(tp.u_P_Pa, 2),
+         "H": _fixed(None if tp.dH_fus_J_per_mol is None else tp.dH_fus_J_per_mol / 1000, 3),
+         "uH": _fixed(None if tp.u_dH_fus_J_per_mol is None else tp.u_dH_fus_J_per_mol / 1000, 3),
+         "ref_name": str(ref.get("name") or ref.get("source") or "") or None,
+         "T_ref": format_number(T_ref, 6) if T_ref is not None else None,
+         "P_ref": format_number(P_ref, 6) if P_ref is not None else None,
+         "dT": None, "dP": None, "zT": None,
+         "ref_other": [(str(k), format_number(v, 6)) for k, v in ref.items()
+                       if k not in ("T_K", "P_Pa", "name", "source")]}
+    if isinstance(T_ref, (int, float)) and math.isfinite(T_ref):
+        d["dT"] = f"{tp.T_K - T_ref:+.3g}"
+        if tp.u_T_K:
+            d["zT"] = f"{(tp.T_K - T_ref) / tp.u_T_K:+.2g}"
+    if isinstance(P_ref, (int, float)) and P_ref:
+        d["dP"] = f"{100 * (tp.P_Pa - P_ref) / P_ref:+.3g}"
+    return d
+
+
+def report_context(result: AuditResult, *, plots=None) -> dict:
+    """Everything the template shows, prepared from ``result`` (strings and lists).
+
+    ``plots`` are the :class:`~audit.report.plots.RenderedPlot` objects; by
+    default they are drawn here.
+    """
+    from markupsafe import Markup
+
+    from .plots import render_all
+
+    ds = result.dataset
+    verdict = result.verdict
+    if plots is None:
+        plots = render_all(result)
+    substance = ds.metadata.substance or "substance not named"
+    checks = [c for c in result.checks if c.status != "skipped"]
+    skipped = [c for c in result.checks if c.status == "skipped"]
+    return {
+        "title": f"Vapor-pressure audit — {substance} — {ds.file_name or 'input'}",
+        "substance": substance,
+        "result": result,
+        "ds": ds,
+        "verdict": verdict,
+        "verdict_word": VERDICT_TEXT[verdict][0],
+        "verdict_text": VERDICT_TEXT[verdict][1],
+        "counts": {s: result.count(s) for s in ("ok", "suspect", "reject", "unreadable")},
+        "n_rows": len(result.points),
+        "checks": [{"c": c, "metric": _metric_text(c.metrics)} for c in checks],
+        "skipped": skipped,
+        "columns": ds.columns,
+        "constants": sorted(ds.metadata.constants.items()),
+        "extra_meta": [(str(k), str(v)) for k, v in ds.metadata.extra.items()],
+        "flagged": _flagged_rows(result),
+        "fits": _fit_rows(result),
+        "enthalpy": _enthalpy_rows(result),
+        "triple": _triple_point(result),
+        "sources": result.sources,
+        "sources_named": bool(ds.sources),
+        "plots": [{"p": p, "svg": Markup(p.svg) if p.svg else None} for p in plots],
+        "caution": CAUTION,
+        "status_text": STATUS_TEXT,
+        "status_mark": STATUS_MARK,
+    }
+
+
+def _environment():
+    from jinja2 import Environment, PackageLoader, StrictUndefined
+
+    env = Environment(loader=PackageLoader("audit.report", "templates"), autoescape=True,
+                      undefined=StrictUndefined, trim_blocks=True, lstrip_blocks=True,
+                      keep_trailing_newline=True)
+    env.filters["num"] = format_number
+    env.filters["fixed"] = _fixed
+    return env
+
+
+def render_html(result: AuditResult, *, plots=None, for_print: bool = False) -> str:
+    """The report page as a string.
+
+    Parameters
+    ----------
+    result : AuditResult
+    plots : sequence of RenderedPlot, optional
+        Figures already drawn (the PDF writer reuses them).
+    for_print : bool
+        Paged layout for the PDF (running header with page numbers).
+    """
+    env = _environment()
+    css = env.loader.get_source(env, "report.css")[0]
+    ctx = report_context(result, plots=plots)
+    return env.get_template("report.html.j2").render(**ctx, css=css, for_print=for_print)
+
+
+def write_html(result: AuditResult, path) -> None:
+    """Write the self-contained report page to ``path`` (UTF-8)."""
+    Path(path).write_text(render_html(result), encoding="utf-8")

@@ -1,7 +1,10 @@
 """Checks: one module per check, each a registered :class:`Check`.
 
-The import order below is the run order: checks that reject points (physical
-range, outliers) run before the checks that fit what is left.
+The order of ``_CHECK_MODULES`` is the run order.  Checks that reject points
+(physical range, outliers) run before those that judge what is left: a row
+the outlier screening rejected with a cause (say, kPa typed in an mmHg
+column) does not also make its innocent neighbour suspect through the
+``duplicates`` or ``monotonic`` pair it forms.
 """
 
 from .registry import Check, Option, all_checks, get_check, register  # noqa: F401
@@ -12,8 +15,16 @@ import importlib
 _CHECK_MODULES = (
     "readability",
     "physical_range",
+    "branch_split",
+    "outliers",
+    "source_agreement",
     "duplicates",
     "monotonic",
+    "triple_point",
+    "clapeyron_linearity",
+    "enthalpy_continuity",
+    "enthalpy_plausibility",
+    "reference_agreement",
 )
 
 _loaded = False

@@ -1,0 +1,470 @@
+"""Check ``outliers``: points off the consensus curve, with a likely cause.
+
+Design of the consensus and of source bias (shared with ``source-agreement``)
+----------------------------------------------------------------------------
+Per branch, the equation form is chosen once by AICc among physically sane
+candidates (:func:`audit.thermo.fitting.select_equation`, robust), then the
+loop below runs until the set of rejected points and of biased sources stops
+changing (at most ``max_iterations`` times):
+
+1. robust (Huber → Tukey) weighted fit of that form to the points not
+   rejected and not from a source found biased;
+2. a classical weighted fit to the points the robust fit kept, and its
+   influence measures (:mod:`audit.thermo.influence`): every point is scored
+   by its leave-one-out residual — points in the fit by the externally
+   studentized residual, points outside by their prediction residual — so a
+   wrong end point cannot hide by pulling the curve;
+3. with two or more named sources, each source's median offset from the
+   curve is estimated; a source whose offset exceeds both the
+   ``source-agreement`` profile's ``k``·u and ``tolerance_percent`` is
+   *biased*: its points are scored after removing its offset (they are not
+   outliers for being systematically off — ``source-agreement`` reports
+   that), and with three or more sources it is left out of the consensus.
+
+The final consensus fit goes to ``ctx.shared["consensus"]`` (branch ->
+VaporPressureFit), the deviations and uncertainties to
+``ctx.shared["deviation_percent"]`` / ``["u_percent"]`` (row -> %), and the
+biased sources seen here to ``ctx.shared["outliers_biased_sources"]``.
+``source-agreement`` runs next, does the full leave-one-source-out analysis
+and, when it finds a biased source that the consensus still contains,
+refits and replaces these entries.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+
+import numpy as np
+
+from ..diagnose import diagnose_point
+from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
+from ..results import Cause, CheckResult, PointFlag
+from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
+from ._util import fmt, rows_text, skipped, worst_status
+from .registry import Check, Option, register
+
+#: Φ⁻¹(3/4): MAD/this estimates a normal standard deviation.
+_MAD_NORMAL = 0.6744897501960817
+#: √(π/2): standard error of a median relative to that of a mean (normal data).
+_MEDIAN_SE = math.sqrt(math.pi / 2)
+
+
+def family_wise_critical(alpha: float, n: int, correction: str, dof: float | None = None) -> float:
+    """Two-sided critical value of |z| for n tests at family-wise level alpha.
+
+    Šidák: per-test α' = 1 − (1 − α)^(1/n); Bonferroni: α' = α/n.  Normal
+    quantile when ``dof`` is None, Student t with ``dof`` otherwise.
+
+    References: Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967),
+    doi:10.1080/01621459.1967.10482935.
+    """
+    from scipy import stats
+
+    n = max(1, int(n))
+    a = 1 - (1 - alpha) ** (1 / n) if correction == "sidak" else alpha / n
+    if dof is None or not math.isfinite(dof):
+        return float(stats.norm.isf(a / 2))
+    return float(stats.t.isf(a / 2, max(dof, 1.0)))
+
+
+def _floors(points):
+    fP = np.array([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in points])
+    fT = np.array([temperature_rounding_u_K(p.T_text, p.T_text_unit) for p in points])
+    return np.nan_to_num(fP, nan=0.0), np.nan_to_num(fT, nan=0.0)
+
+
+def _robust_scale(x) -> float:
+    x = np.asarray(x, float)
+    if x.size == 0:
+        return math.nan
+    return float(np.median(np.abs(x - np.median(x))) / _MAD_NORMAL)
+
+
+class _BranchAnalysis:
+    """The consensus fit and point scores of one branch (internal)."""
+
+    def __init__(self, points, settings, source_settings, Tc, Pc, branch):
+        from ..thermo.fitting import fit_equation, select_equation
+        from ..thermo.influence import influence_measures
+
+        self.points = points
+        s = settings
+        n = len(points)
+        T = np.array([p.T_K for p in points])
+        P = np.array([p.P_Pa for p in points])
+        src = np.array([p.source or "" for p in points], dtype=object)
+        floorP, floorT = _floors(points)
+        u_given = any(p.u_P_Pa is not None or p.u_T_K is not None for p in points)
+        uPrel = np.array([(p.u_P_Pa or 0.0) / p.P_Pa for p in points])
+        uT = np.array([p.u_T_K or 0.0 for p in points])
+        uT_eff = np.sqrt(uT ** 2 + floorT ** 2)
+        self.T, self.P, self.src, self.u_given = T, P, src, u_given
+
+        # Gross errors first: a fast robust fit of a linear form (ln P = A + B/T + C ln T) marks the
+        # points it gives zero weight; they start out rejected (scored by prediction, free to come
+        # back) so that they neither steer the choice of form nor drag a nonlinear fit far away.
+        uP_in = P * np.sqrt(uPrel ** 2 + floorP ** 2) if u_given else None
+        uT_in = uT_eff if u_given else None
+        screen = fit_equation(T, P, "cc3" if n >= 8 else "cc2", u_T=uT_in, u_P=uP_in, robust=True)
+        gross = np.asarray(screen.weights) == 0
+        # a far-off point can hold a leverage near 1 and pass for good in the robust fit (the
+        # curve runs through it); its leave-one-out residual gives it away
+        scr = influence_measures(screen.equation.jacobian_ln_p(T), screen.residuals_lnP, screen.sigma_lnP,
+                                 (~gross).astype(float))
+        gross |= np.abs(scr.studentized) > family_wise_critical(s["reject_alpha"], n, s["correction"],
+                                                                 scr.dof - 1)
+        ok = ~gross
+        choice = select_equation(T[ok], P[ok], u_T=None if uT_in is None else uT_in[ok],
+                                 u_P=None if uP_in is None else uP_in[ok],
+                                 Tc=Tc, Pc=Pc, branch=branch if branch in ("liquid", "solid") else "unknown")
+        first = choice.chosen
+        self.form_name = choice.chosen_name
+        form = type(first.equation)
+        fixed = first.equation.fixed_parameters()
+        k_par = first.n_params
+
+        # relative scatter per source when no uncertainties are given (robust, from the first fit)
+        names = [x for x in dict.fromkeys(src) if x]
+        multi = len(names) >= 2 and source_settings is not None
+        resid0 = np.log(P) - first.equation.ln_p(T)
+        active0 = ok.copy()
+        active0[ok] = np.asarray(first.weights) > 0
+        scale_pt = self._scales(resid0, active0, src, s) if not u_given else None
+
+        rejected = gross.copy()
+        biased: dict[str, tuple[float, float]] = {}
+        offsets = np.zeros(n)
+        u_off = np.zeros(n)
+        history = []
+        it = 0
+        for it in range(1, s["max_iterations"] + 1):
+            if u_given:
+                rel = np.sqrt(uPrel ** 2 + floorP ** 2)
+            else:
+                rel = np.sqrt(scale_pt ** 2 + floorP ** 2)
+            rel = np.maximum(rel, 1e-12)
+            excluded_src = np.isin(src, list(biased)) if (biased and len(names) >= 3) else np.zeros(n, bool)
+            prior = (~rejected & ~excluded_src).astype(float)
+            if prior.sum() <= k_par + 1:
+                prior = (~rejected).astype(float)
+            # fits see only their own points: a far-off point left out must not constrain
+            # a nonlinear form (the Antoine pole bound depends on every T passed in)
+            use = prior > 0
+            robust_fit = fit_equation(T[use], P[use], form, u_T=uT_eff[use], u_P=(P * rel)[use], robust=True,
+                                      **fixed)
+            in_fit = np.zeros(n, bool)
+            in_fit[use] = np.asarray(robust_fit.weights) > 0
+            if in_fit.sum() <= k_par + 1:
+                in_fit = use
+            fit = fit_equation(T[in_fit], P[in_fit], form, u_T=uT_eff[in_fit], u_P=(P * rel)[in_fit],
+                               robust=False, **fixed)
+            r = np.log(P) - fit.equation.ln_p(T)
+            sigma = np.sqrt(rel ** 2 + (fit.equation.dlnp_dT(T) * uT_eff) ** 2)
+            if not u_given:
+                scale_pt = self._scales(r - offsets, in_fit, src, s)
+            J = fit.equation.jacobian_ln_p(T)
+            inf = influence_measures(J, r, sigma, in_fit.astype(float))
+            dof = inf.dof - 1
+            if u_given:
+                birge = max(1.0, inf.scale)
+                s_loo = np.maximum(1.0, inf.scale_loo)
+                z = np.where(inf.in_fit, inf.studentized_known_scale / s_loo,
+                             inf.studentized_known_scale / birge)
+                crit_dof = dof if inf.scale > 1.0 else None
+            else:
+                birge = inf.scale
+                z = np.array(inf.studentized)
+                crit_dof = dof
+            # biased sources: score their points after removing the source offset
+            if multi:
+                biased = self._biased_sources(r, sigma * max(birge, 1e-300), rejected, src, names, source_settings)
+                offsets = np.array([biased[x][0] if x in biased else 0.0 for x in src])
+                u_off = np.array([biased[x][1] if x in biased else 0.0 for x in src])
+                if biased:
+                    pred_var = (sigma * birge) ** 2 * np.where(inf.in_fit, 1 - inf.leverage, 1 + inf.leverage)
+                    zb = (r - offsets) / np.sqrt(pred_var + u_off ** 2)
+                    z = np.where(offsets != 0, zb, z)
+            crit_reject = family_wise_critical(s["reject_alpha"], n, s["correction"], crit_dof)
+            crit_suspect = family_wise_critical(s["suspect_alpha"], n, s["correction"], crit_dof)
+            new_rejected = np.abs(z) > crit_reject
+            state = (tuple(np.flatnonzero(new_rejected)), tuple(sorted(biased)))
+            history.append(state)
+            if np.array_equal(new_rejected, rejected) and it > 1 and state == history[-2]:
+                break
+            if state in history[:-1]:  # cycling: keep the union, stop
+                new_rejected |= rejected
+                rejected = new_rejected
+                break
+            rejected = new_rejected
+        self.iterations = it
+        self.converged = it < s["max_iterations"] or (len(history) > 1 and history[-1] == history[-2])
+        self.fit = fit
+        self.robust_fit = robust_fit
+        self.influence = inf
+        self.z = z
+        self.sigma_raw = sigma
+        self.sigma = sigma * max(birge, 1.0) if u_given else sigma * birge
+        self.birge = birge
+        self.crit_reject, self.crit_suspect = crit_reject, crit_suspect
+        self.reject = np.abs(z) > crit_reject
+        self.suspect = (np.abs(z) > crit_suspect) & ~self.reject
+        self.biased = biased
+        self.offsets = offsets
+        self.uPrel, self.uT_eff, self.floorP = uPrel, uT_eff, floorP
+        self.rel = rel
+        self.scale_factor = max(birge, 1.0) if u_given else birge
+
+    @staticmethod
+    def _scales(r, active, src, s):
+        pooled = _robust_scale(r[active])
+        pooled = pooled if pooled > 0 else 1e-6
+        out = np.full(r.size, pooled)
+        for name in dict.fromkeys(src):
+            mine = (src == name) & active
+            if name and mine.sum() >= s["min_points_source_scale"]:
+                sc = _robust_scale(r[mine])
+                if sc > 0:
+                    out[src == name] = sc
+        return out
+
+    @staticmethod
+    def _biased_sources(r, sig, rejected, src, names, ss):
+        out = {}
+        for name in names:
+            # all of the source's points: a source 3 % off with 0.1 % scatter has every point
+            # rejected by the first screen, and the median is robust to its own outliers anyway
+            mine = src == name
+            if mine.sum() < 2:
+                continue
+            med = float(np.median(r[mine]))
+            spread = max(_robust_scale(r[mine]), float(np.median(sig[mine])))
+            u = _MEDIAN_SE * spread / math.sqrt(mine.sum())
+            if abs(med) > ss["k"] * u and 100 * abs(math.expm1(med)) > ss["tolerance_percent"]:
+                out[name] = (med, u)
+        return out
+
+    def z_of(self, i):
+        """Standardized residual (T, P) -> z of a corrected reading of point i."""
+        eq = self.fit.equation
+        off = self.offsets[i]
+        rel = self.rel[i]
+        uT = self.uT_eff[i]
+        base_sigma = self.sigma[i] / max(self.sigma_raw[i], 1e-300)  # the scale applied to point i
+        # a corrected temperature far outside the fitted range can only be judged by
+        # extrapolation, where the steep slope inflates σ until anything "fits"
+        lo, hi = self.fit.T_range  # of the points the fit used
+        span = hi - lo
+        T_lo, T_hi = lo - 0.25 * span, hi + 0.25 * span
+
+        def z(T_K, P_Pa):
+            if not (T_K > 0 and P_Pa > 0) or not (T_lo <= T_K <= T_hi):
+                return math.nan
+            # the point's own relative u(P) carries over; the rounding floor of a
+            # corrected value is taken as that of the printed one
+            try:
+                sig = math.sqrt(rel ** 2 + (float(eq.dlnp_dT(np.array([T_K]))[0]) * uT) ** 2) * base_sigma
+                return (math.log(P_Pa) - float(eq.ln_p(np.array([T_K]))[0]) - off) / sig
+            except ValueError:  # e.g. a reduced (Wagner) form asked above Tc
+                return math.nan
+        return z
+
+
+def _relabel_blocks(diagnoses, points_by_row, branch_rows):
+    """A contiguous block (≥ 2 rows, input order) with the same power-of-ten
+    pressure slip is a unit slip, not a decimal point misplaced twice."""
+    order = sorted(branch_rows)
+    out = dict(diagnoses)
+    run: list[int] = []
+
+    def flush(run):
+        if len(run) >= 2:
+            p0 = points_by_row[run[0]]
+            base, unit = split_log_unit(p0.P_text_unit)
+            try:
+                size = pressure_unit_size_Pa(unit)
+            except ValueError:
+                return
+            factor = out[run[0]].best.hypothesis.factor
+            alt = next((u for u in COMMON_PRESSURE_UNITS
+                        if abs(pressure_unit_size_Pa(u) / size / factor - 1) < 1e-6), None)
+            if alt is None:
+                return
+            for row in run:
+                d = out[row]
+                h = d.best.hypothesis
+                reading = (f"P printed '{h.printed}' taken as {unit} but written in {alt} "
+                           f"(rows {run[0]}–{run[-1]} share this slip)")
+                out[row] = type(d)(d.row, d.z_before, type(d.best)(type(h)("pressure-unit", h.T_K, h.P_Pa, "P",
+                                   h.printed, reading, h.factor), d.best.z_after), d.ranked, d.reason)
+
+    def key(row):
+        d = out.get(row)
+        if d is None or d.best is None:
+            return None
+        h = d.best.hypothesis
+        if h.quantity != "P" or h.kind not in ("decimal-shift", "pressure-unit"):
+            return None
+        return round(math.log10(h.factor), 6)
+
+    prev = None
+    for row in order:
+        kk = key(row)
+        if kk is not None and kk == prev and run:
+            run.append(row)
+        else:
+            flush(run)
+            run = [row] if kk is not None else []
+        prev = kk
+    flush(run)
+    return out
+
+
+@register
+class Outliers(Check):
+    """Points that lie off the consensus vapor-pressure curve, with their likely cause.
+
+    **What it checks.** For each branch, every point's standardized
+    leave-one-out residual in ln P against the robust consensus fit: the
+    externally studentized residual for points in the fit, the prediction
+    residual for points outside it.  The standard uncertainty of each point
+    is its effective variance (u_P and u_T through the slope) when the table
+    gives uncertainties, else a robust scale (MAD) of the residuals — per
+    source when a source has ``min_points_source_scale`` points or more —
+    and never less than the rounding of its printed digits.  A point beyond
+    the family-wise critical value at ``reject_alpha`` (Šidák or Bonferroni
+    over the n points of the branch) is rejected and no longer bends the
+    fit; one beyond that at ``suspect_alpha`` is suspect.  The loop repeats
+    until the rejected set is stable (at most ``max_iterations``).  For each
+    suspect or rejected point the cause hypotheses of :mod:`audit.diagnose`
+    (pressure unit, temperature unit, decimal shift, transposed digits) are
+    scored; one is reported when the corrected point lies within
+    ``cause_k`` σ of the curve and the next-best reading is at least
+    ``cause_ratio`` times worse.  The data are never changed.
+
+    **Why it matters.** One wrong point bends a fitted curve and every
+    quantity derived from it (enthalpy, extrapolations); a point at the end
+    of the range bends it most and hides its own residual.  Heavily rounded
+    low pressures of old tables are not wrong for being 10 % off.
+
+    **Example.** Water, 20 points 280–370 K; row 12 printed 47.37 kPa where
+    the curve gives 47.73 kPa → reject, "digit-swap: P printed '47.37' would
+    read '47.73' …; residual −15.2 σ as printed, +0.3 σ corrected".
+
+    **Options.** ``reject_alpha``, ``suspect_alpha``, ``correction``,
+    ``max_iterations``, ``min_points``, ``min_points_source_scale``,
+    ``cause_k``, ``cause_ratio``.
+    """
+
+    id = "outliers"
+    title = "Points off the consensus curve"
+    method = ("Robust (Huber then Tukey biweight) effective-variance fit of the AICc-chosen equation in ln P; "
+              "externally studentized / prediction residuals from the weighted hat matrix; Šidák or "
+              "Bonferroni family-wise critical values; rounding floor u = δ/(2√3) per printed value; "
+              "iterated until the rejected set is stable; cause hypotheses scored against the final fit.")
+    references = (
+        "R. D. Cook, Technometrics 19, 15 (1977), doi:10.1080/00401706.1977.10489493 (Cook's distance).",
+        "D. A. Belsley, E. Kuh, R. E. Welsch, Regression Diagnostics (Wiley, 1980), doi:10.1002/0471725153.",
+        "Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967), doi:10.1080/01621459.1967.10482935.",
+        "J. Orear, Am. J. Phys. 50, 912 (1982), doi:10.1119/1.12972 (effective variance).",
+        "JCGM 100:2008 (GUM), §4.3.7 (rounding as a rectangular distribution).",
+    )
+    options = {
+        "reject_alpha": Option(float, "family-wise false-rejection probability per branch", "", 1e-6, 0.5),
+        "suspect_alpha": Option(float, "family-wise false-suspicion probability per branch", "", 1e-6, 0.9),
+        "correction": Option(str, "multiple-testing correction over the n points", "",
+                             choices=("sidak", "bonferroni")),
+        "max_iterations": Option(int, "cap on reject-and-refit rounds", "", 1, 100),
+        "min_points": Option(int, "fewest usable points of a branch to test it", "", 4, 1000),
+        "min_points_source_scale": Option(int, "fewest points of a source to estimate its own scatter",
+                                          "", 3, 1000),
+        "cause_k": Option(float, "a corrected point must lie within this many σ of the curve", "", 0.5, 10),
+        "cause_ratio": Option(float, "the next-best cause must be this many times worse", "", 1, 100),
+    }
+
+    def run(self, ctx):
+        s = ctx.settings(self.id)
+        ss = None
+        try:
+            sa = ctx.settings("source-agreement")
+            ss = sa if sa.enabled else None
+        except KeyError:
+            ss = None
+        meta = ctx.dataset.metadata
+        Tc, Pc = meta.get("T_critical"), meta.get("P_critical")
+        consensus, deviation, u_percent = {}, {}, {}
+        flags: list[PointFlag] = []
+        status: dict[int, str] = {}
+        causes: dict[int, Cause] = {}
+        resid_sigma: dict[int, float] = {}
+        metrics: dict = {"branches": {}}
+        skipped_branches = []
+        for branch in ctx.branches():
+            pts = ctx.usable(branch)
+            if len(pts) < s["min_points"]:
+                skipped_branches.append(f"{branch}: {len(pts)} points (< {s['min_points']})")
+                continue
+            try:
+                a = _BranchAnalysis(pts, s, ss, Tc if branch != "solid" else None,
+                                    Pc if branch != "solid" else None, branch)
+            except (ValueError, np.linalg.LinAlgError) as exc:
+                skipped_branches.append(f"{branch}: fit failed ({exc})")
+                continue
+            consensus[branch] = a.fit
+            by_row = {p.row: p for p in pts}
+            P_fit = np.exp(a.fit.equation.ln_p(a.T) + a.offsets)
+            diagnoses = {}
+            for i, p in enumerate(pts):
+                resid_sigma[p.row] = float(a.z[i])
+                deviation[p.row] = float(100 * (p.P_Pa - P_fit[i]) / P_fit[i]) if P_fit[i] > 0 else math.inf
+                u_percent[p.row] = float(100 * a.sigma[i])
+                if a.reject[i] or a.suspect[i]:
+                    diagnoses[p.row] = diagnose_point(p, a.z_of(i), s["cause_k"], s["cause_ratio"])
+            diagnoses = _relabel_blocks(diagnoses, by_row, [p.row for p in pts])
+            for i, p in enumerate(pts):
+                if not (a.reject[i] or a.suspect[i]):
+                    continue
+                level = "reject" if a.reject[i] else "suspect"
+                status[p.row] = level
+                d = diagnoses[p.row]
+                crit = a.crit_reject if level == "reject" else a.crit_suspect
+                msg = (f"{level}: residual {a.z[i]:+.1f} σ (limit {crit:.2f} σ), P deviates "
+                       f"{deviation[p.row]:+.3g} % from the {a.form_name} consensus fit; "
+                       f"Cook's distance {a.influence.cooks_distance[i]:.3g}")
+                if d.best is not None:
+                    h = d.best.hypothesis
+                    causes[p.row] = Cause(h.kind, d.explanation(),
+                                          h.T_K if h.quantity == "T" else None,
+                                          h.P_Pa if h.quantity == "P" else None)
+                    msg += f"; likely cause: {h.kind}"
+                flags.append(PointFlag(p.row, self.id, "fail" if level == "reject" else "warn", msg))
+            metrics["branches"][branch] = {
+                "n": len(pts), "equation": a.form_name, "n_reject": int(a.reject.sum()),
+                "n_suspect": int(a.suspect.sum()), "critical_reject_sigma": a.crit_reject,
+                "critical_suspect_sigma": a.crit_suspect, "iterations": a.iterations,
+                "converged": bool(a.converged), "uncertainties_given": a.u_given,
+                "scale": a.birge, "rms_percent": a.fit.rms_percent,
+                "biased_sources": {k: 100 * math.expm1(v[0]) for k, v in a.biased.items()},
+                "max_cooks_distance": float(np.max(a.influence.cooks_distance)),
+            }
+            ctx.shared.setdefault("outliers_biased_sources", {})[branch] = sorted(a.biased)
+        ctx.shared["consensus"] = consensus
+        ctx.shared["deviation_percent"] = deviation
+        ctx.shared["u_percent"] = u_percent
+        if not consensus:
+            why = "no branch has enough usable points to fit" + (
+                f" ({'; '.join(skipped_branches)})" if skipped_branches else "")
+            return skipped(self, why)
+        n_rej = sum(1 for v in status.values() if v == "reject")
+        n_sus = sum(1 for v in status.values() if v == "suspect")
+        metrics.update({"n_reject": n_rej, "n_suspect": n_sus, "n_diagnosed": len(causes),
+                        "skipped_branches": skipped_branches})
+        if status:
+            msg = (f"{n_rej} rejected and {n_sus} suspect point(s) off the consensus curve: {rows_text(status)}"
+                   + (f"; likely cause found for {len(causes)}" if causes else ""))
+        else:
+            msg = "every point lies within the expected scatter of the consensus curve"
+        if skipped_branches:
+            msg += f" (not tested: {'; '.join(skipped_branches)})"
+        st = "fail" if n_rej and s.severity == "fail" else worst_status(len(status), s.severity)
+        return CheckResult(self.id, self.title, st, msg, metrics, tuple(flags), status, causes, resid_sigma)

@@ -1,0 +1,201 @@
+"""Check ``source-agreement``: is one source systematically off the others?
+
+Runs after ``outliers`` and uses its consensus form per branch
+(``ctx.shared["consensus"]``).  For each named source it estimates, by
+leave-one-source-out GLS (:func:`audit.thermo.source_bias.source_offsets`),
+a pressure-scale offset and a temperature offset against the curve of the
+*other* sources, so a biased source cannot pull its own yardstick.  A source
+is flagged when its offset exceeds ``k`` times its standard uncertainty AND
+``tolerance_percent``.  Its rows get a warning flag but keep their status:
+a systematic offset is a property of the source, not of its single points.
+
+When a flagged source is still part of the consensus (``outliers`` leaves
+biased sources out only when three or more sources are named), the
+consensus is refitted without it and ``ctx.shared["consensus"]``,
+``["deviation_percent"]`` and ``["u_percent"]`` are replaced for that branch,
+so that later checks and the report use the unbiased curve.  Results go to
+``ctx.shared["source_records"]`` (list of :class:`audit.results.SourceAgreement`).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ..results import CheckResult, PointFlag, SourceAgreement
+from ._util import skipped, worst_status
+from .registry import Check, Option, register
+
+_RANK = {"ok": 0, "suspect": 1, "reject": 2}
+
+
+@register
+class SourceAgreement_(Check):
+    """Sources whose values are systematically offset from the others'.
+
+    **What it checks.** When the data name two or more sources: each
+    source's mean deviation in ln P from a curve fitted to the other sources
+    (same equation form as the consensus), with its standard uncertainty
+    (own scatter, inflated by its Birge ratio, plus the other sources' curve
+    uncertainty).  A pressure-scale error (constant Δln P) is told from a
+    temperature offset (Δln P = −(d ln P/dT)·ΔT, shrinking along the range)
+    by the χ² of the two one-parameter models; the pattern is named when
+    their difference reaches ``pattern_delta_chi2``.  A source beyond both
+    ``k``·u and ``tolerance_percent`` is ``suspect``, beyond
+    ``reject_tolerance_percent`` ``reject`` (in the source record; its rows
+    are only warned).
+
+    **Why it matters.** A miscalibrated gauge or thermometer shifts every
+    value of a source; the points look consistent among themselves and
+    pass any point-by-point test, yet bias the recommended curve.
+
+    **Example.** Three sources of water data; source "B" reads 3.1 ± 0.2 %
+    high everywhere → "B: pressures +3.1 % (u 0.2 %) vs. the other sources;
+    pattern: pressure-scale".
+
+    **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
+    ``pattern_delta_chi2``, ``min_points``.
+    """
+
+    id = "source-agreement"
+    title = "Sources agree with each other"
+    method = ("Leave-one-source-out consensus of the outliers check's equation form; GLS estimate of a "
+              "constant Δln P and of a temperature offset per source with covariance diag(σ²)+JCJᵀ; "
+              "models compared by Δχ² (= ΔAIC, one parameter each).")
+    references = (
+        "R. T. Birge, Phys. Rev. 40, 207 (1932), doi:10.1103/PhysRev.40.207.",
+        "H. Akaike, IEEE Trans. Autom. Control 19, 716 (1974), doi:10.1109/TAC.1974.1100705.",
+        "JCGM 100:2008 (GUM), §5.2 (correlated input quantities).",
+    )
+    options = {
+        "k": Option(float, "coverage factor on the offset's standard uncertainty", "", 0.5, 10),
+        "tolerance_percent": Option(float, "smallest offset worth flagging", "%", 0, 100),
+        "reject_tolerance_percent": Option(float, "offset beyond which the source record says reject",
+                                           "%", 0, 1000),
+        "pattern_delta_chi2": Option(float, "Δχ² needed to name pressure-scale vs temperature-offset",
+                                     "", 0, 100),
+        "min_points": Option(int, "fewest usable points of a source to assess it", "", 2, 1000),
+    }
+
+    def run(self, ctx):
+        from ..thermo.fitting import fit_equation
+        from ..thermo.rounding import pressure_rounding_u_lnP
+        from ..thermo.source_bias import source_offsets
+
+        s = ctx.settings(self.id)
+        names = ctx.dataset.sources
+        if not names:
+            return skipped(self, "data name no sources")
+        if len(names) == 1:
+            return skipped(self, "one source only", source=names[0])
+        consensus = ctx.shared.get("consensus") or {}
+        if not consensus:
+            return skipped(self, "no consensus fit to compare sources with (outliers check did not fit)")
+        deviation = dict(ctx.shared.get("deviation_percent", {}))
+        u_percent = dict(ctx.shared.get("u_percent", {}))
+        best: dict[str, SourceAgreement] = {}
+        flags: list[PointFlag] = []
+        notes = []
+        for branch, fit0 in consensus.items():
+            pts = ctx.usable(branch)
+            src = [p.source for p in pts]
+            if len({x for x in src if x}) < 2:
+                continue
+            T = np.array([p.T_K for p in pts])
+            P = np.array([p.P_Pa for p in pts])
+            sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in pts])
+            floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
+            sig = np.where(np.isfinite(sig) & (sig > 0), sig, np.maximum(floor, 1e-6))
+            keep = np.array([ctx.status[p.row] != "reject" for p in pts])
+            eq = fit0.equation
+            fixed = eq.fixed_parameters()
+            form = type(eq)
+            # Flag the worst source first, then re-assess the others against a consensus without
+            # it: one biased source would otherwise make every other look off in the opposite way.
+            excluded: list[str] = []
+            try:
+                for _ in range(len(set(src))):
+                    analysis = source_offsets(T, P, sig, src, form, keep=keep, min_points=s["min_points"],
+                                              exclude_from_consensus=excluded, fit_options=fixed)
+                    candidates = [o for o in analysis.offsets if o.source not in excluded
+                                  and abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
+                                  and abs(o.bias_percent) > s["tolerance_percent"]]
+                    # keep at least two sources in the consensus
+                    if not candidates or len(analysis.offsets) - len(excluded) <= 2:
+                        break
+                    worst = max(candidates, key=lambda o: abs(o.offset_lnP) / o.u_offset_lnP)
+                    excluded.append(worst.source)
+            except (ValueError, np.linalg.LinAlgError) as exc:
+                notes.append(f"{branch}: {exc}")
+                continue
+            n_src = len(analysis.offsets)
+            flagged = []
+            for o in analysis.offsets:
+                over_u = abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
+                over_tol = abs(o.bias_percent) > s["tolerance_percent"]
+                if over_u and over_tol:
+                    status = "reject" if abs(o.bias_percent) > s["reject_tolerance_percent"] else "suspect"
+                    pattern = o.preferred_pattern(s["pattern_delta_chi2"]) or (
+                        "temperature-offset" if o.delta_chi2 > 0 else "pressure-scale")
+                    flagged.append(o.source)
+                else:
+                    status, pattern = "ok", "none"
+                rec = SourceAgreement(
+                    source=o.source, n=o.n, bias_percent=o.bias_percent, u_bias_percent=o.u_bias_percent,
+                    temperature_offset_K=o.temperature_offset_K, pattern=pattern, status=status,
+                    extra={"branch": branch, "u_temperature_offset_K": o.u_temperature_offset_K,
+                           "delta_chi2_pressure_minus_temperature": o.delta_chi2,
+                           "pattern_decisive": o.preferred_pattern(s["pattern_delta_chi2"]) is not None,
+                           "birge_ratio": o.birge_ratio, "T_range_K": list(o.T_range),
+                           "two_sources_only": n_src == 2})
+                prev = best.get(o.source)
+                if prev is None or _RANK[status] > _RANK[prev.status]:
+                    best[o.source] = rec
+            for name, why in analysis.not_analysed:
+                best.setdefault(name, SourceAgreement(name, sum(1 for x in src if x == name), None, None, None,
+                                                      "none", "ok", {"branch": branch, "not_analysed": why}))
+            # a flagged source still in the consensus: refit without it (needs >= 1 other source)
+            excluded_before = set((ctx.shared.get("outliers_biased_sources") or {}).get(branch, []))
+            newly = [x for x in flagged if x not in excluded_before]
+            if newly and n_src >= 3:
+                use = keep & ~np.isin(np.array(src, dtype=object), flagged)
+                try:
+                    refit = fit_equation(T, P, form, u_P=P * sig, robust=True, point_weights=use.astype(float),
+                                         **fixed)
+                except (ValueError, np.linalg.LinAlgError):
+                    refit = None
+                if refit is not None:
+                    consensus[branch] = refit
+                    P_fit = refit.equation.p(T)
+                    for i, p in enumerate(pts):
+                        deviation[p.row] = float(100 * (p.P_Pa - P_fit[i]) / P_fit[i])
+                    notes.append(f"{branch}: consensus refitted without {', '.join(newly)}")
+        records = list(best.values())
+        ctx.shared["source_records"] = records
+        ctx.shared["consensus"] = consensus
+        ctx.shared["deviation_percent"] = deviation
+        ctx.shared["u_percent"] = u_percent
+        bad = [r for r in records if r.status != "ok"]
+        for r in bad:
+            what = (f"temperatures read {r.temperature_offset_K:+.3g} K high" if r.pattern == "temperature-offset"
+                    else f"pressures {r.bias_percent:+.3g} % off")
+            msg = (f"source '{r.source}' is systematically off the other sources: {what} "
+                   f"(bias {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} %, pattern {r.pattern})")
+            if r.extra.get("two_sources_only"):
+                msg += "; with two sources only, which one is off cannot be told"
+            for p in ctx.dataset.points:
+                if p.source == r.source and ctx.status[p.row] in ("ok", "suspect"):
+                    flags.append(PointFlag(p.row, self.id, "warn", msg))
+        if bad:
+            message = "; ".join(f"'{r.source}' {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} % ({r.pattern})"
+                                for r in bad)
+            message = f"{len(bad)} of {len(records)} sources systematically off: {message}"
+        else:
+            message = f"the {len(records)} sources agree within their uncertainties"
+        if notes:
+            message += " [" + "; ".join(notes) + "]"
+        metrics = {"n_sources": len(records), "n_flagged": len(bad),
+                   "sources": [r.to_dict() for r in records]}
+        return CheckResult(self.id, self.title, worst_status(len(bad), s.severity), message, metrics,
+                           tuple(flags))

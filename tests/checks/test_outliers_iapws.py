@@ -1,0 +1,140 @@
+"""Faults planted in IAPWS-95 water saturation pressures (iapws package), printed
+like a table (T to 0.01 K, P in kPa to 5 significant figures, 0.1 % noise).
+
+Each test asserts that the faulty row is rejected by ``outliers`` with the right
+cause and suggested value, and that no other row is flagged by ``outliers``.
+Suggested values: the fault is undone exactly in the printed text, so the
+suggestion must equal the unfaulted printed value re-read (tolerance 1e-9
+relative: floating point only) — except for unit slips, where the printed
+value was rounded in the other unit (tolerance 0.1 %, i.e. 5 printed digits).
+"""
+
+import numpy as np
+import pytest
+
+from audit.pipeline import run_audit
+from tests.checks._planted import water_table
+
+T_GRID = np.linspace(285.0, 365.0, 21)
+
+
+def _outliers(res):
+    return next(c for c in res.checks if c.id == "outliers")
+
+
+def _audit(ds, default_profile):
+    res = run_audit(ds, default_profile, audited_at="2024-01-01T00:00:00Z")
+    return res, _outliers(res)
+
+
+def _only_flagged(out, row):
+    # the faulty row is rejected; no neighbour is rejected (a lone suspect from the 20 %
+    # family-wise suspect level is tolerated, see the clean-table test)
+    assert out.point_status.get(row) == "reject", out.point_status
+    rejected = {r for r, s in out.point_status.items() if s == "reject"}
+    assert rejected == {row}, out.point_status
+    assert len(out.point_status) <= 2, out.point_status
+
+
+def test_clean_table_has_no_outlier(default_profile):
+    ds, _ = water_table(T_GRID, seed=3)
+    _, out = _audit(ds, default_profile)
+    # reject_alpha is a family-wise 1 % per table: no rejection expected; suspect_alpha is a
+    # family-wise 20 %, so one suspect row in a clean table is allowed (this noise draw has a
+    # 3.3 σ value at row 10)
+    assert "reject" not in out.point_status.values()
+    assert len(out.point_status) <= 1
+    assert len(out.residual_sigma) == len(T_GRID)
+
+
+def test_transposed_pressure_digits(default_profile):
+    ds0, _ = water_table(T_GRID, seed=4)
+    i = 10
+    good = ds0.points[i].P_text  # e.g. '31.198' -> swap the 2nd and 3rd digit
+
+    def swap(t, p):
+        d = list(p)
+        j = 3 if d[2] == "." else 2
+        k = j + 1 if d[j + 1] != "." else j + 2
+        assert d[j] != d[k]
+        d[j], d[k] = d[k], d[j]
+        return t, "".join(d)
+
+    ds, _ = water_table(T_GRID, seed=4, edits={i: swap})
+    res, out = _audit(ds, default_profile)
+    _only_flagged(out, i + 1)
+    assert out.point_status[i + 1] == "reject"
+    cause = out.causes[i + 1]
+    assert cause.kind == "digit-swap"
+    assert cause.suggested_P_Pa == pytest.approx(float(good) * 1e3, rel=1e-9)
+    assert "σ" in cause.explanation and ds.points[i].P_text in cause.explanation
+
+
+def test_value_printed_in_mmhg_in_a_kpa_column(default_profile):
+    i = 6
+    ds, P = water_table(T_GRID, seed=5, edits={i: lambda t, p: (t, f"{float(p) * 1e3 / 133.322387415:.5g}")})
+    _, out = _audit(ds, default_profile)
+    _only_flagged(out, i + 1)
+    cause = out.causes[i + 1]
+    assert cause.kind == "pressure-unit" and "mmHg" in cause.explanation
+    assert cause.suggested_P_Pa == pytest.approx(P[i], rel=2e-3)  # 0.1 % noise + 5-digit rounding
+
+
+def test_decimal_point_misplaced(default_profile):
+    i = 14
+    ds, _ = water_table(T_GRID, seed=6, edits={i: lambda t, p: (t, f"{float(p) * 10:.5g}")})
+    good = water_table(T_GRID, seed=6)[0].points[i].P_Pa
+    _, out = _audit(ds, default_profile)
+    _only_flagged(out, i + 1)
+    cause = out.causes[i + 1]
+    assert cause.kind == "decimal-shift"
+    assert cause.suggested_P_Pa == pytest.approx(good, rel=1e-9)
+
+
+def test_celsius_written_in_a_kelvin_column(default_profile):
+    i = 8
+    ds, _ = water_table(T_GRID, seed=7, edits={i: lambda t, p: (f"{float(t) - 273.15:.2f}", p)})
+    _, out = _audit(ds, default_profile)
+    rej = {r for r, s in out.point_status.items() if s == "reject"}
+    assert rej == {i + 1}
+    cause = out.causes[i + 1]
+    assert cause.kind == "temperature-unit"
+    assert cause.suggested_T_K == pytest.approx(T_GRID[i], abs=0.006)  # printed to 0.01 K
+
+
+def test_transposed_temperature_digits_at_the_end_of_the_range(default_profile):
+    # the last point has the highest leverage: the leave-one-out residual must still catch it
+    i = len(T_GRID) - 1
+    ds, _ = water_table(T_GRID, seed=8, edits={i: lambda t, p: (t[0] + t[2] + t[1] + t[3:], p)})
+    assert ds.points[i].T_text == "356.00"
+    _, out = _audit(ds, default_profile)
+    _only_flagged(out, i + 1)
+    cause = out.causes[i + 1]
+    assert cause.kind == "digit-swap"
+    assert cause.suggested_T_K == pytest.approx(365.0, abs=1e-9)
+
+
+def test_heavily_rounded_low_pressure_is_not_an_outlier(default_profile):
+    # Two significant figures at the low end: '1.2' kPa at 285 K is 2 % off the truth,
+    # far beyond the 0.1 % noise but within its printed precision (u = 0.05/√3/1.2 = 2.4 %).
+    T = np.linspace(285.0, 365.0, 21)
+    ds, _ = water_table(T, seed=9, edits={0: lambda t, p: (t, f"{float(p):.2g}")})
+    _, out = _audit(ds, default_profile)
+    assert 1 not in out.point_status
+
+
+def test_shared_products_for_the_report(default_profile):
+    from audit.context import AuditContext
+    from audit.checks.outliers import Outliers
+
+    ds, _ = water_table(T_GRID, seed=10)
+    ctx = AuditContext(dataset=ds, profile=default_profile)
+    Outliers().run(ctx)
+    fit = ctx.shared["consensus"]["unknown"]
+    assert fit.n_used >= len(T_GRID) - 1  # the consensus fit of the points kept
+    dev = ctx.shared["deviation_percent"]
+    u = ctx.shared["u_percent"]
+    assert set(dev) == set(u) == {p.row for p in ds.points}
+    # 0.1 % noise planted: deviations a few tenths of a percent at most, u about 0.1 %
+    assert max(abs(v) for v in dev.values()) < 0.5
+    assert 0.03 < np.median(list(u.values())) < 0.3

@@ -85,6 +85,13 @@ class BranchSplit(Check):
                                f"ratio ≥ {s['min_dH_ratio']})", metrics)
         Ts = T[brk.order]
         split = _refine_split(Ts, P[brk.order], brk.split, m)
+        F, p_curve = _kink_beyond_curvature(Ts, P[brk.order], split, brk.n_tested)
+        metrics.update({"F_vs_one_curve": F, "p_vs_one_curve_adjusted": p_curve})
+        if not p_curve < s["alpha"]:
+            return CheckResult(self.id, self.title, "pass",
+                               f"one branch: the best {_describe(brk, brk.T_break)} is explained by the "
+                               f"curvature of a single curve (constant ΔCp; adjusted p = {p_curve:.2g} ≥ "
+                               f"{s['alpha']})", metrics)
         T_break = brk.T_break
         if split != brk.split:  # midpoint in 1/T of the refined neighbours
             T_break = 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
@@ -104,6 +111,38 @@ class BranchSplit(Check):
 def _describe(brk, T_break: float) -> str:
     return (f"slope break at {T_break:.2f} K (adjusted p = {brk.p_value_adjusted:.2g}): apparent ΔH "
             f"{brk.dH_low / 1e3:.4g} kJ/mol below, {brk.dH_high / 1e3:.4g} kJ/mol above")
+
+
+def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, float]:
+    """F-test: two branches (line below, constant-ΔCp curve above) vs one curved branch.
+
+    A single liquid curve bends (ΔCp < 0), so two straight lines beat one
+    line even without a phase change; a solid/liquid junction must beat one
+    *curved* branch.  Huber-weighted fits keep a gross error from faking a
+    kink; the p-value is Bonferroni-adjusted over the splits tried.
+    """
+    from scipy import stats
+
+    from ..thermo.fitting import fit_equation
+
+    def rss(fit):
+        return float(np.sum(fit.weights * fit.residuals_lnP ** 2))
+
+    n = T.size
+    one = fit_equation(T, P, "cc3", robust="huber")
+    lo = fit_equation(T[:split], P[:split], "cc2", robust="huber")
+    hi = fit_equation(T[split:], P[split:], "cc3" if n - split >= 6 else "cc2", robust="huber")
+    k_two = 2 + hi.n_params
+    dof = n - k_two
+    if dof <= 0:
+        return float("nan"), 1.0
+    rss2 = rss(lo) + rss(hi)
+    extra = k_two - 3
+    if rss2 <= 0:
+        return float("inf"), 0.0
+    F = ((rss(one) - rss2) / extra) / (rss2 / dof)
+    p = float(stats.f.sf(F, extra, dof)) if F > 0 else 1.0
+    return float(F), min(1.0, p * max(n_tested, 1))
 
 
 def _refine_split(T, P, split: int, min_side: int, max_rounds: int = 5) -> int:

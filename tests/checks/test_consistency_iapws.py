@@ -128,3 +128,16 @@ def test_falling_pressure_implies_negative_enthalpy_and_fails(default_profile):
     res = run_audit(from_arrays(T, P, phase="liquid"), default_profile)
     assert _check(res, "enthalpy-continuity").status == "fail"
     assert res.verdict == "fail"
+
+
+def test_curvature_of_one_liquid_branch_is_not_taken_for_a_triple_point(default_profile):
+    # 280-370 K liquid water (IAPWS-95), unlabelled: two straight lines beat one
+    # (ΔH falls by 4 % over the range), but one curved branch explains it
+    rng = np.random.default_rng(4)
+    T = np.linspace(280.0, 370.0, 25)
+    P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
+    res = run_audit(from_arrays(T, P, substance="water"), default_profile)
+    split = _check(res, "branch-split")
+    assert split.status == "pass"
+    assert split.metrics["p_vs_one_curve_adjusted"] > 0.001
+    assert {p.phase for p in res.points} == {"unknown"}

@@ -306,7 +306,9 @@ def _solve(cls, template, T, y, w, current):
         b, cov = _weighted_lstsq(X, y - template.design_offset(T), w)
         return cls.from_coefficients(b, **template.fixed_parameters()), cov
     # Antoine: nonlinear; keep T + C on the positive side of the pole.
-    Tu = current._parts(T)[3] - current.C  # T in the constants' unit
+    # the pole bound comes from the points that count: a zero-weight point far
+    # outside the range (a °C value in a K column) must not pin C and stall the solver
+    Tu = (current._parts(T)[3] - current.C)[w > 0]  # T in the constants' unit
     lo = np.array([-np.inf, -np.inf, -np.min(Tu) + 1e-6 * max(1.0, np.ptp(Tu))])
     sw = np.sqrt(w)
 
@@ -319,8 +321,8 @@ def _solve(cls, template, T, y, w, current):
     x0 = current.params.copy()
     x0[2] = max(x0[2], lo[2] + 1e-3 * max(1.0, abs(lo[2])))
     sol = optimize.least_squares(resid, x0, jac=jac, bounds=(lo, np.full(3, np.inf)),
-                                 method="trf", x_scale="jac", xtol=1e-15, ftol=1e-15, gtol=1e-15,
-                                 max_nfev=2000)
+                                 method="trf", x_scale="jac", xtol=1e-13, ftol=1e-13, gtol=1e-13,
+                                 max_nfev=300)
     eq = current.with_params(sol.x)
     J = eq.jacobian_ln_p(T) * sw[:, None]
     norms = np.linalg.norm(J, axis=0)
@@ -409,7 +411,10 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     converged = False
     it = 0
     prev_lnp = eq.ln_p(T)
-    for it in range(1, max_iter + 1):
+    # each nonlinear (Antoine) solve is itself iterative: bound the outer loop so that
+    # a data set the form cannot describe (e.g. P falling with T) ends in seconds
+    outer = max_iter if cls.linear else min(max_iter, 40)
+    for it in range(1, outer + 1):
         sigma = np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2) if given else np.ones(n)
         z = (y - eq.ln_p(T)) / sigma
         if phase is not None:

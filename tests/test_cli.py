@@ -122,3 +122,60 @@ def test_profiles_and_explain(capsys):
 def test_python_dash_m_audit_runs():
     proc = subprocess.run([sys.executable, "-m", "audit", "--version"], capture_output=True, text=True)
     assert proc.returncode == 0 and proc.stdout.startswith("vpaudit ")
+
+
+def test_check_on_an_ice_plus_liquid_table_reports_the_triple_point(tmp_path):
+    # Ice Ih (IAPWS R14-08) and liquid water (IAPWS-95) through the iapws package,
+    # printed in Pa to 6 significant figures, phases labelled, substance named so that
+    # the triple point is compared with IAPWS R10-06 (273.16 K, 611.657 Pa).
+    import numpy as np
+
+    from tests.conftest import iapws_sublimation_pressure
+
+    Ts = np.linspace(240.0, 272.0, 9)
+    Tl = np.linspace(275.0, 370.0, 20)
+    lines = ["T/K,P/Pa,phase"]
+    lines += [f"{t:.2f},{p:.6g},ice" for t, p in zip(Ts, iapws_sublimation_pressure(Ts))]
+    lines += [f"{t:.2f},{p:.6g},liquid" for t, p in zip(Tl, iapws_saturation_pressure(Tl))]
+    data = tmp_path / "ice_water.csv"
+    data.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    (tmp_path / "ice_water.toml").write_text('substance = "water"\n', encoding="utf-8")
+    assert main(["check", str(data), "--out", str(tmp_path / "o"), "--format", "json"]) == 0
+    doc = json.loads((tmp_path / "o" / "findings.json").read_text("utf-8"))
+    validate_findings(doc)
+    tp = doc["triple_point"]
+    # exact reference values, printed to 6 digits: the crossing is within 0.02 K
+    assert tp["T_K"] == pytest.approx(273.16, abs=0.02)
+    assert tp["P_Pa"] == pytest.approx(611.657, rel=0.003)
+    # ΔH_fus(Tt) = 6.007 kJ/mol from IAPWS-95 and IAPWS-06
+    assert tp["dH_fus_J_per_mol"] == pytest.approx(6007, rel=0.01)
+    assert tp["reference"]["T_K"] == 273.16
+    assert {e["branch"] for e in doc["enthalpy"]} == {"solid", "liquid"}
+    assert all(e["real_gas_corrected"] and e["u_dH_J_per_mol"] > 0 for e in doc["enthalpy"])
+    assert any("Harvey & Lemmon" in n for n in doc["notes"])
+
+
+def test_substance_option_looks_up_constants_with_their_source(tmp_path):
+    # toluene's saturation pressures from CoolProp (Lemmon & Span 2006), in kPa
+    import numpy as np
+
+    CP = pytest.importorskip("CoolProp.CoolProp")
+    T = np.linspace(300.0, 380.0, 12)
+    lines = ["T/K,p/kPa"] + [f"{t:.2f},{CP.PropsSI('P', 'T', t, 'Q', 0, 'toluene') / 1000:.5g}" for t in T]
+    data = tmp_path / "tol.csv"
+    data.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    assert main(["check", str(data), "--substance", "toluene", "--out", str(tmp_path / "o"),
+                 "--format", "json"]) == 0
+    doc = json.loads((tmp_path / "o" / "findings.json").read_text("utf-8"))
+    consts = doc["dataset"]["constants"]
+    # Tc of toluene 591.75 K (CoolProp; chemicals takes its default from the same source)
+    assert consts["T_critical"]["value"] == pytest.approx(591.75, abs=0.1)
+    assert consts["T_critical"]["source"].startswith("chemicals ")
+    assert all(e["real_gas_corrected"] for e in doc["enthalpy"])
+
+
+def test_unknown_substance_is_exit_2(tmp_path, capsys):
+    data = tmp_path / "w.csv"
+    data.write_text("T/K,P/Pa\n300,3536.8\n310,6231.4\n", encoding="utf-8")
+    assert main(["check", str(data), "--substance", "unobtainium-xyz", "--out", str(tmp_path / "o")]) == 2
+    assert "unobtainium-xyz" in capsys.readouterr().err

@@ -112,7 +112,10 @@ class _BranchAnalysis:
         # curve runs through it); its leave-one-out residual gives it away
         scr = influence_measures(screen.equation.jacobian_ln_p(T), screen.residuals_lnP, screen.sigma_lnP,
                                  (~gross).astype(float))
-        gross |= np.abs(scr.studentized) > family_wise_critical(s["reject_alpha"], n, s["correction"],
+        # "gross" means far beyond the reject limit (α/1000): a point merely near the limit
+        # is left to the stepwise test below, or its removal shrinks the scale and swamps
+        # a clean neighbour
+        gross |= np.abs(scr.studentized) > family_wise_critical(s["reject_alpha"] / 1000, n, s["correction"],
                                                                  scr.dof - 1)
         ok = ~gross
         choice = select_equation(T[ok], P[ok], u_T=None if uT_in is None else uT_in[ok],
@@ -137,13 +140,20 @@ class _BranchAnalysis:
         offsets = np.zeros(n)
         u_off = np.zeros(n)
         history = []
+        floor_rel = s["min_scatter_percent"] / 100
         it = 0
-        for it in range(1, s["max_iterations"] + 1):
+        # the last pass only evaluates: its fit excludes exactly the final rejected set, so
+        # every z reported is measured against the curve the statuses imply
+        final = False
+        for it in range(1, s["max_iterations"] + 2):
             if u_given:
                 rel = np.sqrt(uPrel ** 2 + floorP ** 2)
             else:
                 rel = np.sqrt(scale_pt ** 2 + floorP ** 2)
-            rel = np.maximum(rel, 1e-12)
+            # no curve reproduces real data better than the profile's floor: below it the
+            # "scatter" is the equation's own misfit, not noise (e.g. exact reference values)
+            floored = bool(np.all(rel <= floor_rel))
+            rel = np.maximum(rel, floor_rel)
             excluded_src = np.isin(src, list(biased)) if (biased and len(names) >= 3) else np.zeros(n, bool)
             prior = (~rejected & ~excluded_src).astype(float)
             if prior.sum() <= k_par + 1:
@@ -153,10 +163,10 @@ class _BranchAnalysis:
             use = prior > 0
             robust_fit = fit_equation(T[use], P[use], form, u_T=uT_eff[use], u_P=(P * rel)[use], robust=True,
                                       **fixed)
-            in_fit = np.zeros(n, bool)
-            in_fit[use] = np.asarray(robust_fit.weights) > 0
-            if in_fit.sum() <= k_par + 1:
-                in_fit = use
+            # every point the family-wise test has not rejected is fitted; Tukey's zero
+            # weights are a screen, not a verdict.  Leaving them out let a good end point
+            # be scored by extrapolation and rejected on the strength of it.
+            in_fit = use.copy()
             fit = fit_equation(T[in_fit], P[in_fit], form, u_T=uT_eff[in_fit], u_P=(P * rel)[in_fit],
                                robust=False, **fixed)
             r = np.log(P) - fit.equation.ln_p(T)
@@ -172,6 +182,10 @@ class _BranchAnalysis:
                 z = np.where(inf.in_fit, inf.studentized_known_scale / s_loo,
                              inf.studentized_known_scale / birge)
                 crit_dof = dof if inf.scale > 1.0 else None
+            elif floored:
+                birge = max(1.0, inf.scale)
+                z = inf.studentized_known_scale / np.maximum(1.0, inf.scale_loo)
+                crit_dof = None
             else:
                 birge = inf.scale
                 z = np.array(inf.studentized)
@@ -187,16 +201,26 @@ class _BranchAnalysis:
                     z = np.where(offsets != 0, zb, z)
             crit_reject = family_wise_critical(s["reject_alpha"], n, s["correction"], crit_dof)
             crit_suspect = family_wise_critical(s["suspect_alpha"], n, s["correction"], crit_dof)
-            new_rejected = np.abs(z) > crit_reject
+            # one new rejection per round, the most extreme point: rejecting every point
+            # above the limit at once let a rejected +3.3 σ point shrink the scale and drag
+            # a clean neighbour over the limit (masking and swamping).  Points rejected
+            # before stay rejected only while their prediction residual is still beyond it.
+            if final:
+                break
+            above = np.abs(z) > crit_reject
+            new_rejected = rejected & above
+            candidates = np.flatnonzero(above & ~rejected)
+            if candidates.size:
+                new_rejected[candidates[np.argmax(np.abs(z[candidates]))]] = True
             state = (tuple(np.flatnonzero(new_rejected)), tuple(sorted(biased)))
             history.append(state)
             if np.array_equal(new_rejected, rejected) and it > 1 and state == history[-2]:
                 break
             if state in history[:-1]:  # cycling: keep the union, stop
                 new_rejected |= rejected
-                rejected = new_rejected
-                break
+                final = True
             rejected = new_rejected
+            final = final or it >= s["max_iterations"]
         self.iterations = it
         self.converged = it < s["max_iterations"] or (len(history) > 1 and history[-1] == history[-2])
         self.fit = fit
@@ -375,6 +399,9 @@ class Outliers(Check):
         "correction": Option(str, "multiple-testing correction over the n points", "",
                              choices=("sidak", "bonferroni")),
         "max_iterations": Option(int, "cap on reject-and-refit rounds", "", 1, 100),
+        "min_scatter_percent": Option(float, "floor on the relative scatter a consensus curve is trusted to "
+                                      "(common practice: vapor-pressure equations reproduce the best data to "
+                                      "a few hundredths of a percent)", "%", 0, 10),
         "min_points": Option(int, "fewest usable points of a branch to test it", "", 4, 1000),
         "min_points_source_scale": Option(int, "fewest points of a source to estimate its own scatter",
                                           "", 3, 1000),

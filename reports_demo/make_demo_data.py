@@ -62,7 +62,123 @@ def supplier_sheet() -> None:
         encoding="utf-8")
 
 
+R = 8.314462618  # J/(mol K), CODATA 2018
+
+
+def _benzene_curves():
+    """Liquid and solid vapor-pressure functions of benzene [Pa].
+
+    Liquid: CoolProp's reference equation of state for benzene (Thol et al.,
+    Int. J. Thermophys. 33, 1 (2012)), valid from the triple point up.
+    Solid: a two-constant Clausius-Clapeyron curve through CoolProp's triple
+    point (278.674 K, 4783.8 Pa) whose slope is the liquid's apparent slope
+    there plus ΔH_fus = 9.87 kJ/mol (CRC Handbook value as given by the
+    `chemicals` library), i.e. the Clapeyron equation with ΔH_sub = ΔH_vap +
+    ΔH_fus at the triple point.  It is a construction for the demo, not a
+    measured sublimation curve.
+    """
+    import CoolProp.CoolProp as CP
+
+    Tt = CP.PropsSI("Ttriple", "benzene")
+    pt = CP.PropsSI("P", "T", Tt, "Q", 0, "benzene")
+    h = 1e-3
+    # d ln p/d(1/T) of the liquid just above the triple point (one-sided difference)
+    T1, T2 = Tt + h, Tt + 2 * h
+    slope_liq = ((np.log(CP.PropsSI("P", "T", T2, "Q", 0, "benzene"))
+                  - np.log(CP.PropsSI("P", "T", T1, "Q", 0, "benzene"))) / (1 / T2 - 1 / T1))
+    dH_sub = -slope_liq * R + 9870.0
+
+    def liquid(T):
+        return np.array([CP.PropsSI("P", "T", float(t), "Q", 0, "benzene") for t in np.atleast_1d(T)])
+
+    def solid(T):
+        return pt * np.exp(-dH_sub / R * (1 / np.atleast_1d(T) - 1 / Tt))
+
+    return liquid, solid, Tt
+
+
+def literature_merge() -> None:
+    """Four synthetic 'literature' series for benzene merged by a data group.
+
+    Planted faults (row numbers are data rows, the first under the header is 1):
+    see reports_demo/README.md, which lists them with what the audit should say.
+    """
+    liquid, solid, Tt = _benzene_curves()
+    rng = np.random.default_rng(1958)
+    rows = []  # (T text, p text, phase, source, u(T) text, u(p) text)
+
+    def series(source, phase, T, u_T, u_rel, T_fmt, p_digits, bias=1.0, T_offset=0.0):
+        curve = liquid if phase == "liquid" else solid
+        for t in T:
+            p = curve(t + T_offset)[0] * bias * (1 + u_rel * rng.standard_normal())
+            t_obs = t + u_T * rng.standard_normal()
+            rows.append([T_fmt.format(t_obs), f"{p / 1000:.{p_digits}g}", phase, source,
+                         f"{u_T:g}", f"{100 * u_rel:g}"])
+
+    series("Arlen & Voss 1958", "liquid", np.arange(283.15, 354.0, 5.0), 0.05, 0.003, "{:.2f}", 4)
+    series("Brekke 1971", "solid", np.linspace(236.0, 277.0, 12), 0.02, 0.002, "{:.3f}", 5)
+    series("Brekke 1971", "liquid", np.linspace(281.0, 330.0, 8), 0.02, 0.002, "{:.3f}", 5)
+    series("Castell et al. 1994", "liquid", np.linspace(300.0, 420.0, 18), 0.02, 0.001, "{:.3f}", 6, bias=1.012)
+    series("Dunmore 2009", "solid", np.linspace(231.0, 275.0, 10), 0.01, 0.004, "{:.2f}", 4)
+
+    def find(source, phase, k):
+        idx = [i for i, r in enumerate(rows) if r[3] == source and r[2] == phase]
+        return idx[k]
+
+    faults = []
+    i = find("Arlen & Voss 1958", "liquid", 7)                 # °C written in the kelvin column
+    rows[i][0] = f"{float(rows[i][0]) - 273.15:.2f}"
+    faults.append((i, "temperature-unit"))
+    i = find("Brekke 1971", "solid", 5)                       # a solid point labelled liquid
+    rows[i][2] = "liquid"
+    faults.append((i, "phase-label"))
+    i = find("Castell et al. 1994", "liquid", 9)               # value keyed in mmHg, not kPa
+    rows[i][1] = f"{float(rows[i][1]) * 1000 / MMHG_PA:.6g}"
+    faults.append((i, "pressure-unit"))
+    i = find("Dunmore 2009", "solid", 3)                      # decimal point one place off
+    rows[i][1] = f"{float(rows[i][1]) * 10:.4g}"
+    faults.append((i, "decimal-shift"))
+    # two digits transposed: the first Dunmore row (from the 8th on) whose first adjacent
+    # pair of unlike digits, swapped, changes the value by more than 5 %
+    for k in range(7, 10):
+        i = find("Dunmore 2009", "solid", k)
+        text = rows[i][1]
+        pairs = [(a, a + 1) for a in range(len(text) - 1)
+                 if text[a].isdigit() and text[a + 1].isdigit() and text[a] != text[a + 1]]
+        if not pairs:
+            continue
+        a, b = pairs[0]
+        swapped = text[:a] + text[b] + text[a] + text[b + 1:]
+        if abs(float(swapped) / float(text) - 1) > 0.05:
+            rows[i][1] = swapped
+            break
+    faults.append((i, "digit-swap"))
+
+    lines = ["# SYNTHETIC DATA for the vpaudit demo: benzene vapor pressures merged from four invented",
+             "# 'literature' series (the sources and their authors do not exist). Generated from a published",
+             "# equation of state with planted faults; see reports_demo/README.md.",
+             "T/K,p/kPa,phase,source,u(T)/K,u(p)/%"]
+    lines += [",".join(f'"{c}"' if "," in c else c for c in r) for r in rows]
+    (OUT / "literature_benzene.csv").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    (OUT / "literature_benzene.toml").write_text(
+        '# SYNTHETIC demo metadata. Constants: CoolProp 8.0 (reference equation of state of benzene,\n'
+        '# Thol et al. 2012); enthalpy of fusion: CRC Handbook as given by the chemicals library.\n'
+        'substance = "benzene"\ncas = "71-43-2"\n\n[constants]\n'
+        'molar_mass = { value = 78.1118, unit = "g/mol", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'T_critical = { value = 562.02, unit = "K", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'P_critical = { value = 4.9063, unit = "MPa", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'acentric_factor = { value = 0.2108, unit = "1", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'T_boiling = { value = 353.216, unit = "K", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'T_triple = { value = 278.674, unit = "K", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'P_triple = { value = 4.7838, unit = "kPa", source = "CoolProp 8.0 (Thol et al. 2012)" }\n'
+        'dH_fusion = { value = 9.87, unit = "kJ/mol", source = "CRC Handbook, via chemicals 1.5" }\n',
+        encoding="utf-8")
+    for i, kind in faults:
+        print(f"  planted {kind:17s} at data row {i + 1}: {rows[i]}")
+
+
 if __name__ == "__main__":
     OUT.mkdir(parents=True, exist_ok=True)
     supplier_sheet()
+    literature_merge()
     print(f"wrote demo data to {OUT}")

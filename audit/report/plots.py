@@ -249,9 +249,20 @@ def plot_clapeyron(result: AuditResult) -> RenderedPlot:
     if not pts:
         return RenderedPlot(key, title, None, "no readable points with T > 0 and p > 0 to draw")
     fig, ax = _new_figure()
+    kept = _kept(pts)
+    px, xlim = _pinner([1000.0 / p.T_K for p in kept])
+    py, ylim = _pinner([math.log(p.P_Pa) for p in kept])
+    pinned = set()
+
+    def xy(p):
+        (x, ox), (y, oy) = px(1000.0 / p.T_K), py(math.log(p.P_Pa))
+        if ox or oy:
+            pinned.add(p.row)
+        return x, y
+
     for status in STATUS_STYLE:
-        sel = [p for p in pts if p.status == status]
-        _scatter_status(ax, [1000.0 / p.T_K for p in sel], [math.log(p.P_Pa) for p in sel], status)
+        sel = [xy(p) for p in pts if p.status == status]
+        _scatter_status(ax, [x for x, _ in sel], [y for _, y in sel], status)
     for fit in result.fits:
         curve = _fit_curve(fit, *fit.T_range_K)
         if curve is None:
@@ -270,12 +281,16 @@ def plot_clapeyron(result: AuditResult) -> RenderedPlot:
             ax.plot(1000.0 / T[ok], np.log(P[ok]), color="#888888", linewidth=2.2, alpha=0.6,
                     linestyle="-", zorder=1,
                     label=f"reference, {safe_label(branch, 12)}: {safe_label(ref.get('name', ''), 24)}")
-    flagged = [(1000.0 / p.T_K, math.log(p.P_Pa), p.row) for p in pts if _is_flagged(p)]
+    flagged = [(*xy(p), p.row) for p in pts if _is_flagged(p)]
     left_out = _annotate_rows(ax, flagged)
+    ax.set_xlim(*xlim)
+    ax.set_ylim(*ylim)
     ax.set_xlabel("1000 K / T")
     ax.set_ylabel("ln(p/Pa)")
     ax.legend(loc="best", frameon=True, framealpha=0.9)
     note = ("points by status; lines are the fitted equations; flagged points carry their row number"
+            + (f"; rejected row(s) {', '.join(map(str, sorted(pinned)))} lie outside the axes and are "
+               "drawn at the edge" if pinned else "")
             + (f" ({left_out} more flagged rows not labelled)" if left_out else ""))
     return RenderedPlot(key, title, _to_svg(fig, key), note)
 
@@ -291,6 +306,27 @@ def _deviation_limit(pts: Sequence[PointVerdict]) -> float:
     return max(1.25 * span, 0.05)
 
 
+def _pinner(kept: Sequence[float], pad: float = 0.06):
+    """A function pinning a coordinate to the span of the kept (not rejected)
+    points: a °C value in a kelvin column at 45 K must not squash the plot of
+    everything else.  Returns (f, limits); f(v) -> (v or the edge, pinned?)."""
+    lo, hi = min(kept), max(kept)
+    margin = pad * (hi - lo) if hi > lo else max(abs(lo) * 0.05, 1.0)
+    lo, hi = lo - margin, hi + margin
+
+    def f(v: float) -> tuple[float, bool]:
+        if v < lo:
+            return lo + 0.3 * margin, True
+        if v > hi:
+            return hi - 0.3 * margin, True
+        return v, False
+    return f, (lo, hi)
+
+
+def _kept(pts):
+    return [p for p in pts if p.status != "reject"] or list(pts)
+
+
 def _clip(value: float, limit: float) -> tuple[float, bool]:
     if abs(value) <= limit:
         return value, False
@@ -298,24 +334,29 @@ def _clip(value: float, limit: float) -> tuple[float, bool]:
 
 
 def _scatter_deviations(ax, pts, limit, *, with_errors=True) -> tuple[list, int]:
-    """Points by status, those beyond ±limit pinned to the edge; returns the row
-    labels to write and how many points were pinned."""
+    """Points by status, those beyond ±limit (or outside the kept points'
+    temperatures) pinned to the edge; returns the row labels to write and how
+    many points were pinned."""
     labels, pinned = [], 0
+    pt, xlim = _pinner([p.T_K for p in _kept(pts)])
+    ax.set_xlim(*xlim)
     for status in STATUS_STYLE:
         sel = [p for p in pts if p.status == status]
         if not sel:
             continue
         xs, ys, err = [], [], []
         for p in sel:
-            y, out = _clip(p.deviation_percent, limit)
+            y, out_y = _clip(p.deviation_percent, limit)
+            x, out_x = pt(p.T_K)
+            out = out_x or out_y
             pinned += out
-            xs.append(p.T_K)
+            xs.append(x)
             ys.append(y)
             err.append(0.0 if out or not _finite(p.u_percent) else p.u_percent)
             if out:
-                labels.append((p.T_K, y, f"{p.row} ({p.deviation_percent:+.3g} %)"))
+                labels.append((x, y, f"{p.row} ({p.deviation_percent:+.3g} %)"))
             elif _is_flagged(p):
-                labels.append((p.T_K, y, str(p.row)))
+                labels.append((x, y, str(p.row)))
         if with_errors and any(err):
             ax.errorbar(xs, ys, yerr=err, fmt="none", ecolor=STATUS_STYLE[status]["color"],
                         elinewidth=0.8, capsize=2, alpha=0.8, zorder=2)
@@ -479,6 +520,8 @@ def plot_source_deviation(result: AuditResult) -> RenderedPlot:
     bias = {s.source: s.bias_percent for s in result.sources if _finite(s.bias_percent)}
     limit = _deviation_limit(pts)
     pinned = 0
+    pt, xlim = _pinner([p.T_K for p in _kept(pts)])
+    ax.set_xlim(*xlim)
     for i, source in enumerate(order):
         sel = [p for p in pts if p.source == source]
         colour = _SOURCE_COLOURS[i % len(_SOURCE_COLOURS)]
@@ -488,16 +531,18 @@ def plot_source_deviation(result: AuditResult) -> RenderedPlot:
             group = [p for p in sel if (p.status == "reject") == rejected]
             if not group:
                 continue
-            ys = []
+            xs, ys = [], []
             for p in group:
-                y, out = _clip(p.deviation_percent, limit)
-                pinned += out
+                y, out_y = _clip(p.deviation_percent, limit)
+                x, out_x = pt(p.T_K)
+                pinned += out_x or out_y
+                xs.append(x)
                 ys.append(y)
             if rejected:
-                ax.scatter([p.T_K for p in group], ys, marker=marker, s=40, facecolors="none",
+                ax.scatter(xs, ys, marker=marker, s=40, facecolors="none",
                            edgecolors=colour, linewidths=1.2, zorder=3, label=f"{label} (rejected)")
             else:
-                ax.scatter([p.T_K for p in group], ys, marker=marker, s=26, color=colour,
+                ax.scatter(xs, ys, marker=marker, s=26, color=colour,
                            edgecolors="#000000", linewidths=0.4, zorder=3, label=label)
         if source in bias and abs(bias[source]) <= limit:
             T = [p.T_K for p in sel]

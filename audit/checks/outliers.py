@@ -112,10 +112,10 @@ class _BranchAnalysis:
         # curve runs through it); its leave-one-out residual gives it away
         scr = influence_measures(screen.equation.jacobian_ln_p(T), screen.residuals_lnP, screen.sigma_lnP,
                                  (~gross).astype(float))
-        # "gross" means far beyond the reject limit (α/1000): a point merely near the limit
+        # "gross" means far beyond the reject limit (α/100): a point merely near the limit
         # is left to the stepwise test below, or its removal shrinks the scale and swamps
         # a clean neighbour
-        gross |= np.abs(scr.studentized) > family_wise_critical(s["reject_alpha"] / 1000, n, s["correction"],
+        gross |= np.abs(scr.studentized) > family_wise_critical(s["reject_alpha"] / 100, n, s["correction"],
                                                                  scr.dof - 1)
         ok = ~gross
         choice = select_equation(T[ok], P[ok], u_T=None if uT_in is None else uT_in[ok],
@@ -163,10 +163,12 @@ class _BranchAnalysis:
             use = prior > 0
             robust_fit = fit_equation(T[use], P[use], form, u_T=uT_eff[use], u_P=(P * rel)[use], robust=True,
                                       **fixed)
-            # every point the family-wise test has not rejected is fitted; Tukey's zero
-            # weights are a screen, not a verdict.  Leaving them out let a good end point
-            # be scored by extrapolation and rejected on the strength of it.
-            in_fit = use.copy()
+            # points Tukey's reweighting gives zero weight are scored by prediction, so that a
+            # block of gross errors cannot mask itself by bending the curve
+            in_fit = np.zeros(n, bool)
+            in_fit[use] = np.asarray(robust_fit.weights) > 0
+            if in_fit.sum() <= k_par + 1:
+                in_fit = use.copy()
             fit = fit_equation(T[in_fit], P[in_fit], form, u_T=uT_eff[in_fit], u_P=(P * rel)[in_fit],
                                robust=False, **fixed)
             r = np.log(P) - fit.equation.ln_p(T)
@@ -201,15 +203,16 @@ class _BranchAnalysis:
                     z = np.where(offsets != 0, zb, z)
             crit_reject = family_wise_critical(s["reject_alpha"], n, s["correction"], crit_dof)
             crit_suspect = family_wise_critical(s["suspect_alpha"], n, s["correction"], crit_dof)
-            # one new rejection per round, the most extreme point: rejecting every point
+            # one new rejection per round among the fitted points, the most extreme: rejecting every point
             # above the limit at once let a rejected +3.3 σ point shrink the scale and drag
             # a clean neighbour over the limit (masking and swamping).  Points rejected
             # before stay rejected only while their prediction residual is still beyond it.
             if final:
                 break
             above = np.abs(z) > crit_reject
-            new_rejected = rejected & above
-            candidates = np.flatnonzero(above & ~rejected)
+            # ... except points the robust fit already left out: they go together
+            new_rejected = (rejected | ~in_fit) & above
+            candidates = np.flatnonzero(above & ~new_rejected)
             if candidates.size:
                 new_rejected[candidates[np.argmax(np.abs(z[candidates]))]] = True
             state = (tuple(np.flatnonzero(new_rejected)), tuple(sorted(biased)))

@@ -6,7 +6,7 @@ import numpy as np
 
 from ..results import CheckResult, PointFlag
 from ._fits import MIN_POINTS_FOR_FIT, recommended
-from ._util import fmt, skipped
+from ._util import skipped
 from .registry import Check, Option, register
 
 

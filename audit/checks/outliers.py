@@ -33,7 +33,6 @@ refits and replaces these entries.
 from __future__ import annotations
 
 import math
-from collections import defaultdict
 
 import numpy as np
 
@@ -41,7 +40,7 @@ from ..diagnose import diagnose_point
 from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
 from ..results import Cause, CheckResult, PointFlag
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
-from ._util import fmt, rows_text, skipped, worst_status
+from ._util import rows_text, skipped, worst_status
 from .registry import Check, Option, register
 
 #: Φ⁻¹(3/4): MAD/this estimates a normal standard deviation.

@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Mapping
 
-from ..results import AuditResult, PointVerdict
+from ..results import AuditResult
 
 __all__ = ["render_html", "write_html", "report_context", "format_number", "VERDICT_TEXT"]
 

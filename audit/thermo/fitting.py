@@ -41,7 +41,6 @@ from typing import Sequence
 import numpy as np
 from scipy import optimize
 
-from .constants import R
 from .enthalpy import apparent_enthalpy, heat_capacity_change
 from .equations import Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner, get_form
 

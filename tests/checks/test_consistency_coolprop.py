@@ -15,7 +15,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from audit.model import Constant, Metadata, from_arrays
+from audit.model import Metadata, from_arrays
 from audit.pipeline import run_audit
 
 CP = pytest.importorskip("CoolProp.CoolProp")

@@ -42,7 +42,12 @@ class BranchData:
 
 
 def branch_data(ctx: AuditContext, branch: str) -> BranchData:
-    pts = sorted(ctx.usable(branch), key=lambda p: (p.T_K, p.row))
+    return points_data(branch, ctx.usable(branch))
+
+
+def points_data(branch: str, points) -> BranchData:
+    """Points as arrays (SI), sorted by T."""
+    pts = sorted(points, key=lambda p: (p.T_K, p.row))
     T = np.array([p.T_K for p in pts], float)
     P = np.array([p.P_Pa for p in pts], float)
     # uncertainties count only when every point of the branch has them: a

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..results import CheckResult, PointFlag
+from ._fits import points_data
 from ._util import skipped
 from .registry import Check, Option, register
 
@@ -63,12 +64,10 @@ class BranchSplit(Check):
         m = s["min_points_per_side"]
         if len(unlabelled) < 2 * m:
             return skipped(self, f"{len(unlabelled)} unlabelled rows; a break needs {m} on each side")
-        T = np.array([p.T_K for p in unlabelled])
-        P = np.array([p.P_Pa for p in unlabelled])
-        u_T = np.array([p.u_T_K for p in unlabelled]) if all(p.u_T_K is not None for p in unlabelled) else None
-        u_P = np.array([p.u_P_Pa for p in unlabelled]) if all(p.u_P_Pa is not None for p in unlabelled) else None
+        data = points_data("unknown", unlabelled)
+        unlabelled, T, P = list(data.points), data.T, data.P
         try:
-            brk = find_slope_break(T, P, min_points_per_side=m, u_T=u_T, u_P=u_P)
+            brk = find_slope_break(T, P, min_points_per_side=m, u_T=data.u_T, u_P=data.u_P)
         except ValueError as exc:
             return skipped(self, f"no slope break could be tested: {exc}")
         ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")

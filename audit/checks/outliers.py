@@ -40,11 +40,10 @@ from ..diagnose import diagnose_point
 from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
 from ..results import Cause, CheckResult, PointFlag
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
+from ..thermo.stats import mad_scale
 from ._util import rows_text, skipped, worst_status
 from .registry import Check, Option, register
 
-#: Φ⁻¹(3/4): MAD/this estimates a normal standard deviation.
-_MAD_NORMAL = 0.6744897501960817
 #: √(π/2): standard error of a median relative to that of a mean (normal data).
 _MEDIAN_SE = math.sqrt(math.pi / 2)
 
@@ -74,10 +73,7 @@ def _floors(points):
 
 
 def _robust_scale(x) -> float:
-    x = np.asarray(x, float)
-    if x.size == 0:
-        return math.nan
-    return float(np.median(np.abs(x - np.median(x))) / _MAD_NORMAL)
+    return mad_scale(x)
 
 
 class _BranchAnalysis:

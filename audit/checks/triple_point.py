@@ -191,7 +191,8 @@ class TriplePoint(Check):
 
 
 def _robust_scale(fit) -> float:
-    """Residual scale of ln P over the points a fit used (MAD × 1.4826), floored."""
+    """Residual scale of ln P over the points a fit used (normal-consistent MAD), floored."""
+    from ..thermo.stats import mad_scale
+
     r = fit.residuals_lnP[fit.weights > 0]
-    mad = 1.4826 * float(np.median(np.abs(r - np.median(r)))) if r.size else 0.0
-    return max(mad, 1e-4)
+    return max(mad_scale(r), 1e-4) if r.size else 1e-4

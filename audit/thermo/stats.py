@@ -184,3 +184,19 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
                     p_value_too_few=p1, durbin_watson=float(durbin_watson(r)),
                     longest_run=int(lengths[j]) if lengths.size else 0,
                     longest_run_start=start, longest_run_stop=stop)
+
+
+#: MAD of a standard normal variable, Φ⁻¹(3/4); MAD/this estimates σ
+MAD_NORMAL = 0.6744897501960817
+
+
+def mad_scale(x) -> float:
+    """Robust scale: median absolute deviation about the median / Φ⁻¹(3/4).
+
+    Consistent for σ of normal data; NaN for an empty input.  Verified against
+    ``scipy.stats.median_abs_deviation(x, scale='normal')``.
+    """
+    x = np.asarray(x, dtype=float)
+    if x.size == 0:
+        return float("nan")
+    return float(np.median(np.abs(x - np.median(x))) / MAD_NORMAL)

@@ -65,3 +65,15 @@ def test_no_step_in_smooth_data():
     # Smooth data: the scanned maximum is not significant after adjustment
     # (would fail by chance in well under 5 % of seeds).
     assert st.p_value_adjusted > 0.01
+
+
+def test_mad_scale_matches_scipy():
+    # scipy.stats.median_abs_deviation with scale='normal' is the reference
+    import numpy as np
+    from scipy.stats import median_abs_deviation
+
+    from audit.thermo.stats import mad_scale
+
+    x = np.random.default_rng(8).standard_t(3, 41)
+    assert mad_scale(x) == pytest.approx(median_abs_deviation(x, scale="normal"), rel=1e-12)
+    assert np.isnan(mad_scale([]))

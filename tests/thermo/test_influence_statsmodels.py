@@ -94,3 +94,36 @@ def test_bad_input_raises_value_error():
         influence_measures(np.ones((3, 3)), np.zeros(3))
     with pytest.raises(ValueError):
         influence_measures(np.ones((5, 2)), np.zeros(4))
+
+
+@pytest.mark.parametrize("columns", [2, 3])
+def test_group_deletion_equals_a_weighted_refit_without_the_group(columns):
+    # reference: statsmodels WLS refitted without the group's points; the group holds fitted
+    # points and one point already outside the fit (weight 0), which must move with the curve.
+    # Tolerance 1e-8 relative to the residuals' size: closed-form linear algebra both sides.
+    from audit.thermo.influence import group_deletion
+
+    X, y, sigma = _problem(seed=11)
+    X = X[:, :columns]
+    weights = np.ones(y.size)
+    weights[5] = 0.0
+    w = weights / sigma ** 2
+    full = sm.WLS(y, X, weights=w).fit()
+    group = np.zeros(y.size, bool)
+    group[[3, 5, 17, 24]] = True
+    keep = ~group & (weights > 0)
+    refit = sm.WLS(y[keep], X[keep], weights=w[keep]).fit()
+    got = group_deletion(X, full.resid, sigma, weights, group)
+    expected = y[group] - X[group] @ refit.params
+    assert np.allclose(got.residuals, expected, rtol=0, atol=1e-8 * np.max(np.abs(expected)))
+    # prediction variance of the refit at the group's points (σ absolute, no rescaling)
+    cov = np.linalg.inv((X[keep] * w[keep, None]).T @ X[keep])
+    assert np.allclose(got.curve_variance, np.einsum("ij,jk,ik->i", X[group], cov, X[group]), rtol=1e-8)
+
+
+def test_group_deletion_reports_an_undetermined_refit_as_none():
+    from audit.thermo.influence import group_deletion
+
+    X, y, sigma = _problem(n=5)
+    group = np.array([True, True, True, False, False])
+    assert group_deletion(X, y, sigma, np.ones(5), group) is None  # 2 points left for 3 parameters

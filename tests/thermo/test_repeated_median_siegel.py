@@ -1,0 +1,24 @@
+"""Siegel's repeated-median line (A. F. Siegel, Biometrika 69, 242 (1982),
+doi:10.1093/biomet/69.1.242), as the high-breakdown start of the outlier screen."""
+
+import numpy as np
+import pytest
+
+
+def test_repeated_median_line_ignores_a_block_of_unit_slips_at_one_end():
+    # Siegel (1982): 50 % breakdown.  Reference values: the line through exact
+    # ln P = 20 − 5000/T that the 9 good points lie on; a block of 3 values printed
+    # 1000× too high (a Pa/kPa slip) at the low-temperature end must not move it.
+    # Tolerance 1e-9: the good points are exact, so the repeated medians are exact.
+    from audit.thermo.stats import repeated_median_line
+
+    T = np.linspace(280.0, 370.0, 12)
+    y = 20.0 - 5000.0 / T
+    y[:3] += np.log(1000.0)
+    line = repeated_median_line(1.0 / T, y)
+    assert line.slope == pytest.approx(-5000.0, rel=1e-9)
+    assert line.intercept == pytest.approx(20.0, rel=1e-9)
+    assert np.allclose(line.residuals[:3], np.log(1000.0), atol=1e-9)
+    # least squares, by contrast, is dragged by the block
+    slope_ls = np.polyfit(1.0 / T, y, 1)[0]
+    assert abs(slope_ls + 5000.0) > 1000.0

@@ -33,6 +33,7 @@ refits and replaces these entries.
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -40,7 +41,7 @@ from ..diagnose import diagnose_point
 from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
 from ..results import Cause, CheckResult, PointFlag
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
-from ..thermo.stats import mad_scale
+from ..thermo.stats import mad_scale, repeated_median_line
 from ._util import rows_text, skipped, worst_status
 from .registry import Check, Option, register
 
@@ -66,6 +67,16 @@ def family_wise_critical(alpha: float, n: int, correction: str, dof: float | Non
     return float(stats.t.isf(a / 2, max(dof, 1.0)))
 
 
+@dataclass(frozen=True)
+class _SourceShift:
+    """A source found off the curve inside the loop (internal)."""
+
+    offset_lnP: float
+    u_lnP: float
+    pattern: str
+    dT_K: float
+
+
 def _floors(points):
     fP = np.array([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in points])
     fT = np.array([temperature_rounding_u_K(p.T_text, p.T_text_unit) for p in points])
@@ -81,7 +92,7 @@ class _BranchAnalysis:
 
     def __init__(self, points, settings, source_settings, Tc, Pc, branch):
         from ..thermo.fitting import fit_equation, select_equation
-        from ..thermo.influence import influence_measures
+        from ..thermo.influence import group_deletion, influence_measures
 
         self.points = points
         s = settings
@@ -101,17 +112,29 @@ class _BranchAnalysis:
         # back) so that they neither steer the choice of form nor drag a nonlinear fit far away.
         uP_in = P * np.sqrt(uPrel ** 2 + floorP ** 2) if u_given else None
         uT_in = uT_eff if u_given else None
-        screen = fit_equation(T, P, "cc3" if n >= 8 else "cc2", u_T=uT_in, u_P=uP_in, robust=True)
-        gross = np.asarray(screen.weights) == 0
+        crit_gross = family_wise_critical(s["reject_alpha"] / 100, n, s["correction"])
+        # That robust fit starts from least squares, which a block of unit slips at one end of
+        # the range drags far enough to hide in; a repeated-median line (50 % breakdown) first
+        # keeps points far off even a straight ln P–1/T line out of it.  Curvature only widens
+        # the line's scale, so this catches gross errors alone.
+        line = repeated_median_line(1.0 / T, np.log(P))
+        line_scale = max(_robust_scale(line.residuals), s["min_scatter_percent"] / 100)
+        far = np.abs(line.residuals - np.median(line.residuals)) > crit_gross * line_scale
+        if n - far.sum() <= 4:
+            far[:] = False
+        screen = fit_equation(T, P, "cc3" if n >= 8 else "cc2", u_T=uT_in, u_P=uP_in, robust=True,
+                              point_weights=(~far).astype(float))
+        out_of_screen = np.asarray(screen.weights) == 0
         # a far-off point can hold a leverage near 1 and pass for good in the robust fit (the
         # curve runs through it); its leave-one-out residual gives it away
         scr = influence_measures(screen.equation.jacobian_ln_p(T), screen.residuals_lnP, screen.sigma_lnP,
-                                 (~gross).astype(float))
+                                 (~out_of_screen).astype(float))
         # "gross" means far beyond the reject limit (α/100): a point merely near the limit
         # is left to the stepwise test below, or its removal shrinks the scale and swamps
-        # a clean neighbour
-        gross |= np.abs(scr.studentized) > family_wise_critical(s["reject_alpha"] / 100, n, s["correction"],
-                                                                 scr.dof - 1)
+        # a clean neighbour.  Points the line alone kept out return when the screen fit,
+        # made without them, predicts them well.
+        gross = (out_of_screen & ~far) | (np.abs(scr.studentized) > family_wise_critical(
+            s["reject_alpha"] / 100, n, s["correction"], scr.dof - 1))
         ok = ~gross
         choice = select_equation(T[ok], P[ok], u_T=None if uT_in is None else uT_in[ok],
                                  u_P=None if uP_in is None else uP_in[ok],
@@ -131,7 +154,7 @@ class _BranchAnalysis:
         scale_pt = self._scales(resid0, active0, src, s) if not u_given else None
 
         rejected = gross.copy()
-        biased: dict[str, tuple[float, float]] = {}
+        biased: dict[str, _SourceShift] = {}
         offsets = np.zeros(n)
         u_off = np.zeros(n)
         history = []
@@ -178,7 +201,9 @@ class _BranchAnalysis:
                 s_loo = np.maximum(1.0, inf.scale_loo)
                 z = np.where(inf.in_fit, inf.studentized_known_scale / s_loo,
                              inf.studentized_known_scale / birge)
-                crit_dof = dof if inf.scale > 1.0 else None
+                # the stated u are trusted unless the data scatter more than they say even
+                # without their most extreme point (which would otherwise raise its own limit)
+                crit_dof = dof if float(np.min(inf.scale_loo[inf.in_fit])) > 1.0 else None
             elif floored:
                 birge = max(1.0, inf.scale)
                 z = inf.studentized_known_scale / np.maximum(1.0, inf.scale_loo)
@@ -189,13 +214,16 @@ class _BranchAnalysis:
                 crit_dof = dof
             # biased sources: score their points after removing the source offset
             if multi:
-                biased = self._biased_sources(r, sigma * max(birge, 1e-300), rejected, src, names, source_settings)
-                offsets = np.array([biased[x][0] if x in biased else 0.0 for x in src])
-                u_off = np.array([biased[x][1] if x in biased else 0.0 for x in src])
+                slope = fit.equation.dlnp_dT(T)
+                biased = self._biased_sources(
+                    r, slope, sigma, src, names, source_settings,
+                    lambda mask, left_out: group_deletion(J, r, sigma, (in_fit & ~left_out).astype(float), mask))
+                offsets = self._point_offsets(biased, src, slope)
+                u_off = np.array([biased[x].u_lnP if x in biased else 0.0 for x in src])
                 if biased:
                     pred_var = (sigma * birge) ** 2 * np.where(inf.in_fit, 1 - inf.leverage, 1 + inf.leverage)
                     zb = (r - offsets) / np.sqrt(pred_var + u_off ** 2)
-                    z = np.where(offsets != 0, zb, z)
+                    z = np.where(np.isin(src, list(biased)), zb, z)
             crit_reject = family_wise_critical(s["reject_alpha"], n, s["correction"], crit_dof)
             crit_suspect = family_wise_critical(s["suspect_alpha"], n, s["correction"], crit_dof)
             # one new rejection per round among the fitted points, the most extreme: rejecting every point
@@ -251,20 +279,61 @@ class _BranchAnalysis:
         return out
 
     @staticmethod
-    def _biased_sources(r, sig, rejected, src, names, ss):
-        out = {}
-        for name in names:
-            # all of the source's points: a source 3 % off with 0.1 % scatter has every point
-            # rejected by the first screen, and the median is robust to its own outliers anyway
+    def _biased_sources(r, slope, sig, src, names, ss, deletion):
+        """Sources off the curve of the others by more than ``k``·u and ``tolerance_percent``.
+
+        Each source is judged by its points' residuals against the fit made
+        without them (``deletion(mask)``, a group deletion; the in-fit residuals
+        ``r`` when that fit is not determined), so a source cannot pull its own
+        yardstick.  ``sig`` is each point's own σ, not inflated by the fit's
+        Birge ratio: a biased source inflates that ratio itself and would hide
+        behind it.  The offset later removed from the source's points follows
+        the better of the two patterns (constant Δln P, or a thermometer
+        offset ΔT·d ln P/dT), judged by the robust spread each leaves, and is
+        measured on ``r`` (the residuals those points are scored with);
+        ``source-agreement`` does the full comparison later.
+        """
+        out: dict[str, _SourceShift] = {}
+        # worst source first, then the others against a yardstick without it: one biased
+        # source would otherwise make every other look off the opposite way
+        while len(names) - len(out) >= 2:
+            left_out = np.isin(src, list(out))
+            worst, worst_score = None, 0.0
+            for name in names:
+                # all of the source's points: a source 3 % off with 0.1 % scatter has every point
+                # rejected by the first screen, and the median is robust to its own outliers anyway
+                mine = src == name
+                if name in out or mine.sum() < 2:
+                    continue
+                gd = deletion(mine, left_out)
+                r_out = r[mine] if gd is None else gd.residuals
+                curve_var = 0.0 if gd is None else float(np.mean(gd.curve_variance))
+                med_out = float(np.median(r_out))
+                spread = max(_robust_scale(r_out), float(np.median(sig[mine])))
+                u = math.sqrt((_MEDIAN_SE * spread) ** 2 / mine.sum() + curve_var)
+                if abs(med_out) > ss["k"] * u and 100 * abs(math.expm1(med_out)) > ss["tolerance_percent"] \
+                        and abs(med_out) / u > worst_score:
+                    worst, worst_score = (name, u), abs(med_out) / u
+            if worst is None:
+                break
+            name, u = worst
             mine = src == name
-            if mine.sum() < 2:
-                continue
-            med = float(np.median(r[mine]))
-            spread = max(_robust_scale(r[mine]), float(np.median(sig[mine])))
-            u = _MEDIAN_SE * spread / math.sqrt(mine.sum())
-            if abs(med) > ss["k"] * u and 100 * abs(math.expm1(med)) > ss["tolerance_percent"]:
-                out[name] = (med, u)
+            rm, sm = r[mine], slope[mine]
+            med = float(np.median(rm))
+            dT = float(np.median(-rm / sm)) if np.all(sm > 0) else math.nan
+            temperature = math.isfinite(dT) and _robust_scale(rm + sm * dT) < _robust_scale(rm - med)
+            out[name] = _SourceShift(med, u, "temperature-offset" if temperature else "pressure-scale",
+                                     dT if temperature else math.nan)
         return out
+
+    @staticmethod
+    def _point_offsets(biased, src, slope):
+        """Δln P to remove from each point of a biased source (0 elsewhere)."""
+        off = np.zeros(src.size)
+        for name, b in biased.items():
+            mine = src == name
+            off[mine] = -slope[mine] * b.dT_K if b.pattern == "temperature-offset" else b.offset_lnP
+        return off
 
     def z_of(self, i):
         """Standardized residual (T, P) -> z of a corrected reading of point i."""
@@ -469,7 +538,7 @@ class Outliers(Check):
                 "critical_suspect_sigma": a.crit_suspect, "iterations": a.iterations,
                 "converged": bool(a.converged), "uncertainties_given": a.u_given,
                 "scale": a.birge, "rms_percent": a.fit.rms_percent,
-                "biased_sources": {k: 100 * math.expm1(v[0]) for k, v in a.biased.items()},
+                "biased_sources": {k: 100 * math.expm1(v.offset_lnP) for k, v in a.biased.items()},
                 "max_cooks_distance": float(np.max(a.influence.cooks_distance)),
             }
             ctx.shared.setdefault("outliers_biased_sources", {})[branch] = sorted(a.biased)

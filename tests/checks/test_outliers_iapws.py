@@ -9,8 +9,12 @@ relative: floating point only) — except for unit slips, where the printed
 value was rounded in the other unit (tolerance 0.1 %, i.e. 5 printed digits).
 """
 
+from dataclasses import replace
+
 import numpy as np
 import pytest
+
+from audit.model import Dataset
 
 from audit.pipeline import run_audit
 from tests.checks._planted import water_table
@@ -138,3 +142,23 @@ def test_shared_products_for_the_report(default_profile):
     # 0.1 % noise planted: deviations a few tenths of a percent at most, u about 0.1 %
     assert max(abs(v) for v in dev.values()) < 0.5
     assert 0.03 < np.median(list(u.values())) < 0.3
+
+
+def test_block_of_unit_slips_at_the_low_end_of_a_short_table(default_profile):
+    # 3 of 12 rows printed in Pa in a kPa column, at the low-temperature end, with stated
+    # uncertainties: a least-squares start is dragged into the block and the robust fit then
+    # keeps it; the repeated-median screen must not.  The suggested value re-reads the
+    # printed text in Pa (tolerance 1e-9: floating point only).
+    T = np.linspace(284.0, 356.0, 12)
+    block = (1, 2, 3)
+    edits = {i: (lambda t, p: (t, f"{float(p) * 1e3:.5g}")) for i in block}
+    ds, _ = water_table(T, seed=12, edits=edits)
+    # a table that states u(P) = 0.1 % of each printed value and u(T) = 0.01 K
+    ds = Dataset(points=tuple(replace(p, u_P_Pa=0.001 * p.P_Pa, u_T_K=0.01) for p in ds.points))
+    _, out = _audit(ds, default_profile)
+    rejected = {r for r, s in out.point_status.items() if s == "reject"}
+    assert rejected == {i + 1 for i in block}, out.point_status
+    for i in block:
+        cause = out.causes[i + 1]
+        assert cause.kind == "pressure-unit"
+        assert cause.suggested_P_Pa == pytest.approx(ds.points[i].P_Pa / 1e3, rel=1e-9)

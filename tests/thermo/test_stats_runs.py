@@ -77,4 +77,3 @@ def test_mad_scale_matches_scipy():
     x = np.random.default_rng(8).standard_t(3, 41)
     assert mad_scale(x) == pytest.approx(median_abs_deviation(x, scale="normal"), rel=1e-12)
     assert np.isnan(mad_scale([]))
-

@@ -14,8 +14,11 @@ from .registry import Check, Option, register
 class Monotonic(Check):
     """Pairs of neighbouring rows where pressure falls as temperature rises.
 
-    **What it checks.** Within one branch (solid, liquid, or unlabelled),
-    points sorted by temperature must have rising pressure.  Each pair of
+    **What it checks.** Within one branch (solid, liquid, or unlabelled)
+    and one source, points sorted by temperature must have rising pressure.
+    Neighbours from different sources are not compared: a fall between them
+    is a disagreement of the sources, which ``source-agreement`` and
+    ``outliers`` measure against the consensus of all the data.  Each pair of
     temperature neighbours (|ΔT| > ``T_tolerance_K``) whose pressure falls by
     more than the larger of ``k`` × combined u(P) and
     ``P_tolerance_percent`` is flagged, naming both rows; both become
@@ -53,7 +56,8 @@ class Monotonic(Check):
         pairs: list[list[int]] = []
         by_branch = defaultdict(list)
         for p in ctx.usable():
-            by_branch[ctx.phase(p)].append(p)
+            # a measurement series is one source; unlabelled rows count as one series
+            by_branch[(ctx.phase(p), p.source or "")].append(p)
         for pts in by_branch.values():
             pts = sorted(pts, key=lambda q: (q.T_K, q.row))
             for a, b in zip(pts, pts[1:]):
@@ -74,6 +78,7 @@ class Monotonic(Check):
         if pairs:
             msg = f"{len(pairs)} neighbouring pairs with P falling as T rises: {rows_text(suspect)}"
         else:
-            msg = "pressure rises with temperature within every branch"
+            msg = "pressure rises with temperature within every branch" + (
+                " and source" if ctx.dataset.sources else "")
         return CheckResult(self.id, self.title, worst_status(len(pairs), s.severity), msg,
                            {"n_violating_pairs": len(pairs), "pairs": pairs}, tuple(flags), suspect)

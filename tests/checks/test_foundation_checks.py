@@ -70,6 +70,20 @@ def test_pressure_falling_with_temperature_names_both_rows(profile_without):
     assert {p.row for p in res.points if p.status == "suspect"} == {3, 4}
 
 
+def test_monotonic_compares_rows_of_the_same_source_only(profile_without):
+    # Two series interleaved in T; series B reads 3 % high (a gauge error).  Row 2 (A, 301 K) then
+    # lies below row 1 (B, 300 K) in pressure — a disagreement of the sources, not a fall
+    # within a series (IAPWS-95 P rises 6.0 %/K here, so B's 3 % covers 0.5 K).  A fall inside
+    # series A (rows 3 and 5 swapped) is still found.
+    T = np.array([300.0, 300.2, 305.0, 305.1, 310.0, 310.1])
+    src = ["B", "A", "A", "B", "A", "B"]
+    P = iapws_saturation_pressure(T) * np.where(np.array(src) == "B", 1.03, 1.0)
+    P[2], P[4] = P[4], P[2]
+    res = run_audit(from_arrays(T, P, source=src), profile_without("outliers"))
+    chk = _check(res, "monotonic")
+    assert chk.metrics["pairs"] == [[3, 5]]
+
+
 def test_monotonic_respects_branches(default_profile):
     # ice below and liquid above Tt may interleave in a table sorted by source
     from tests.conftest import iapws_sublimation_pressure

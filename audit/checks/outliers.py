@@ -75,6 +75,9 @@ class _SourceShift:
     u_lnP: float
     pattern: str
     dT_K: float
+    #: standard uncertainty of the offset removed from the points: of Δln P (pressure scale)
+    #: or of ΔT [K] (temperature offset), from the scatter the pattern leaves
+    u_removed: float
 
 
 def _floors(points):
@@ -85,6 +88,37 @@ def _floors(points):
 
 def _robust_scale(x) -> float:
     return mad_scale(x)
+
+
+def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
+    """Score points far outside the fitted temperature range by temperature.
+
+    Far beyond the range, the prediction of ln P is so uncertain that any
+    value "fits" (a °C value in a kelvin column, 45 K for 318 K, scores
+    −3 σ).  When the printed pressure lies within the pressures of the
+    fitted range, the curve says at which temperature T* it belongs, and
+    the point is scored by that distance through the slope there:
+    z = (d ln P/dT)(T*)·(T* − T)/σ(T*).
+    """
+    from scipy.optimize import brentq
+
+    eq = fit.equation
+    lo, hi = fit.T_range
+    span = hi - lo
+    far = outside & ((T < lo - 0.25 * span) | (T > hi + 0.25 * span))
+    if not far.any():
+        return z
+    ln_lo, ln_hi = (float(eq.ln_p(np.array([t]))[0]) for t in (lo, hi))
+    z = np.array(z, dtype=float)
+    for i in np.flatnonzero(far):
+        y = math.log(P[i])
+        if not ln_lo <= y <= ln_hi:
+            continue
+        T_star = brentq(lambda t: float(eq.ln_p(np.array([t]))[0]) - y, lo, hi, xtol=1e-9)
+        slope = float(eq.dlnp_dT(np.array([T_star]))[0])
+        sig = math.sqrt(rel[i] ** 2 + (slope * uT_eff[i]) ** 2) * scale
+        z[i] = slope * (T_star - T[i]) / sig
+    return z
 
 
 class _BranchAnalysis:
@@ -132,8 +166,16 @@ class _BranchAnalysis:
         # "gross" means far beyond the reject limit (α/100): a point merely near the limit
         # is left to the stepwise test below, or its removal shrinks the scale and swamps
         # a clean neighbour.  Points the line alone kept out return when the screen fit,
-        # made without them, predicts them well.
-        gross = (out_of_screen & ~far) | (np.abs(scr.studentized) > family_wise_critical(
+        # made without them, predicts them well — judged by temperature when they lie far
+        # outside its range, where a prediction of ln P is too uncertain to clear anything.
+        if u_given:
+            rel_screen, uT_screen, scale_screen = np.sqrt(uPrel ** 2 + floorP ** 2), uT_eff, max(1.0, scr.scale)
+        else:
+            rel_screen = np.full(n, max(_robust_scale(screen.residuals_lnP[~out_of_screen]), 1e-12))
+            uT_screen, scale_screen = np.zeros(n), 1.0
+        z_screen = _inverse_scores(scr.studentized, screen, T, P, out_of_screen, rel_screen, uT_screen,
+                                   scale_screen)
+        gross = (out_of_screen & ~far) | (np.abs(z_screen) > family_wise_critical(
             s["reject_alpha"] / 100, n, s["correction"], scr.dof - 1))
         ok = ~gross
         choice = select_equation(T[ok], P[ok], u_T=None if uT_in is None else uT_in[ok],
@@ -218,12 +260,12 @@ class _BranchAnalysis:
                 biased = self._biased_sources(
                     r, slope, sigma, src, names, source_settings,
                     lambda mask, left_out: group_deletion(J, r, sigma, (in_fit & ~left_out).astype(float), mask))
-                offsets = self._point_offsets(biased, src, slope)
-                u_off = np.array([biased[x].u_lnP if x in biased else 0.0 for x in src])
+                offsets, u_off = self._point_offsets(biased, src, slope)
                 if biased:
                     pred_var = (sigma * birge) ** 2 * np.where(inf.in_fit, 1 - inf.leverage, 1 + inf.leverage)
                     zb = (r - offsets) / np.sqrt(pred_var + u_off ** 2)
                     z = np.where(np.isin(src, list(biased)), zb, z)
+            z = _inverse_scores(z, fit, T, P, ~inf.in_fit, rel, uT_eff, max(birge, 1e-300))
             crit_reject = family_wise_critical(s["reject_alpha"], n, s["correction"], crit_dof)
             crit_suspect = family_wise_critical(s["suspect_alpha"], n, s["correction"], crit_dof)
             # one new rejection per round among the fitted points, the most extreme: rejecting every point
@@ -267,15 +309,32 @@ class _BranchAnalysis:
 
     @staticmethod
     def _scales(r, active, src, s):
+        """Relative scatter per point: pooled, or per source when sources differ in scatter.
+
+        A source's own MAD from 8–15 points is itself uncertain by 25–40 %; used
+        where the sources share one scatter it only adds noise to every
+        standardized residual.  So own scales are used only when the
+        Brown–Forsythe test (Levene's test about the median, robust to
+        non-normal residuals) finds the sources' scatters different at
+        ``source_scale_alpha``.
+        """
+        from scipy.stats import levene
+
         pooled = _robust_scale(r[active])
         pooled = pooled if pooled > 0 else 1e-6
         out = np.full(r.size, pooled)
-        for name in dict.fromkeys(src):
-            mine = (src == name) & active
-            if name and mine.sum() >= s["min_points_source_scale"]:
-                sc = _robust_scale(r[mine])
-                if sc > 0:
-                    out[src == name] = sc
+        own = [name for name in dict.fromkeys(src)
+               if name and ((src == name) & active).sum() >= s["min_points_source_scale"]]
+        groups = [r[(src == name) & active] for name in own]
+        rest = r[active & ~np.isin(src, own)]
+        if rest.size >= 3:
+            groups.append(rest)
+        if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
+            return out
+        for name in own:
+            sc = _robust_scale(r[(src == name) & active])
+            if sc > 0:
+                out[src == name] = sc
         return out
 
     @staticmethod
@@ -307,33 +366,46 @@ class _BranchAnalysis:
                     continue
                 gd = deletion(mine, left_out)
                 r_out = r[mine] if gd is None else gd.residuals
-                curve_var = 0.0 if gd is None else float(np.mean(gd.curve_variance))
+                # median: one point far outside the others' range (a °C value in a K column)
+                # must not make the whole source look unjudgeable
+                curve_var = 0.0 if gd is None else float(np.median(gd.curve_variance))
                 med_out = float(np.median(r_out))
                 spread = max(_robust_scale(r_out), float(np.median(sig[mine])))
                 u = math.sqrt((_MEDIAN_SE * spread) ** 2 / mine.sum() + curve_var)
                 if abs(med_out) > ss["k"] * u and 100 * abs(math.expm1(med_out)) > ss["tolerance_percent"] \
                         and abs(med_out) / u > worst_score:
-                    worst, worst_score = (name, u), abs(med_out) / u
+                    worst, worst_score = (name, u, r_out), abs(med_out) / u
             if worst is None:
                 break
-            name, u = worst
+            name, u, r_out = worst
             mine = src == name
-            rm, sm = r[mine], slope[mine]
+            # the offset is removed from the residuals the points are scored with: those against
+            # the next fit, which leaves the source out when three or more sources are named
+            rm = r_out if len(names) >= 3 else r[mine]
+            sm, sg = slope[mine], sig[mine]
             med = float(np.median(rm))
             dT = float(np.median(-rm / sm)) if np.all(sm > 0) else math.nan
             temperature = math.isfinite(dT) and _robust_scale(rm + sm * dT) < _robust_scale(rm - med)
+            n_mine = math.sqrt(mine.sum())
+            if temperature:
+                u_removed = _MEDIAN_SE * max(_robust_scale(-rm / sm - dT), float(np.median(sg / sm))) / n_mine
+            else:
+                u_removed = _MEDIAN_SE * max(_robust_scale(rm - med), float(np.median(sg))) / n_mine
             out[name] = _SourceShift(med, u, "temperature-offset" if temperature else "pressure-scale",
-                                     dT if temperature else math.nan)
+                                     dT if temperature else math.nan, u_removed)
         return out
 
     @staticmethod
     def _point_offsets(biased, src, slope):
-        """Δln P to remove from each point of a biased source (0 elsewhere)."""
-        off = np.zeros(src.size)
+        """Δln P to remove from each point of a biased source (0 elsewhere), and its u."""
+        off, u = np.zeros(src.size), np.zeros(src.size)
         for name, b in biased.items():
             mine = src == name
-            off[mine] = -slope[mine] * b.dT_K if b.pattern == "temperature-offset" else b.offset_lnP
-        return off
+            if b.pattern == "temperature-offset":
+                off[mine], u[mine] = -slope[mine] * b.dT_K, slope[mine] * b.u_removed
+            else:
+                off[mine], u[mine] = b.offset_lnP, b.u_removed
+        return off, u
 
     def z_of(self, i):
         """Standardized residual (T, P) -> z of a corrected reading of point i."""
@@ -421,7 +493,8 @@ class Outliers(Check):
     residual for points outside it.  The standard uncertainty of each point
     is its effective variance (u_P and u_T through the slope) when the table
     gives uncertainties, else a robust scale (MAD) of the residuals — per
-    source when a source has ``min_points_source_scale`` points or more —
+    source when a source has ``min_points_source_scale`` points or more and
+    the sources' scatters differ at ``source_scale_alpha`` (Brown–Forsythe) —
     and never less than the rounding of its printed digits.  A point beyond
     the family-wise critical value at ``reject_alpha`` (Šidák or Bonferroni
     over the n points of the branch) is rejected and no longer bends the
@@ -444,6 +517,7 @@ class Outliers(Check):
 
     **Options.** ``reject_alpha``, ``suspect_alpha``, ``correction``,
     ``max_iterations``, ``min_points``, ``min_points_source_scale``,
+    ``source_scale_alpha``,
     ``cause_k``, ``cause_ratio``.
     """
 
@@ -472,6 +546,9 @@ class Outliers(Check):
         "min_points": Option(int, "fewest usable points of a branch to test it", "", 4, 1000),
         "min_points_source_scale": Option(int, "fewest points of a source to estimate its own scatter",
                                           "", 3, 1000),
+        "source_scale_alpha": Option(float, "significance at which the sources' scatters are taken as "
+                                     "different (Brown–Forsythe test) and each source gets its own scale",
+                                     "", 1e-6, 0.5),
         "cause_k": Option(float, "a corrected point must lie within this many σ of the curve", "", 0.5, 10),
         "cause_ratio": Option(float, "the next-best cause must be this many times worse", "", 1, 100),
     }

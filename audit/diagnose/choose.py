@@ -2,10 +2,13 @@
 when it is convincing.
 
 A hypothesis is kept when (1) the corrected point lies within ``k`` of its
-own expected scatter from the curve, |z_after| ≤ k, and (2) the next-best
+own expected scatter from the curve, |z_after| ≤ k, (2) the next-best
 hypothesis with a different corrected value is clearly worse:
-|z_next| ≥ ratio · max(|z_best|, 1).  The max(…, 1) keeps two readings
-that both land within one σ from being told apart by noise.  Both ``k``
+|z_next| ≥ ratio · max(|z_best|, 1), and (3) so is the value as printed,
+|z_before| ≥ ratio · max(|z_best|, 1): "no slip, just scatter" is a reading
+too, and a 2.4 σ point that a digit swap would move to 1.6 σ is not
+explained by it.  The max(…, 1) keeps two readings that both land within
+one σ from being told apart by noise.  Both ``k``
 and ``ratio`` are passed in (they come from the rule profile).
 """
 
@@ -99,8 +102,8 @@ def diagnose_point(point: Point, z_of: Callable[[float, float], float], k: float
     k : float
         A corrected point must land within k σ of the curve.
     ratio : float
-        The next-best reading must be at least `ratio` times worse
-        (|z_next| ≥ ratio·max(|z_best|, 1)).
+        The next-best reading, and the value as printed, must be at least
+        `ratio` times worse (|z| ≥ ratio·max(|z_best|, 1)).
     hypotheses : sequence of Hypothesis, optional
         Default: :func:`audit.diagnose.hypotheses.all_hypotheses`.
 
@@ -121,6 +124,11 @@ def diagnose_point(point: Point, z_of: Callable[[float, float], float], k: float
         return Diagnosis(point.row, z0, None, ranked,
                          f"no alternative reading brings the point within {k:g} σ of the curve "
                          f"(best: {best.hypothesis.kind}, {best.z_after:+.1f} σ)")
+    if abs(z0) < ratio * max(abs(best.z_after), 1.0):
+        return Diagnosis(point.row, z0, None, ranked,
+                         f"the value as printed ({z0:+.1f} σ) is not clearly worse than the best "
+                         f"alternative reading ({best.hypothesis.kind}, {best.z_after:+.1f} σ): "
+                         "ordinary scatter explains it as well")
     if len(scored) > 1 and abs(scored[1].z_after) < ratio * max(abs(best.z_after), 1.0):
         nxt = scored[1]
         return Diagnosis(point.row, z0, None, ranked,

@@ -67,3 +67,21 @@ def test_random_error_gets_no_cause():
     p = Point(row=5, T_K=T, P_Pa=P, T_text="340.00", P_text=f"{P / 1e3:.5g}", P_text_unit="kPa")
     d = diagnose_point(p, _z_of, k=3, ratio=3)
     assert d.best is None
+
+
+
+def test_a_mildly_off_value_gets_no_cause_even_when_a_swap_would_fit():
+    # CoolProp toluene at 340 K: 24.1704 kPa, printed to 0.001 kPa as '24.170'.  Its last two
+    # digits swapped, '24.107', is −0.26 % off (−2.6 σ at the 0.1 % stand-in scatter) and
+    # swapping them back lands on the curve.  But the value as printed is a reading too:
+    # ordinary scatter explains a −2.6 σ point about as well, so no cause may be claimed
+    # (|z_before| must reach ratio·max(|z_after|, 1) = 3).
+    T = 340.0
+    exact = f"{_p_sat(T) / 1e3:.3f}"
+    swapped = exact[:-2] + exact[-1] + exact[-2]
+    assert (exact, swapped) == ("24.170", "24.107")
+    p = Point(row=4, T_K=T, P_Pa=float(swapped) * 1e3, T_text="340.00", P_text=swapped, P_text_unit="kPa")
+    d = diagnose_point(p, _z_of, k=3, ratio=3)
+    assert -3 < d.z_before < -2
+    assert d.ranked[0].hypothesis.kind == "digit-swap" and abs(d.ranked[0].z_after) < 0.5
+    assert d.best is None and "ordinary scatter" in d.reason

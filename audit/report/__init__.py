@@ -43,6 +43,11 @@ def write_outputs(result: AuditResult, out_dir: str | Path, formats=FORMATS,
         raise InputError(f"cannot create the output folder ({exc.strerror})", file=str(out),
                          hint="choose another --out folder") from None
     written: dict[str, Path] = {}
+    plots = None
+    if "html" in formats and "pdf" in formats:
+        # both reports show the same figures: draw them once
+        from .plots import render_all
+        plots = render_all(result)
     for fmt in formats:
         path = out / FILE_NAMES[fmt]
         if fmt == "json":
@@ -53,9 +58,9 @@ def write_outputs(result: AuditResult, out_dir: str | Path, formats=FORMATS,
             write_annotated_csv(result, path)
         elif fmt == "html":
             from .html import write_html
-            write_html(result, path)
+            write_html(result, path, plots=plots)
         elif fmt == "pdf":
             from .pdf import write_pdf
-            write_pdf(result, path, input_bytes=input_bytes)
+            write_pdf(result, path, input_bytes=input_bytes, plots=plots)
         written[fmt] = path
     return written

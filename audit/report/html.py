@@ -14,6 +14,7 @@ gives the same bytes (the time shown is ``result.audited_at``).
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 from pathlib import Path
@@ -245,7 +246,10 @@ def report_context(result: AuditResult, *, plots=None) -> dict:
     }
 
 
+@functools.cache
 def _environment():
+    # one environment per process: building it and compiling the template
+    # took as long as filling it in
     from jinja2 import Environment, PackageLoader, StrictUndefined
 
     env = Environment(loader=PackageLoader("audit.report", "templates"), autoescape=True,
@@ -273,6 +277,7 @@ def render_html(result: AuditResult, *, plots=None, for_print: bool = False) -> 
     return env.get_template("report.html.j2").render(**ctx, css=css, for_print=for_print)
 
 
-def write_html(result: AuditResult, path) -> None:
-    """Write the self-contained report page to ``path`` (UTF-8)."""
-    Path(path).write_text(render_html(result), encoding="utf-8")
+def write_html(result: AuditResult, path, *, plots=None) -> None:
+    """Write the self-contained report page to ``path`` (UTF-8); ``plots`` as
+    for :func:`render_html`."""
+    Path(path).write_text(render_html(result, plots=plots), encoding="utf-8")

@@ -186,6 +186,7 @@ def render_pdf(result: AuditResult, input_bytes: bytes | None = None, *, plots=N
                               finisher=_finisher(specs))
 
 
-def write_pdf(result: AuditResult, path, input_bytes: bytes | None = None) -> None:
-    """Write the PDF/A-3b report to ``path``."""
-    Path(path).write_bytes(render_pdf(result, input_bytes))
+def write_pdf(result: AuditResult, path, input_bytes: bytes | None = None, *,
+              plots=None) -> None:
+    """Write the PDF/A-3b report to ``path``; ``plots`` as for :func:`render_pdf`."""
+    Path(path).write_bytes(render_pdf(result, input_bytes, plots=plots))

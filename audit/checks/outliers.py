@@ -2,10 +2,14 @@
 
 Design of the consensus and of source bias (shared with ``source-agreement``)
 ----------------------------------------------------------------------------
-Per branch, the equation form is chosen once by AICc among physically sane
-candidates (:func:`audit.thermo.fitting.select_equation`, robust), then the
-loop below runs until the set of rejected points and of biased sources stops
-changing (at most ``max_iterations`` times):
+Per branch, gross errors are screened first: Siegel's repeated-median
+ln P–1/T line (50 % breakdown, so a block of unit slips at one end cannot
+carry it) keeps points far off even a straight line out of a robust
+three-constant fit, whose zero-weight points start out rejected.  The
+equation form is then chosen once by AICc among physically sane candidates
+(:func:`audit.thermo.fitting.select_equation`), and the loop below runs until
+the set of rejected points and of biased sources stops changing (at most
+``max_iterations`` times):
 
 1. robust (Huber → Tukey) weighted fit of that form to the points not
    rejected and not from a source found biased;
@@ -13,13 +17,22 @@ changing (at most ``max_iterations`` times):
    influence measures (:mod:`audit.thermo.influence`): every point is scored
    by its leave-one-out residual — points in the fit by the externally
    studentized residual, points outside by their prediction residual — so a
-   wrong end point cannot hide by pulling the curve;
-3. with two or more named sources, each source's median offset from the
-   curve is estimated; a source whose offset exceeds both the
+   wrong end point cannot hide by pulling the curve.  A point far outside
+   the fitted temperatures is scored by temperature instead: the distance to
+   where the curve reaches its pressure, through the slope there;
+3. with two or more named sources, each source is judged by its points'
+   residuals against the fit made without them (group deletion), worst
+   source first; one whose median offset exceeds both the
    ``source-agreement`` profile's ``k``·u and ``tolerance_percent`` is
-   *biased*: its points are scored after removing its offset (they are not
-   outliers for being systematically off — ``source-agreement`` reports
-   that), and with three or more sources it is left out of the consensus.
+   *biased*: its points are scored after removing its offset, constant or
+   a thermometer offset ΔT·d ln P/dT, whichever leaves less scatter (they
+   are not outliers for being systematically off — ``source-agreement``
+   reports that), and with three or more sources it is left out of the
+   consensus.
+
+Without stated uncertainties the scale is a robust (MAD) scale of the
+residuals, pooled unless the Brown–Forsythe test finds the sources'
+scatters different.
 
 The final consensus fit goes to ``ctx.shared["consensus"]`` (branch ->
 VaporPressureFit), the deviations and uncertainties to

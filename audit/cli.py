@@ -112,6 +112,8 @@ def cmd_check(args) -> int:
     out = Path(args.out or f"audit-{Path(args.data).stem}")
     written = write_outputs(result, out, formats, input_bytes=Path(args.data).read_bytes())
     print(_summary_line(result))
+    for line in _finding_lines(result):
+        print(line)
     for fmt, path in written.items():
         print(f"  {fmt:4s} {path}")
     return _exit_code(result.verdict, args.strict)
@@ -121,6 +123,43 @@ def _summary_line(result) -> str:
     return (f"{result.dataset.file_name}: verdict {result.verdict.upper()} — "
             f"{len(result.points)} rows, {result.count('reject')} rejected, "
             f"{result.count('suspect')} suspect, {result.count('unreadable')} unreadable")
+
+
+#: flagged rows listed on the console; the rest are in the report and findings.json
+CONSOLE_ROWS = 25
+
+
+def _finding_lines(result) -> list[str]:
+    """One line per flagged row (cause and suggested value) and per flagged source."""
+    lines = []
+    flagged = [p for p in result.points if p.status != "ok"]
+    for p in flagged[:CONSOLE_ROWS]:
+        if p.cause is not None:
+            c = p.cause
+            # the corrected quantity only: the contract repeats the unchanged one
+            changed = []
+            if c.suggested_T_K is not None and not _same(c.suggested_T_K, p.T_K):
+                changed.append(f"T = {c.suggested_T_K:.6g} K")
+            if c.suggested_P_Pa is not None and not _same(c.suggested_P_Pa, p.P_Pa):
+                changed.append(f"P = {c.suggested_P_Pa:.6g} Pa")
+            what = f"{c.kind}, suggested " + ", ".join(changed) if changed else f"{c.kind}: {c.explanation}"
+        else:
+            worst = max(p.flags, key=lambda f: f.severity == "fail", default=None)
+            what = "no likely cause found" if worst is None else f"{worst.check}: {worst.message}"
+        lines.append(f"  row {p.row:<5d} {p.status:10s} {what}")
+    if len(flagged) > CONSOLE_ROWS:
+        lines.append(f"  … and {len(flagged) - CONSOLE_ROWS} more flagged rows (see the report)")
+    for src in result.sources:
+        if src.status != "ok":
+            lines.append(f"  source '{src.source}' {src.status}: pattern {src.pattern}, bias "
+                         f"{src.bias_percent:+.3g} ± {src.u_bias_percent:.2g} %"
+                         + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
+                            if src.pattern == "temperature-offset" else ""))
+    return lines
+
+
+def _same(a, b) -> bool:
+    return b is not None and abs(a - b) <= 1e-9 * max(abs(a), abs(b))
 
 
 def _exit_code(verdict: str, strict: bool) -> int:

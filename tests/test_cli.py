@@ -179,3 +179,22 @@ def test_unknown_substance_is_exit_2(tmp_path, capsys):
     data.write_text("T/K,P/Pa\n300,3536.8\n310,6231.4\n", encoding="utf-8")
     assert main(["check", str(data), "--substance", "unobtainium-xyz", "--out", str(tmp_path / "o")]) == 2
     assert "unobtainium-xyz" in capsys.readouterr().err
+
+
+def test_check_names_each_planted_row_its_cause_and_the_biased_source(tmp_path, capsys):
+    # the bundled synthetic benzene table (CoolProp-generated, faults listed in
+    # reports_demo/README.md): the console names every wrong row with its cause and the
+    # corrected value, and the biased source with its pattern
+    from importlib import resources
+
+    with resources.as_file(resources.files("audit") / "demo_data" / "literature_benzene.csv") as data:
+        code = main(["check", str(data), "--out", str(tmp_path / "o"), "--format", "json"])
+    out = capsys.readouterr().out
+    assert code == 0
+    for expected in ("row 8     reject     temperature-unit, suggested T = 318.25 K",
+                     "row 21    reject     phase-label: labelled liquid but fits the solid branch",
+                     "row 45    reject     pressure-unit, suggested P = 139",
+                     "row 57    reject     decimal-shift, suggested P = 352.9 Pa",
+                     "row 62    reject     digit-swap, suggested P = 2583 Pa",
+                     "source 'Castell et al. 1994' suspect: pattern pressure-scale, bias +1.3"):
+        assert expected in out, out

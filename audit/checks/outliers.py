@@ -362,8 +362,10 @@ class _BranchAnalysis:
         behind it.  The offset later removed from the source's points follows
         the better of the two patterns (constant Δln P, or a thermometer
         offset ΔT·d ln P/dT), judged by the robust spread each leaves, and is
-        measured on ``r`` (the residuals those points are scored with);
-        ``source-agreement`` does the full comparison later.
+        measured on the residuals those points will be scored with: against
+        the next fit, which leaves the source out when three or more sources
+        are named, else against this one.  ``source-agreement`` does the full
+        comparison later.
         """
         out: dict[str, _SourceShift] = {}
         # worst source first, then the others against a yardstick without it: one biased

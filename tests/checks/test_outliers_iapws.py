@@ -32,7 +32,7 @@ def _audit(ds, default_profile):
 
 
 def _only_flagged(out, row):
-    # the faulty row is rejected; no neighbour is rejected (a lone suspect from the 20 %
+    # the faulty row is rejected; no neighbour is rejected (a lone suspect from the 30 %
     # family-wise suspect level is tolerated, see the clean-table test)
     assert out.point_status.get(row) == "reject", out.point_status
     rejected = {r for r, s in out.point_status.items() if s == "reject"}

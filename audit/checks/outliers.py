@@ -518,8 +518,8 @@ class Outliers(Check):
     suspect or rejected point the cause hypotheses of :mod:`audit.diagnose`
     (pressure unit, temperature unit, decimal shift, transposed digits) are
     scored; one is reported when the corrected point lies within
-    ``cause_k`` σ of the curve and the next-best reading is at least
-    ``cause_ratio`` times worse.  The data are never changed.
+    ``cause_k`` σ of the curve and both the next-best reading and the value
+    as printed are at least ``cause_ratio`` times worse.  The data are never changed.
 
     **Why it matters.** One wrong point bends a fitted curve and every
     quantity derived from it (enthalpy, extrapolations); a point at the end
@@ -538,16 +538,21 @@ class Outliers(Check):
 
     id = "outliers"
     title = "Points off the consensus curve"
-    method = ("Robust (Huber then Tukey biweight) effective-variance fit of the AICc-chosen equation in ln P; "
-              "externally studentized / prediction residuals from the weighted hat matrix; Šidák or "
-              "Bonferroni family-wise critical values; rounding floor u = δ/(2√3) per printed value; "
-              "iterated until the rejected set is stable; cause hypotheses scored against the final fit.")
+    method = ("Repeated-median ln P–1/T screen for gross errors; robust (Huber then Tukey biweight) "
+              "effective-variance fit of the AICc-chosen equation in ln P; externally studentized / "
+              "prediction residuals from the weighted hat matrix (by temperature far outside the fitted "
+              "range); sources judged by group-deletion residuals; Šidák or Bonferroni family-wise critical "
+              "values; rounding floor u = δ/(2√3) per printed value; iterated until the rejected set is "
+              "stable; cause hypotheses scored against the final fit.")
     references = (
         "R. D. Cook, Technometrics 19, 15 (1977), doi:10.1080/00401706.1977.10489493 (Cook's distance).",
         "D. A. Belsley, E. Kuh, R. E. Welsch, Regression Diagnostics (Wiley, 1980), doi:10.1002/0471725153.",
         "Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967), doi:10.1080/01621459.1967.10482935.",
         "J. Orear, Am. J. Phys. 50, 912 (1982), doi:10.1119/1.12972 (effective variance).",
         "JCGM 100:2008 (GUM), §4.3.7 (rounding as a rectangular distribution).",
+        "A. F. Siegel, Biometrika 69, 242 (1982), doi:10.1093/biomet/69.1.242 (repeated medians).",
+        "M. B. Brown, A. B. Forsythe, J. Am. Stat. Assoc. 69, 364 (1974), doi:10.1080/01621459.1974.10482955 "
+        "(equality of variances).",
     )
     options = {
         "reject_alpha": Option(float, "family-wise false-rejection probability per branch", "", 1e-6, 0.5),
@@ -565,7 +570,8 @@ class Outliers(Check):
                                      "different (Brown–Forsythe test) and each source gets its own scale",
                                      "", 1e-6, 0.5),
         "cause_k": Option(float, "a corrected point must lie within this many σ of the curve", "", 0.5, 10),
-        "cause_ratio": Option(float, "the next-best cause must be this many times worse", "", 1, 100),
+        "cause_ratio": Option(float, "the next-best cause, and the value as printed, must be this many "
+                              "times worse", "", 1, 100),
     }
 
     def run(self, ctx):

@@ -134,6 +134,24 @@ def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
     return z
 
 
+def _understated(inf, dof: int, alpha: float) -> bool:
+    """Do the data scatter more than their stated u say?
+
+    χ² test of the scale without the most extreme fitted point (its own
+    residual would otherwise raise the limit it is judged by): the smallest
+    leave-one-out scale s_(i), with n − p − 1 degrees of freedom, against
+    χ²(n − p − 1) at ``alpha``.  A scale merely above 1 by chance leaves the
+    stated u in charge (normal critical values); a significant excess makes
+    the scale estimated (Birge ratio, t critical values).
+    """
+    from scipy.stats import chi2
+
+    if dof < 1 or not inf.in_fit.any():
+        return False
+    s_min = float(np.min(inf.scale_loo[inf.in_fit]))
+    return bool(chi2.sf(s_min ** 2 * dof, dof) < alpha)
+
+
 class _BranchAnalysis:
     """The consensus fit and point scores of one branch (internal)."""
 
@@ -251,14 +269,16 @@ class _BranchAnalysis:
             J = fit.equation.jacobian_ln_p(T)
             inf = influence_measures(J, r, sigma, in_fit.astype(float))
             dof = inf.dof - 1
-            if u_given:
+            if u_given and not _understated(inf, dof, s["scale_alpha"]):
+                birge = 1.0
+                z = np.array(inf.studentized_known_scale)
+                crit_dof = None
+            elif u_given:
                 birge = max(1.0, inf.scale)
                 s_loo = np.maximum(1.0, inf.scale_loo)
                 z = np.where(inf.in_fit, inf.studentized_known_scale / s_loo,
                              inf.studentized_known_scale / birge)
-                # the stated u are trusted unless the data scatter more than they say even
-                # without their most extreme point (which would otherwise raise its own limit)
-                crit_dof = dof if float(np.min(inf.scale_loo[inf.in_fit])) > 1.0 else None
+                crit_dof = dof
             elif floored:
                 birge = max(1.0, inf.scale)
                 z = inf.studentized_known_scale / np.maximum(1.0, inf.scale_loo)
@@ -532,7 +552,7 @@ class Outliers(Check):
 
     **Options.** ``reject_alpha``, ``suspect_alpha``, ``correction``,
     ``max_iterations``, ``min_points``, ``min_points_source_scale``,
-    ``source_scale_alpha``,
+    ``scale_alpha``, ``source_scale_alpha``,
     ``cause_k``, ``cause_ratio``.
     """
 
@@ -566,6 +586,8 @@ class Outliers(Check):
         "min_points": Option(int, "fewest usable points of a branch to test it", "", 4, 1000),
         "min_points_source_scale": Option(int, "fewest points of a source to estimate its own scatter",
                                           "", 3, 1000),
+        "scale_alpha": Option(float, "significance at which data that state u(P), u(T) are taken to "
+                              "scatter more than stated (χ² test); then the scale is estimated", "", 1e-6, 0.5),
         "source_scale_alpha": Option(float, "significance at which the sources' scatters are taken as "
                                      "different (Brown–Forsythe test) and each source gets its own scale",
                                      "", 1e-6, 0.5),

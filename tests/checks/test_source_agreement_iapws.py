@@ -63,3 +63,27 @@ def test_one_or_no_source_skips(default_profile):
     ds, _ = water_table(T_GRID[:10], seed=2)
     c = next(c for c in run_audit(ds, default_profile).checks if c.id == "source-agreement")
     assert c.status == "skipped" and c.message == "data name no sources"
+
+
+
+def test_an_outlier_is_still_found_beside_a_source_with_a_thermometer_offset(default_profile):
+    # A short table (15 rows, 5 per source, stating u(P) = 0.1 % and u(T) = 0.01 K) where
+    # source B reads 0.3 K high — 1.4–2.3 % in P, i.e. 14–23 σ — and row 7 (source A) is
+    # printed 1 % (10 σ) high.  The bias must be taken out of the consensus rather than
+    # inflate the scale and hide the outlier: row 7 is rejected and no other row is, and B is
+    # named with its pattern.
+    from dataclasses import replace
+
+    from audit.model import Dataset
+
+    T = np.linspace(282.0, 366.0, 15)
+    src = ["A", "B", "C"] * 5
+    row = 6  # 0-based index of row 7, source A
+    ds, _ = water_table(T, noise=0.001, seed=21, source=src, phase="liquid", T_shift={"B": 0.3},
+                        edits={row: lambda t, p: (t, f"{float(p) * 1.01:.5g}")})
+    ds = Dataset(points=tuple(replace(p, u_P_Pa=0.001 * p.P_Pa, u_T_K=0.01) for p in ds.points))
+    res = run_audit(ds, default_profile, audited_at="2024-01-01T00:00:00Z")
+    assert {p.row for p in res.points if p.status == "reject"} == {row + 1}
+    rec = {s.source: s for s in res.sources}
+    assert rec["B"].status != "ok" and rec["B"].pattern == "temperature-offset"
+    assert rec["A"].status == "ok" and rec["C"].status == "ok"

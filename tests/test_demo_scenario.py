@@ -65,3 +65,23 @@ def test_supplier_toluene_planted_faults(default_profile):
     assert flagged[9].cause.suggested_P_Pa == pytest.approx(7880.0, rel=1e-6)
     assert flagged[14].cause.kind == "digit-swap"
     assert flagged[14].cause.suggested_P_Pa == pytest.approx(168.24 * 133.322387415, rel=1e-6)
+
+
+@pytest.mark.parametrize("name", ["literature_benzene", "supplier_toluene"])
+def test_committed_demo_findings_match_the_current_audit(name, default_profile):
+    # reports_demo/ must show what the code now finds: every row's status and cause, and
+    # every source's verdict (compared by meaning, not bytes, so that a newer numerical
+    # library's last-digit changes do not matter)
+    import json
+    from pathlib import Path
+
+    committed = json.loads((Path(__file__).parents[1] / "reports_demo" / name / "findings.json")
+                           .read_text(encoding="utf-8"))
+    now = _audit(name, default_profile).to_findings()
+
+    def verdicts(f):
+        rows = [(p["row"], p["status"], (p["cause"] or {}).get("kind")) for p in f["points"]]
+        sources = sorted((s["source"], s["status"], s["pattern"]) for s in f.get("sources", []))
+        return f["verdict"], rows, sources
+
+    assert verdicts(committed) == verdicts(now), "run `make demo` to regenerate reports_demo/"

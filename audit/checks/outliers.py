@@ -626,11 +626,13 @@ class Outliers(Check):
                 continue
             consensus[branch] = a.fit
             by_row = {p.row: p for p in pts}
-            P_fit = np.exp(a.fit.equation.ln_p(a.T) + a.offsets)
+            # in logs: a curve extrapolated to a misprinted temperature can overflow exp()
+            with np.errstate(over="ignore", invalid="ignore"):
+                dev = 100 * np.expm1(np.log(a.P) - a.fit.equation.ln_p(a.T) - a.offsets)
             diagnoses = {}
             for i, p in enumerate(pts):
                 resid_sigma[p.row] = float(a.z[i])
-                deviation[p.row] = float(100 * (p.P_Pa - P_fit[i]) / P_fit[i]) if P_fit[i] > 0 else math.inf
+                deviation[p.row] = float(dev[i]) if not math.isnan(dev[i]) else math.inf
                 u_percent[p.row] = float(100 * a.sigma[i])
                 if a.reject[i] or a.suspect[i]:
                     diagnoses[p.row] = diagnose_point(p, a.z_of(i), s["cause_k"], s["cause_ratio"])

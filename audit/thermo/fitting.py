@@ -458,7 +458,8 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     scale = math.sqrt(chi2 / dof) if dof > 0 else float("nan")
     covariance = cov * scale ** 2 if not given else cov
     se = np.sqrt(np.diag(covariance))
-    rel = np.expm1(resid[used]) * 100.0  # (P - Pfit)/Pfit in %
+    with np.errstate(over="ignore"):  # a gross error kept in a non-robust fit: inf, not a warning
+        rel = np.expm1(resid[used]) * 100.0  # (P - Pfit)/Pfit in %
     rms = float(np.sqrt(np.mean(rel ** 2)))
     rss = max(chi2, 1e-300)
     m = n_used

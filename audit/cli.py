@@ -12,6 +12,7 @@ Exit codes: 0 verdict pass or warn; 1 fail (with ``--strict``, warn too);
 from __future__ import annotations
 
 import argparse
+import math
 import os
 import sys
 import textwrap
@@ -138,9 +139,9 @@ def _finding_lines(result) -> list[str]:
             c = p.cause
             # the corrected quantity only: the contract repeats the unchanged one
             changed = []
-            if c.suggested_T_K is not None and not _same(c.suggested_T_K, p.T_K):
+            if c.suggested_T_K is not None and not math.isclose(c.suggested_T_K, p.T_K or 0.0, rel_tol=1e-9):
                 changed.append(f"T = {c.suggested_T_K:.6g} K")
-            if c.suggested_P_Pa is not None and not _same(c.suggested_P_Pa, p.P_Pa):
+            if c.suggested_P_Pa is not None and not math.isclose(c.suggested_P_Pa, p.P_Pa or 0.0, rel_tol=1e-9):
                 changed.append(f"P = {c.suggested_P_Pa:.6g} Pa")
             what = f"{c.kind}, suggested " + ", ".join(changed) if changed else f"{c.kind}: {c.explanation}"
         else:
@@ -156,10 +157,6 @@ def _finding_lines(result) -> list[str]:
                          + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
                             if src.pattern == "temperature-offset" else ""))
     return lines
-
-
-def _same(a, b) -> bool:
-    return b is not None and abs(a - b) <= 1e-9 * max(abs(a), abs(b))
 
 
 def _exit_code(verdict: str, strict: bool) -> int:

@@ -103,6 +103,23 @@ def _robust_scale(x) -> float:
     return mad_scale(x)
 
 
+def _judgeable_range(fit) -> tuple[float, float]:
+    """Temperatures at which the fit predicts ln P well enough to judge a point [K].
+
+    The fitted range widened by a quarter of its span on each side; further
+    out, the extrapolation's σ grows with the slope until anything "fits".
+    """
+    lo, hi = fit.T_range  # of the points the fit used
+    span = hi - lo
+    return lo - 0.25 * span, hi + 0.25 * span
+
+
+def _median_u(values, floor: float) -> float:
+    """Standard uncertainty of the median of ``values``: √(π/2)·scale/√n, the
+    scale robust (MAD) and never below ``floor``."""
+    return _MEDIAN_SE * max(_robust_scale(values), floor) / math.sqrt(len(values))
+
+
 def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
     """Score points far outside the fitted temperature range by temperature.
 
@@ -117,8 +134,8 @@ def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
 
     eq = fit.equation
     lo, hi = fit.T_range
-    span = hi - lo
-    far = outside & ((T < lo - 0.25 * span) | (T > hi + 0.25 * span))
+    T_lo, T_hi = _judgeable_range(fit)
+    far = outside & ((T < T_lo) | (T > T_hi))
     if not far.any():
         return z
     ln_lo, ln_hi = (float(eq.ln_p(np.array([t]))[0]) for t in (lo, hi))
@@ -405,8 +422,7 @@ class _BranchAnalysis:
                 # must not make the whole source look unjudgeable
                 curve_var = 0.0 if gd is None else float(np.median(gd.curve_variance))
                 med_out = float(np.median(r_out))
-                spread = max(_robust_scale(r_out), float(np.median(sig[mine])))
-                u = math.sqrt((_MEDIAN_SE * spread) ** 2 / mine.sum() + curve_var)
+                u = math.hypot(_median_u(r_out, float(np.median(sig[mine]))), math.sqrt(curve_var))
                 if abs(med_out) > ss["k"] * u and 100 * abs(math.expm1(med_out)) > ss["tolerance_percent"] \
                         and abs(med_out) / u > worst_score:
                     worst, worst_score = (name, u, r_out), abs(med_out) / u
@@ -421,11 +437,10 @@ class _BranchAnalysis:
             med = float(np.median(rm))
             dT = float(np.median(-rm / sm)) if np.all(sm > 0) else math.nan
             temperature = math.isfinite(dT) and _robust_scale(rm + sm * dT) < _robust_scale(rm - med)
-            n_mine = math.sqrt(mine.sum())
             if temperature:
-                u_removed = _MEDIAN_SE * max(_robust_scale(-rm / sm - dT), float(np.median(sg / sm))) / n_mine
+                u_removed = _median_u(-rm / sm - dT, float(np.median(sg / sm)))
             else:
-                u_removed = _MEDIAN_SE * max(_robust_scale(rm - med), float(np.median(sg))) / n_mine
+                u_removed = _median_u(rm - med, float(np.median(sg)))
             out[name] = _SourceShift(med, u, "temperature-offset" if temperature else "pressure-scale",
                                      dT if temperature else math.nan, u_removed)
         return out
@@ -449,11 +464,8 @@ class _BranchAnalysis:
         rel = self.rel[i]
         uT = self.uT_eff[i]
         base_sigma = self.sigma[i] / max(self.sigma_raw[i], 1e-300)  # the scale applied to point i
-        # a corrected temperature far outside the fitted range can only be judged by
-        # extrapolation, where the steep slope inflates σ until anything "fits"
-        lo, hi = self.fit.T_range  # of the points the fit used
-        span = hi - lo
-        T_lo, T_hi = lo - 0.25 * span, hi + 0.25 * span
+        # a corrected temperature far outside the fitted range cannot be judged
+        T_lo, T_hi = _judgeable_range(self.fit)
 
         def z(T_K, P_Pa):
             if not (T_K > 0 and P_Pa > 0) or not (T_lo <= T_K <= T_hi):

@@ -33,3 +33,10 @@ def water_table(T_K, noise=0.001, seed=0, source=None, T_fmt="{:.2f}", P_sig=5, 
         pts.append(Point(row=i + 1, T_K=T_read, P_Pa=float(Pt) * factor, source=src, phase=phase, T_text=Tt, P_text=Pt,
                          T_text_unit=T_unit, P_text_unit=P_unit))
     return Dataset(points=tuple(pts)), P
+
+
+def with_stated_u(ds, u_P_relative=0.001, u_T_K=0.01):
+    """The same table stating u(P) as a fraction of each printed value and u(T) in kelvin."""
+    from dataclasses import replace
+
+    return Dataset(points=tuple(replace(p, u_P_Pa=u_P_relative * p.P_Pa, u_T_K=u_T_K) for p in ds.points))

@@ -9,15 +9,12 @@ relative: floating point only) — except for unit slips, where the printed
 value was rounded in the other unit (tolerance 0.1 %, i.e. 5 printed digits).
 """
 
-from dataclasses import replace
-
 import numpy as np
 import pytest
 
-from audit.model import Dataset
 
 from audit.pipeline import run_audit
-from tests.checks._planted import water_table
+from tests.checks._planted import water_table, with_stated_u
 
 T_GRID = np.linspace(285.0, 365.0, 21)
 
@@ -170,8 +167,7 @@ def test_block_of_unit_slips_at_the_low_end_of_a_short_table(default_profile):
     block = (1, 2, 3)
     edits = {i: (lambda t, p: (t, f"{float(p) * 1e3:.5g}")) for i in block}
     ds, _ = water_table(T, seed=12, edits=edits)
-    # a table that states u(P) = 0.1 % of each printed value and u(T) = 0.01 K
-    ds = Dataset(points=tuple(replace(p, u_P_Pa=0.001 * p.P_Pa, u_T_K=0.01) for p in ds.points))
+    ds = with_stated_u(ds, u_P_relative=0.001, u_T_K=0.01)
     _, out = _audit(ds, default_profile)
     rejected = {r for r, s in out.point_status.items() if s == "reject"}
     assert rejected == {i + 1 for i in block}, out.point_status

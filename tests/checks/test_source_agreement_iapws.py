@@ -11,7 +11,7 @@ import numpy as np
 import pytest
 
 from audit.pipeline import run_audit
-from tests.checks._planted import water_table
+from tests.checks._planted import water_table, with_stated_u
 
 T_GRID = np.linspace(280.0, 370.0, 36)
 SOURCES = ["A", "B", "C"] * 12
@@ -72,16 +72,12 @@ def test_an_outlier_is_still_found_beside_a_source_with_a_thermometer_offset(def
     # printed 1 % (10 σ) high.  The bias must be taken out of the consensus rather than
     # inflate the scale and hide the outlier: row 7 is rejected and no other row is, and B is
     # named with its pattern.
-    from dataclasses import replace
-
-    from audit.model import Dataset
-
     T = np.linspace(282.0, 366.0, 15)
     src = ["A", "B", "C"] * 5
     row = 6  # 0-based index of row 7, source A
     ds, _ = water_table(T, noise=0.001, seed=21, source=src, phase="liquid", T_shift={"B": 0.3},
                         edits={row: lambda t, p: (t, f"{float(p) * 1.01:.5g}")})
-    ds = Dataset(points=tuple(replace(p, u_P_Pa=0.001 * p.P_Pa, u_T_K=0.01) for p in ds.points))
+    ds = with_stated_u(ds, u_P_relative=0.001, u_T_K=0.01)
     res = run_audit(ds, default_profile, audited_at="2024-01-01T00:00:00Z")
     assert {p.row for p in res.points if p.status == "reject"} == {row + 1}
     rec = {s.source: s for s in res.sources}

@@ -1,90 +1,71 @@
-"""Unit names as tables print them, and their sizes (from pint).
+"""Units a table may have been printed in by mistake, and their sizes.
 
 Only what the cause hypotheses need: the size of a pressure unit in pascal,
 the affine conversion of a temperature unit to kelvin, and the common units
-a table may have been written in by mistake.  Factors come from pint's
-definitions (pint.readthedocs.io), not from a hand-written table.
+a table may have been written in by mistake.  Spellings are read and sizes
+looked up by :mod:`audit.units` (factors derived from pint), the same
+vocabulary the table headers use.
 """
 
 from __future__ import annotations
 
 import functools
 import math
-import re
+
+from audit.units import kelvin_affine, parse_pressure_unit, parse_temperature_unit, pascal_per, split_log_prefix
 
 __all__ = ["COMMON_PRESSURE_UNITS", "COMMON_TEMPERATURE_UNITS", "pressure_unit_size_Pa",
-           "temperature_to_K", "split_log_unit", "canonical_temperature_unit"]
+           "temperature_to_K", "temperature_from_K", "split_log_unit", "canonical_temperature_unit"]
 
-#: Pressure units a value may have been printed in by mistake.
-COMMON_PRESSURE_UNITS: tuple[str, ...] = ("Pa", "hPa", "kPa", "MPa", "bar", "mbar", "atm", "mmHg", "torr",
+#: Pressure units a value may have been printed in by mistake (canonical names of audit.units).
+COMMON_PRESSURE_UNITS: tuple[str, ...] = ("Pa", "hPa", "kPa", "MPa", "bar", "mbar", "atm", "mmHg", "Torr",
                                           "psi", "inHg")
 #: Temperature units a value may have been printed in by mistake.
 COMMON_TEMPERATURE_UNITS: tuple[str, ...] = ("K", "degC", "degF")
 
-_PRESSURE_ALIASES = {"torr": "torr", "mm hg": "mmHg", "mmhg": "mmHg", "psia": "psi", "inhg": "inHg",
-                     "in hg": "inHg", "pa": "Pa", "kpa": "kPa", "mpa": "MPa", "hpa": "hPa", "bar": "bar",
-                     "mbar": "mbar", "atm": "atm", "psi": "psi"}
-_LOG_UNIT = re.compile(r"^\s*(log10|log|lg|ln)\s*\(\s*[Pp]\s*/\s*([^)]+?)\s*\)\s*$")
-
-
-@functools.lru_cache(maxsize=1)
-def _registry():
-    import pint  # lazy: building a registry takes a noticeable moment
-
-    return pint.UnitRegistry()
+_LOG_BASE = {"log10": 10.0, "ln": math.e}
 
 
 def split_log_unit(unit: str) -> tuple[float | None, str]:
-    """``'log10(P/kPa)'`` -> (10, 'kPa'); a linear unit -> (None, unit)."""
-    m = _LOG_UNIT.match(unit or "")
-    if not m:
-        return None, (unit or "Pa").strip()
-    return (math.e if m.group(1) == "ln" else 10.0), m.group(2)
+    """``'log10(P/kPa)'`` -> (10, 'kPa'); a linear unit -> (None, its canonical name).
+
+    A text the vocabulary does not know comes back as written (after the log
+    prefix), so that :func:`pressure_unit_size_Pa` refuses it.
+    """
+    text = (unit or "Pa").strip()
+    try:
+        pu = parse_pressure_unit(text)
+    except ValueError:
+        base, rest = split_log_prefix(text)
+        return (None if base is None else _LOG_BASE[base]), rest
+    return (None if pu.log is None else _LOG_BASE[pu.log]), pu.unit
 
 
 @functools.lru_cache(maxsize=64)
 def pressure_unit_size_Pa(unit: str) -> float:
-    """Size of one `unit` in pascal (pint).  Raises ValueError for an unknown unit."""
-    name = _PRESSURE_ALIASES.get(unit.strip().lower(), unit.strip())
-    if name == "Pa":
-        return 1.0
-    try:
-        q = _registry().Quantity(1.0, name).to("Pa").magnitude
-    except Exception as exc:  # pint raises several exception types
-        raise ValueError(f"unknown pressure unit {unit!r}") from exc
-    return float(q)
+    """Size of one `unit` in pascal [Pa].  Raises ValueError for an unknown unit."""
+    return pascal_per(unit)
 
 
 def canonical_temperature_unit(unit: str) -> str:
-    """'K', 'degC' or 'degF' for the usual spellings; ValueError otherwise."""
-    u = (unit or "K").strip().replace("°", "deg").replace("º", "deg").lower()
-    if u in ("k", "kelvin"):
-        return "K"
-    if u in ("degc", "c", "celsius", "degree_celsius"):
-        return "degC"
-    if u in ("degf", "f", "fahrenheit", "degree_fahrenheit"):
-        return "degF"
-    raise ValueError(f"unknown temperature unit {unit!r}")
+    """'K', 'degC' or 'degF' for any accepted spelling; ValueError otherwise.
 
-
-@functools.lru_cache(maxsize=8)
-def _temperature_affine(unit: str) -> tuple[float, float]:
-    """(scale, offset) with T_K = scale·t + offset (pint)."""
-    if unit == "K":
-        return 1.0, 0.0
-    ureg = _registry()
-    t0 = ureg.Quantity(0.0, unit).to("kelvin").magnitude
-    t1 = ureg.Quantity(1.0, unit).to("kelvin").magnitude
-    return float(t1 - t0), float(t0)
+    Other accepted units (°R) raise too: the hypotheses consider only
+    :data:`COMMON_TEMPERATURE_UNITS`.
+    """
+    canon = parse_temperature_unit(unit or "K")
+    if canon not in COMMON_TEMPERATURE_UNITS:
+        raise ValueError(f"temperature unit {unit!r} is not among {COMMON_TEMPERATURE_UNITS}")
+    return canon
 
 
 def temperature_to_K(value: float, unit: str) -> float:
-    """A printed temperature in `unit` ('K', 'degC', 'degF', ...) in kelvin."""
-    scale, offset = _temperature_affine(canonical_temperature_unit(unit))
+    """A printed temperature in `unit` ('K', 'degC', 'degF', ...) in kelvin [K]."""
+    scale, offset = kelvin_affine(canonical_temperature_unit(unit))
     return scale * value + offset
 
 
 def temperature_from_K(T_K: float, unit: str) -> float:
-    """Kelvin to `unit`."""
-    scale, offset = _temperature_affine(canonical_temperature_unit(unit))
+    """Kelvin [K] to `unit`."""
+    scale, offset = kelvin_affine(canonical_temperature_unit(unit))
     return (T_K - offset) / scale

@@ -42,6 +42,7 @@ from typing import ClassVar, Sequence
 
 import numpy as np
 
+from ..units import kelvin_affine, pascal_per
 from .constants import P_ATM, R
 
 __all__ = [
@@ -298,38 +299,17 @@ class ClausiusClapeyron3(VaporPressureEquation):
 
 
 # ---------------------------------------------------------------------------------
-@functools.lru_cache(maxsize=1)
-def _unit_registry():
-    import pint  # imported lazily: building a registry takes a noticeable moment
-
-    return pint.UnitRegistry()
-
-
 @functools.lru_cache(maxsize=64)
 def _pressure_ln_factor(unit: str) -> float:
-    """ln(size of one `unit` in pascal), from pint."""
-    if unit == "Pa":
-        return 0.0
-    ureg = _unit_registry()
-    try:
-        q = ureg.Quantity(1.0, unit).to("Pa").magnitude
-    except Exception as exc:  # pint raises several exception types
-        raise ValueError(f"unknown pressure unit {unit!r}") from exc
-    return math.log(q)
+    """ln(size of one `unit` in pascal) for any spelling :mod:`audit.units` accepts."""
+    return math.log(pascal_per(unit))
 
 
 @functools.lru_cache(maxsize=64)
 def _temperature_affine(unit: str) -> tuple[float, float]:
-    """(scale, offset) with T_unit = scale * T_K + offset, from pint."""
-    if unit == "K":
-        return 1.0, 0.0
-    ureg = _unit_registry()
-    try:
-        t0 = ureg.Quantity(0.0, "kelvin").to(unit).magnitude
-        t1 = ureg.Quantity(1.0, "kelvin").to(unit).magnitude
-    except Exception as exc:
-        raise ValueError(f"unknown temperature unit {unit!r}") from exc
-    return t1 - t0, t0
+    """(scale, offset) with T_unit = scale * T_K + offset, for any accepted spelling."""
+    scale, offset = kelvin_affine(unit)  # T_K = scale * T_unit + offset
+    return 1.0 / scale, -offset / scale
 
 
 def _check_base(base: str) -> float:
@@ -355,11 +335,12 @@ class Antoine(VaporPressureEquation):
     base : {'log10', 'ln'}
         Logarithm base of the published constants.
     P_unit : str
-        Pressure unit of the published constants (any pint unit: 'Pa', 'kPa',
-        'mmHg', 'bar', ...).
+        Pressure unit of the published constants, in any spelling a table
+        header may use ('Pa', 'kPa', 'mmHg', 'Torr', 'bar', 'psi', ...; see
+        :mod:`audit.units`).
     T_unit : str
-        Temperature unit of the published constants ('K' or 'degC'; other pint
-        temperature units work too).
+        Temperature unit of the published constants ('K', 'degC', '°C',
+        'degF', ...; any spelling :mod:`audit.units` accepts).
 
     Notes
     -----
@@ -438,9 +419,10 @@ def antoine_convert(params, from_base: str, to_base: str, from_P_unit: str, to_P
         (A, B, C) as published for `from_base`, `from_P_unit`, `from_T_unit`.
     from_base, to_base : {'log10', 'ln'}
     from_P_unit, to_P_unit : str
-        Pressure units (pint names, e.g. 'mmHg', 'kPa', 'Pa', 'bar').
+        Pressure units in any spelling :mod:`audit.units` accepts (e.g.
+        'mmHg', 'Torr', 'kPa', 'Pa', 'bar').
     from_T_unit, to_T_unit : str
-        Temperature units ('K', 'degC').
+        Temperature units ('K', 'degC', '°C', ...).
 
     Returns
     -------
@@ -449,7 +431,7 @@ def antoine_convert(params, from_base: str, to_base: str, from_P_unit: str, to_P
 
     Notes
     -----
-    With P2 = g P1 and T2 = a T1 + b (g, a, b from pint):
+    With P2 = g P1 and T2 = a T1 + b (g, a, b from pint, via audit.units):
     A' = (k1 A + ln g)/k2, B' = a B k1/k2, C' = a C - b, where k = ln(base).
     E.g. mmHg -> Pa in log10 adds log10(133.322...) = 2.1249 to A and
     °C -> K gives C' = C - 273.15.

@@ -6,7 +6,9 @@
 ``vpaudit explain ID``   what a check tests, its method, source and options.
 
 Exit codes: 0 verdict pass or warn; 1 fail (with ``--strict``, warn too);
-2 the input or the command line cannot be used (one message, no traceback).
+2 the input or the command line cannot be used (one message, no traceback);
+130 interrupted (Ctrl-C, SIGINT); 143 stopped by SIGTERM.  An interrupted run
+leaves no output file half-written: the outputs appear together or not at all.
 """
 
 from __future__ import annotations
@@ -22,6 +24,16 @@ from . import __version__
 from .errors import InputError
 
 EXIT_OK, EXIT_FAIL, EXIT_UNUSABLE, EXIT_INTERNAL = 0, 1, 2, 3
+#: the shell's convention, 128 + the signal number
+EXIT_INTERRUPTED, EXIT_TERMINATED = 130, 143
+
+
+class Terminated(KeyboardInterrupt):
+    """SIGTERM, raised like Ctrl-C so that the same clean-up runs."""
+
+
+def _raise_terminated(signum, frame):
+    raise Terminated()
 
 
 class _Parser(argparse.ArgumentParser):
@@ -216,6 +228,12 @@ def cmd_explain(args) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
+    import signal
+
+    try:
+        previous_sigterm, installed = signal.signal(signal.SIGTERM, _raise_terminated), True
+    except ValueError:  # not the main thread: signals are not ours to handle
+        previous_sigterm, installed = None, False
     parser = build_parser()
     try:
         args = parser.parse_args(argv)
@@ -228,15 +246,22 @@ def main(argv: list[str] | None = None) -> int:
     except InputError as exc:
         print(f"vpaudit: error: {exc.message}", file=sys.stderr)
         return EXIT_UNUSABLE
+    except Terminated:
+        print("vpaudit: terminated; no output was left half-written", file=sys.stderr)
+        return EXIT_TERMINATED
     except KeyboardInterrupt:
-        print("vpaudit: interrupted", file=sys.stderr)
-        return 130
+        print("vpaudit: interrupted; no output was left half-written", file=sys.stderr)
+        return EXIT_INTERRUPTED
     except Exception as exc:  # a bug of ours, not the user's input
         if os.environ.get("VPAUDIT_DEBUG"):
             raise
         print(f"vpaudit: internal error: {type(exc).__name__}: {exc} — this is a bug in vpaudit; "
               "rerun with VPAUDIT_DEBUG=1 for details and report it", file=sys.stderr)
         return EXIT_INTERNAL
+    finally:
+        if installed:
+            signal.signal(signal.SIGTERM, previous_sigterm if previous_sigterm is not None
+                          else signal.SIG_DFL)
 
 
 if __name__ == "__main__":  # pragma: no cover

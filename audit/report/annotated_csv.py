@@ -14,6 +14,7 @@ import re
 from pathlib import Path
 
 from ..results import AuditResult
+from .atomic import write_file
 
 AUDIT_COLUMNS = ("audit_row", "audit_T_K", "audit_P_Pa", "audit_phase", "audit_status",
                  "audit_residual_sigma", "audit_flags", "audit_cause", "audit_cause_explanation",
@@ -62,6 +63,12 @@ def annotated_text(result: AuditResult) -> str:
     return buf.getvalue()
 
 
-def write_annotated_csv(result: AuditResult, path: Path) -> None:
+def annotated_bytes(result: AuditResult) -> bytes:
+    """The bytes of ``annotated.csv``."""
     # UTF-8 with BOM so that spreadsheet programs read the ° sign right.
-    Path(path).write_text(annotated_text(result), encoding="utf-8-sig")
+    return annotated_text(result).encode("utf-8-sig")
+
+
+def write_annotated_csv(result: AuditResult, path: Path) -> None:
+    """Write ``annotated.csv`` to ``path``, replacing it only once complete."""
+    write_file(path, annotated_bytes(result))

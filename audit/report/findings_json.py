@@ -6,6 +6,7 @@ import json
 from pathlib import Path
 
 from ..results import AuditResult
+from .atomic import write_file
 
 
 def findings_text(result: AuditResult) -> str:
@@ -13,5 +14,11 @@ def findings_text(result: AuditResult) -> str:
     return json.dumps(result.to_findings(), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
+def findings_bytes(result: AuditResult) -> bytes:
+    """The findings document as the bytes of ``findings.json`` (UTF-8)."""
+    return findings_text(result).encode("utf-8")
+
+
 def write_findings(result: AuditResult, path: Path) -> None:
-    Path(path).write_text(findings_text(result), encoding="utf-8")
+    """Write ``findings.json`` to ``path``, replacing it only once complete."""
+    write_file(path, findings_bytes(result))

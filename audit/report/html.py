@@ -17,10 +17,10 @@ from __future__ import annotations
 import functools
 import math
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Any, Mapping
 
 from ..results import AuditResult
+from .atomic import write_file
 
 __all__ = ["render_html", "write_html", "report_context", "format_number", "VERDICT_TEXT"]
 
@@ -277,7 +277,12 @@ def render_html(result: AuditResult, *, plots=None, for_print: bool = False) -> 
     return env.get_template("report.html.j2").render(**ctx, css=css, for_print=for_print)
 
 
+def html_bytes(result: AuditResult, *, plots=None) -> bytes:
+    """The bytes of ``report.html`` (UTF-8); ``plots`` as for :func:`render_html`."""
+    return render_html(result, plots=plots).encode("utf-8")
+
+
 def write_html(result: AuditResult, path, *, plots=None) -> None:
-    """Write the self-contained report page to ``path`` (UTF-8); ``plots`` as
-    for :func:`render_html`."""
-    Path(path).write_text(render_html(result, plots=plots), encoding="utf-8")
+    """Write the self-contained report page to ``path`` (UTF-8), replacing it
+    only once complete; ``plots`` as for :func:`render_html`."""
+    write_file(path, html_bytes(result, plots=plots))

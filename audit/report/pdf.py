@@ -27,9 +27,10 @@ from __future__ import annotations
 import datetime as _dt
 import re
 from dataclasses import dataclass
-from pathlib import Path, PurePath
+from pathlib import PurePath
 
 from ..results import AuditResult
+from .atomic import write_file
 
 __all__ = ["render_pdf", "write_pdf", "RefusingURLFetcher", "FetchRefused", "PDF_VARIANT",
            "attachment_specs", "AttachmentSpec"]
@@ -188,5 +189,6 @@ def render_pdf(result: AuditResult, input_bytes: bytes | None = None, *, plots=N
 
 def write_pdf(result: AuditResult, path, input_bytes: bytes | None = None, *,
               plots=None) -> None:
-    """Write the PDF/A-3b report to ``path``; ``plots`` as for :func:`render_pdf`."""
-    Path(path).write_bytes(render_pdf(result, input_bytes, plots=plots))
+    """Write the PDF/A-3b report to ``path``, replacing it only once complete;
+    ``plots`` as for :func:`render_pdf`."""
+    write_file(path, render_pdf(result, input_bytes, plots=plots))

@@ -8,7 +8,7 @@ the final name — an atomic step on POSIX and Windows.  An interruption
 untouched, and the temporary is removed on the way out.
 
 :class:`StagedFiles` extends this to a set of files renamed together; the
-renames run with SIGINT and SIGTERM held back (POSIX), so an interruption
+renames run with SIGINT and SIGTERM held back, so an interruption
 that arrives while they run takes effect just after the set is complete.
 
 :func:`folder_lock` keeps two runs from writing into one folder at once.
@@ -20,6 +20,7 @@ import contextlib
 import os
 import re
 import signal
+import threading
 from pathlib import Path
 
 from ..errors import InputError
@@ -40,20 +41,38 @@ def temporary_name(final: Path) -> Path:
 
 @contextlib.contextmanager
 def _signals_held():
-    """Hold SIGINT and SIGTERM back for a few system calls (no-op where impossible).
+    """Hold SIGINT and SIGTERM back for a few system calls.
 
-    A signal that arrives meanwhile stays pending and is delivered — so its
-    handler runs — as soon as the block ends.
+    Their Python handlers are swapped for one that only notes the signal;
+    once the block ends the previous handlers are back and the first signal
+    noted is passed on to its own (so Ctrl-C raises ``KeyboardInterrupt``
+    just after the block).  Python runs signal handlers in the main thread
+    only, so in any other thread there is nothing to hold back.
+    (``pthread_sigmask`` would not do: the kernel hands a process signal to
+    any thread that does not block it.)
     """
-    mask = getattr(signal, "pthread_sigmask", None)
-    if mask is None:  # Windows: no signal masks; the window is a few renames wide
+    if threading.current_thread() is not threading.main_thread():
         yield
         return
-    old = mask(signal.SIG_BLOCK, _HELD_SIGNALS)
+    noted: list[tuple[int, object]] = []
+    previous = {}
+    for sig in _HELD_SIGNALS:
+        handler = signal.getsignal(sig)
+        if handler is not None:  # None: installed outside Python, not ours to swap
+            previous[sig] = handler
+            signal.signal(sig, lambda signum, frame: noted.append((signum, frame)))
     try:
         yield
     finally:
-        mask(signal.SIG_SETMASK, old)
+        for sig, handler in previous.items():
+            signal.signal(sig, handler)
+        if noted:
+            signum, frame = noted[0]
+            handler = previous[signum]
+            if callable(handler):
+                handler(signum, frame)
+            elif handler == signal.SIG_DFL:
+                signal.raise_signal(signum)
 
 
 def _fsync_folder(folder: Path) -> None:

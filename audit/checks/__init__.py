@@ -19,6 +19,7 @@ _CHECK_MODULES = (
     "outliers",
     "source_agreement",
     "duplicates",
+    "copied_values",
     "monotonic",
     "triple_point",
     "clapeyron_linearity",

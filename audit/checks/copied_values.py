@@ -1,0 +1,445 @@
+"""Check ``copied-values``: one source's printed series repeated by another.
+
+Literature compilations sometimes carry the same measurements twice: a series
+republished by a later author (often with the temperatures converted or
+"corrected", so shifted by a constant), or copied with a unit conversion.
+Each copy looks like an independent confirmation and passes the checks that
+compare values, because the values agree.  This check compares the printed
+digits of every pair of named sources and reports runs of rows that are too
+alike to be independent.
+"""
+
+from __future__ import annotations
+
+import math
+from bisect import bisect_left, bisect_right
+from collections import defaultdict
+from dataclasses import dataclass
+from decimal import Decimal, InvalidOperation
+
+from ..model import Point
+from ..results import CheckResult, PointFlag
+from ..thermo.rounding import log_pressure_base, parse_printed_number
+from ._util import skipped, worst_status
+from .registry import Check, Option, register
+
+__all__ = ["CopiedValues", "PrintedValue", "coincidence_probability", "printed_value", "same_printed"]
+
+_SQRT2 = math.sqrt(2.0)
+_SQRT2PI = math.sqrt(2.0 * math.pi)
+
+
+def coincidence_probability(width: float, mu: float, sigma: float) -> float:
+    """Probability that two independent values print alike at resolution `width`.
+
+    Two values whose difference is ``d`` fall into the same cell of a grid of
+    spacing ``width`` (whose position relative to the values is arbitrary)
+    with probability ``max(0, 1 − |d|/width)``.  Averaged over
+    ``d ~ N(mu, sigma²)`` this is, in closed form,
+
+        E = G(−w, 0) + G(0, w) + [μ·(G(−w, 0) − G(0, w)) + σ²·(f(−w) − 2 f(0) + f(w))]/w
+
+    with ``G(a, b) = Φ((b−μ)/σ) − Φ((a−μ)/σ)`` and ``f`` the normal density.
+
+    Parameters
+    ----------
+    width : float
+        Grid spacing (one unit of the last printed digit) [same unit as mu].
+    mu : float
+        Expected difference of the two independent values.
+    sigma : float
+        Standard deviation of their difference.
+
+    Returns
+    -------
+    float
+        Probability in [0, 1]; 1 for a zero width is not possible, so a
+        non-positive width gives 0.
+    """
+    if not (width > 0) or not math.isfinite(width) or not math.isfinite(mu):
+        return 0.0
+    if not (sigma > 0) or not math.isfinite(sigma):
+        return max(0.0, 1.0 - abs(mu) / width)
+
+    def cdf(x: float) -> float:
+        return 0.5 * (1.0 + math.erf((x - mu) / (sigma * _SQRT2)))
+
+    def pdf(x: float) -> float:
+        return math.exp(-0.5 * ((x - mu) / sigma) ** 2) / (sigma * _SQRT2PI)
+
+    w = width
+    g_lo, g_hi = cdf(0.0) - cdf(-w), cdf(w) - cdf(0.0)
+    e = g_lo + g_hi + (mu * (g_lo - g_hi) + sigma ** 2 * (pdf(-w) - 2.0 * pdf(0.0) + pdf(w))) / w
+    return min(1.0, max(0.0, e))
+
+
+@dataclass(frozen=True)
+class PrintedValue:
+    """One printed cell: the number it shows, its last digit and resolution.
+
+    Attributes
+    ----------
+    value : Decimal or None
+        The printed number, exactly; None for text that is not a finite,
+        non-zero decimal number.
+    step : Decimal or None
+        One unit of the last printed digit [column unit].
+    digits : int
+        Significant digits as printed (an integer's trailing zeros count, as
+        in :mod:`audit.thermo.rounding`).
+    resolution_lnP : float
+        ``step`` as a difference in ln P [-] (meaningful for pressures).
+    """
+
+    value: Decimal | None
+    step: Decimal | None
+    digits: int
+    resolution_lnP: float
+
+
+_UNREAD = PrintedValue(None, None, 0, math.nan)
+
+
+def printed_value(text: str, P_text_unit: str = "Pa") -> PrintedValue:
+    """Read a printed cell (grouping characters, decimal commas and exponents allowed).
+
+    Parameters
+    ----------
+    text : str
+        The cell as printed.
+    P_text_unit : str
+        The column unit; for a log-pressure column (``'log10(P/Pa)'``) the
+        resolution in ln P is ln(10)·step rather than step/value.
+    """
+    try:
+        pn = parse_printed_number(text)
+        value = Decimal(pn.normalized)
+    except (ValueError, InvalidOperation):
+        return _UNREAD
+    if not value.is_finite() or value == 0:
+        return _UNREAD
+    step = Decimal(1).scaleb(value.as_tuple().exponent)
+    digits = max(int(value.adjusted() - value.as_tuple().exponent + 1), 0)
+    base = log_pressure_base(P_text_unit)
+    res = math.log(base) * float(step) if base is not None else float(step / abs(value))
+    return PrintedValue(value, step, digits, res)
+
+
+def same_printed(a: PrintedValue, b: PrintedValue) -> bool:
+    """Do two cells print the same number, at the coarser of their two precisions?
+
+    ``10.02`` and ``10.020`` do; so do ``10.0234`` and ``10.02`` (the second
+    is the first rounded to its digits), and ``300.15`` and ``300.2``.
+    Exact decimal arithmetic: no binary rounding decides a match.
+    """
+    if a.value is None or b.value is None:
+        return False
+    return abs(a.value - b.value) <= max(a.step, b.step) / 2
+
+
+def _maximal_runs(xs: list[PrintedValue], ys: list[PrintedValue], min_len: int,
+                  min_digits: int = 0) -> list[tuple[int, int, int]]:
+    """Maximal runs (start in xs, start in ys, length) of matching cells at consecutive positions.
+
+    Cells match when :func:`same_printed` holds and the coarser carries at
+    least `min_digits` significant digits.
+    """
+    ys_sorted = sorted((y.value, j) for j, y in enumerate(ys) if y.value is not None)
+    values = [v for v, _ in ys_sorted]
+    widest = max((ys[j].step for _, j in ys_sorted), default=Decimal(0))
+    length: dict[tuple[int, int], int] = {}
+    for i, x in enumerate(xs):
+        if x.value is None:
+            continue
+        reach = max(x.step, widest) / 2
+        for k in range(bisect_left(values, x.value - reach), bisect_right(values, x.value + reach)):
+            j = ys_sorted[k][1]
+            y = ys[j]
+            coarse = x if x.step >= y.step else y
+            if coarse.digits >= min_digits and same_printed(x, y):
+                length[(i, j)] = length.get((i - 1, j - 1), 0) + 1
+    return [(i - n + 1, j - n + 1, n) for (i, j), n in length.items()
+            if n >= min_len and (i + 1, j + 1) not in length]
+
+
+def _median(x: list[float]) -> float:
+    s = sorted(x)
+    n = len(s)
+    return s[n // 2] if n % 2 else 0.5 * (s[n // 2 - 1] + s[n // 2])
+
+
+def _family_probability(p_run: float, n_alignments: int) -> float:
+    """Šidák: chance that at least one of n alignments shows such a run."""
+    if p_run <= 0:
+        return 0.0
+    if p_run >= 1:
+        return 1.0
+    return -math.expm1(n_alignments * math.log1p(-p_run))
+
+
+def _row_ranges(rows: list[int]) -> str:
+    """``[12, 13, 14, 20]`` → ``'12–14, 20'``."""
+    rows = sorted(set(rows))
+    parts, start = [], rows[0]
+    for prev, cur in zip(rows, rows[1:] + [None]):
+        if cur is None or cur != prev + 1:
+            parts.append(f"{start}–{prev}" if prev > start else f"{start}")
+            start = cur
+    return ", ".join(parts)
+
+
+@dataclass(frozen=True)
+class _Copy:
+    source_a: str
+    source_b: str
+    rows_a: tuple[int, ...]
+    rows_b: tuple[int, ...]
+    shared: str  # "pressure" or "temperature"
+    shift_K: float
+    shift_spread_K: float
+    ratio: float | None
+    chance: float  # family-wise probability of so close a run between independent sources
+    same_T: bool  # the temperatures print the same too (at the coarser precision)
+
+    def metrics(self) -> dict:
+        return {"source_a": self.source_a, "source_b": self.source_b,
+                "rows_a": list(self.rows_a), "rows_b": list(self.rows_b),
+                "shift_K": self.shift_K, "shift_spread_K": self.shift_spread_K,
+                "shared": self.shared, "ratio": self.ratio, "n_rows": len(self.rows_a),
+                "chance_probability": self.chance}
+
+    def what(self) -> str:
+        n = len(self.rows_a)
+        if self.shared == "pressure":
+            if self.same_T:
+                how = "at the same temperatures"
+            else:
+                how = f"temperatures shifted by {self.shift_K:+.2f} K"
+                if self.shift_spread_K >= 0.005:
+                    how += f" (spread {self.shift_spread_K:.2f} K)"
+            return f"print the same {n} pressures", how
+        if self.ratio is not None and abs(self.ratio - 1.0) < 1e-9:
+            return f"print the same {n} temperatures", "with pressures that agree to the last printed digit"
+        return (f"print the same {n} temperatures",
+                f"with pressures in the constant ratio {self.ratio:.6g} to the printed digits")
+
+    def message(self) -> str:
+        shared, how = self.what()
+        return (f"sources '{self.source_a}' and '{self.source_b}' {shared} (rows "
+                f"{_row_ranges(list(self.rows_a))} and {_row_ranges(list(self.rows_b))}), {how}: one series is "
+                f"likely copied from the other — keep one (chance of so close a match between independent "
+                f"sources {'< 1e-12' if self.chance < 1e-12 else f'{self.chance:.1g}'})")
+
+
+@register
+class CopiedValues(Check):
+    """Runs of printed values one source shares with another.
+
+    **What it checks.** For every pair of named sources, each sorted by
+    temperature: runs of at least ``min_run`` consecutive rows where
+
+    * the printed pressures are the same numbers (the temperatures may be
+      identical or shifted, by a constant or not), or
+    * the printed temperatures are the same and the pressures agree with one
+      constant ratio to within the rounding of their printed digits (a copy
+      through a unit conversion or a rescaling).
+
+    "The same number" is judged at the coarser of the two printed
+    precisions: ``10.0234`` and ``10.02`` are the same number (the second is
+    the first rounded), as are ``300.15`` and ``300.2`` — a copy re-rounded to
+    fewer digits is still a copy.
+
+    A run is reported only when its pressures carry at least
+    ``min_significant_digits`` digits and when so close a match between two
+    independent sources would have a probability below ``alpha`` (see
+    Method).  Identical round temperatures on their own (300, 310, 320 K …)
+    are never a finding, nor are values repeated inside one source
+    (replicates).
+
+    **Why it matters.** A series republished by a second author, often with
+    its temperatures converted or "corrected", counts twice in a fit and in
+    the agreement between sources, and each copy seems to confirm the other.
+    Which copy is the original is the curator's call: keep one.
+
+    **Method.** Printed cells are read as exact decimal numbers (grouping
+    characters, decimal commas and exponents allowed) and compared as
+    printed digits, never as floats: two cells match when they differ by at
+    most half a unit of the coarser one's last digit.  For a run, each matched row contributes the
+    probability that two *independent* sources would print it alike: with a
+    printed resolution δ (one unit of the last digit, taken in ln P) and an
+    expected difference μ ± σ of the two values in ln P, two values fall into
+    the same rounding cell with probability E[max(0, 1 − |d|/δ)],
+    d ~ N(μ, σ²) (closed form in :func:`coincidence_probability`).  μ is the
+    pressure change the temperature shift implies (dln P/dT from the first
+    source's neighbouring rows × shift; zero at identical temperatures); σ is
+    ``independent_scatter_percent``, or the combined stated u(P) of the two
+    rows when smaller — so a pair is called copied only if even the closest
+    agreement independent sources plausibly reach makes the match improbable.
+    For a constant-ratio run the window is the sum of both resolutions and
+    the row that fixes the ratio is left out.  The rows' probabilities are
+    multiplied and the product corrected (Šidák) for the number of
+    alignments compared, Σ n_a·n_b over source pairs for each of the two
+    kinds of match.  Pressures printed to two digits at the same round
+    temperatures therefore agree by chance (probability near 1) however long
+    the run, while the same two digits repeated at temperatures 2 K apart are
+    a finding.  With the default scatter, a copy at unchanged temperatures
+    between two short sources is found from five rows of five printed digits
+    or three of six; four digits at the same temperatures are not conclusive.  The shift is the median of T_b − T_a over the run, its spread
+    the range (largest minus smallest).  Both sources' rows are flagged;
+    none is made suspect, since the data cannot tell the original from the
+    copy.
+
+    **Example.** sources 'Smith 1962' and 'Jones 1971' print the same 7
+    pressures (rows 12–18 and 40–46), temperatures shifted by +2.00 K: one
+    series is likely copied from the other — keep one.
+
+    **Options.** ``min_run``, ``min_significant_digits``,
+    ``independent_scatter_percent``, ``alpha``.
+    """
+
+    id = "copied-values"
+    title = "Values copied between sources"
+    method = ("Printed pressures (or temperatures with pressures in a constant ratio) of each pair of named "
+              "sources are matched digit for digit in runs of consecutive rows; each run's probability "
+              "between independent sources is the product over its rows of E[max(0, 1-|d|/δ)], d ~ N(μ, σ²), "
+              "δ the printed resolution in ln P, μ the change implied by the temperature shift, σ the "
+              "independent scatter; Šidák-corrected for the alignments compared.")
+    references = (
+        "JCGM 100:2008 (GUM), §4.3.7 and §F.2.2.1 — the resolution of a printed value.",
+        "Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967), doi:10.1080/01621459.1967.10482935 — "
+        "family-wise probability over many comparisons.",
+    )
+    options = {
+        "min_run": Option(int, "fewest consecutive matching rows reported", "rows", 2, 1000),
+        "min_significant_digits": Option(int, "fewest significant digits a matched pressure must carry",
+                                         "digits", 1, 15),
+        "independent_scatter_percent": Option(float, "closest agreement expected of two independent "
+                                              "sources (standard deviation of their difference in ln P "
+                                              "about a constant ratio)", "%",
+                                              1e-6, 100),
+        "alpha": Option(float, "largest chance probability of a run between independent sources that is "
+                        "still taken as chance", "", 0, 1),
+    }
+
+    def run(self, ctx):
+        s = ctx.settings(self.id)
+        by_source: dict[str, list[Point]] = defaultdict(list)
+        for p in ctx.dataset.readable_points():
+            if p.source:
+                by_source[p.source].append(p)
+        names = [n for n in ctx.dataset.sources if n in by_source]
+        if len(names) < 2:
+            return skipped(self, "fewer than two named sources", n_pairs=0, pairs=[])
+        series = {n: sorted(by_source[n], key=lambda q: (q.T_K, q.row)) for n in names}
+        min_run, min_digits = s["min_run"], s["min_significant_digits"]
+        scatter = s["independent_scatter_percent"] / 100
+        pkeys = {n: [printed_value(p.P_text, p.P_text_unit) for p in series[n]] for n in names}
+        tkeys = {n: [printed_value(p.T_text) for p in series[n]] for n in names}
+        sizes = [len(series[n]) for n in names]
+        # alignments compared: n_a·n_b start pairs per source pair, for each of the two kinds of match
+        n_alignments = max(1, sum(sizes) ** 2 - sum(x * x for x in sizes))
+
+        found: list[_Copy] = []
+        for ia, a in enumerate(names):
+            for b in names[ia + 1:]:
+                pa, pb = series[a], series[b]
+                same_p: set[tuple[int, int]] = set()
+                for i0, j0, n in _maximal_runs(pkeys[a], pkeys[b], min_run, min_digits):
+                    pairs = [(i0 + k, j0 + k) for k in range(n)]
+                    same_p.update(pairs)
+                    chance = _family_probability(self._chance_same_p(pa, pb, pkeys[a], pkeys[b], pairs, scatter),
+                                                 n_alignments)
+                    if chance < s["alpha"]:
+                        found.append(self._record(a, b, pa, pb, tkeys, pairs, "pressure", None, chance))
+                for i0, j0, n in _maximal_runs(tkeys[a], tkeys[b], min_run):
+                    for pairs, ratio, p_run in self._ratio_segments(pa, pb, pkeys[a], pkeys[b],
+                                                                    [(i0 + k, j0 + k) for k in range(n)],
+                                                                    scatter, min_run, min_digits):
+                        if set(pairs) <= same_p or all(same_printed(pkeys[a][i], pkeys[b][j]) for i, j in pairs):
+                            continue  # the same pressures: the pressure match covers these rows
+                        chance = _family_probability(p_run, n_alignments)
+                        if chance < s["alpha"]:
+                            found.append(self._record(a, b, pa, pb, tkeys, pairs, "temperature", ratio, chance))
+
+        flags: list[PointFlag] = []
+        for c in found:
+            shared, how = c.what()
+            for mine, other, me in ((c.rows_a, c.rows_b, c.source_b), (c.rows_b, c.rows_a, c.source_a)):
+                for r in mine:
+                    flags.append(PointFlag(r, self.id, s.severity,
+                                           f"{shared.replace('print ', 'prints ')} as rows {_row_ranges(list(other))} "
+                                           f"of '{me}', {how} (copied series?)"))
+        metrics = {"pairs": [c.metrics() for c in found], "n_pairs": len(found),
+                   "n_sources": len(names), "n_alignments": n_alignments,
+                   "min_run": min_run, "alpha": s["alpha"]}
+        if found:
+            shown = "; ".join(c.message() for c in found[:3])
+            more = f"; and {len(found) - 3} more" if len(found) > 3 else ""
+            msg = f"{len(found)} run{'s' if len(found) != 1 else ''} of values shared between sources: {shown}{more}"
+        else:
+            msg = (f"no two of the {len(names)} sources share a run of {min_run} or more printed pressures (or "
+                   f"temperatures with matching pressures) beyond chance (alpha {s['alpha']:g})")
+        return CheckResult(self.id, self.title, worst_status(len(found), s.severity), msg, metrics, tuple(flags))
+
+    @staticmethod
+    def _sigma(p: Point, q: Point, scatter: float) -> float:
+        """Standard deviation [-] in ln P of the difference of two independent readings."""
+        if p.u_P_Pa and q.u_P_Pa and p.u_P_Pa > 0 and q.u_P_Pa > 0:
+            return min(scatter, math.hypot(p.u_P_Pa / p.P_Pa, q.u_P_Pa / q.P_Pa))
+        return scatter
+
+    def _chance_same_p(self, pa, pb, ka, kb, pairs, scatter) -> float:
+        """Product over the run of the chance that independent sources print the same pressure."""
+        prob = 1.0
+        for k, (i, j) in enumerate(pairs):
+            # dln P/dT from the first source's neighbours within the run; 0 (most lenient) if undefined
+            lo, hi = pairs[max(k - 1, 0)][0], pairs[min(k + 1, len(pairs) - 1)][0]
+            dT = pa[hi].T_K - pa[lo].T_K
+            slope = (math.log(pa[hi].P_Pa) - math.log(pa[lo].P_Pa)) / dT if dT > 0 else 0.0
+            slope = slope if math.isfinite(slope) and slope > 0 else 0.0
+            mu = slope * (pb[j].T_K - pa[i].T_K)
+            width = max(ka[i].resolution_lnP, kb[j].resolution_lnP)
+            prob *= coincidence_probability(width, mu, self._sigma(pa[i], pb[j], scatter))
+        return prob
+
+    def _ratio_segments(self, pa, pb, ka, kb, pairs, scatter, min_run, min_digits):
+        """Longest stretches of a same-temperature run whose pressures share one ratio to the digit.
+
+        Yields (pairs, ratio, probability between independent sources).
+        """
+        def interval(i, j):
+            if min(ka[i].digits, kb[j].digits) < min_digits:
+                return None  # unreadable, or too few digits to carry evidence
+            d = math.log(pb[j].P_Pa) - math.log(pa[i].P_Pa)
+            half = 0.5 * (ka[i].resolution_lnP + kb[j].resolution_lnP)
+            return d - half, d + half
+
+        ivs = [interval(i, j) for i, j in pairs]
+        covered_to = -1
+        for start in range(len(pairs)):
+            if ivs[start] is None:
+                continue
+            lo, hi = ivs[start]
+            end = start
+            while end + 1 < len(pairs) and ivs[end + 1] is not None:
+                nlo, nhi = max(lo, ivs[end + 1][0]), min(hi, ivs[end + 1][1])
+                if nlo > nhi:
+                    break
+                lo, hi, end = nlo, nhi, end + 1
+            if end <= covered_to or end - start + 1 < min_run:
+                continue
+            covered_to = end
+            seg = pairs[start:end + 1]
+            probs = sorted(coincidence_probability(ka[i].resolution_lnP + kb[j].resolution_lnP, 0.0,
+                                                   self._sigma(pa[i], pb[j], scatter)) for i, j in seg)
+            p_run = math.prod(probs[:-1])  # one row fixes the ratio
+            ratio = 1.0 if lo <= 0.0 <= hi else math.exp(_median(
+                [math.log(pb[j].P_Pa / pa[i].P_Pa) for i, j in seg]))
+            yield seg, ratio, p_run
+
+    @staticmethod
+    def _record(a, b, pa, pb, tkeys, pairs, shared, ratio, chance) -> _Copy:
+        shifts = [pb[j].T_K - pa[i].T_K for i, j in pairs]
+        same_T = all(same_printed(tkeys[a][i], tkeys[b][j]) for i, j in pairs)
+        return _Copy(a, b, tuple(pa[i].row for i, _ in pairs), tuple(pb[j].row for _, j in pairs), shared,
+                     float(_median(shifts)), float(max(shifts) - min(shifts)), ratio, float(chance), same_T)

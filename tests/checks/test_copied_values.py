@@ -1,0 +1,270 @@
+"""copied-values on synthetic compilations of water data.
+
+SYNTHETIC DATA: every source label below is invented; the "measurements" are
+water's saturation pressure from IAPWS-95 (Wagner & Pruss, J. Phys. Chem.
+Ref. Data 31, 387 (2002), doi:10.1063/1.1461829) through the ``iapws``
+package, printed to a stated number of digits, with invented noise where a
+test says so.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+
+import numpy as np
+import pytest
+
+from audit.checks.copied_values import coincidence_probability, printed_value, same_printed
+from audit.model import Dataset, Point
+from audit.pipeline import run_audit
+from audit.profiles import load_profile
+from tests.conftest import iapws_saturation_pressure
+
+MMHG = 133.322387415  # Pa, NIST SP 811 (2008) Appendix B
+
+
+def _rows(source, T, P_kPa_text, T_digits=2, start=1):
+    """Points of one source: temperatures printed with T_digits decimals, pressures in kPa as given."""
+    return [Point(row=start + i, T_K=float(f"{t:.{T_digits}f}"), P_Pa=float(p) * 1000, phase="liquid",
+                  source=source, T_text=f"{t:.{T_digits}f}", P_text=p, P_text_unit="kPa")
+            for i, (t, p) in enumerate(zip(T, P_kPa_text))]
+
+
+def _dataset(*groups):
+    pts, row = [], 1
+    for g in groups:
+        for p in g:
+            pts.append(Point(**{**p.__dict__, "row": row}))
+            row += 1
+    return Dataset(points=tuple(pts), header=("T/K", "p/kPa", "source"),
+                   cells=tuple((p.T_text, p.P_text, p.source or "") for p in pts), file_name="<synthetic>")
+
+
+def _printed(P_Pa, sig):
+    return [f"{p / 1000:.{sig}g}" for p in P_Pa]
+
+
+def _noisy(T, rel, seed):
+    return iapws_saturation_pressure(T) * (1 + rel * np.random.default_rng(seed).standard_normal(len(T)))
+
+
+def _copied(res):
+    return next(c for c in res.checks if c.id == "copied-values")
+
+
+def _profile(tmp_path, **options):
+    body = '[profile]\nname = "test"\nextends = "default"\n\n[checks.copied-values]\n'
+    body += "".join(f"{k} = {v}\n" for k, v in options.items())
+    path = tmp_path / "copied.toml"
+    path.write_text(body, encoding="utf-8")
+    return load_profile(str(path))
+
+
+# --- the probability model, against a numerical integration --------------------------------
+
+@pytest.mark.parametrize("width, mu, sigma", [(1.0, 0.0, 0.3), (1.0, 0.7, 0.5), (0.2, 0.0, 1.0),
+                                              (1e-5, 2e-5, 2e-4), (0.5, -0.3, 0.05)])
+def test_coincidence_probability_matches_numerical_integration(width, mu, sigma):
+    # E[max(0, 1-|d|/w)] for d ~ N(mu, sigma^2), by the trapezoid rule on a fine grid
+    d = np.linspace(mu - 12 * sigma, mu + 12 * sigma, 400001)
+    dens = np.exp(-0.5 * ((d - mu) / sigma) ** 2) / (sigma * math.sqrt(2 * math.pi))
+    expected = np.trapezoid(np.clip(1 - np.abs(d) / width, 0, None) * dens, d)
+    assert coincidence_probability(width, mu, sigma) == pytest.approx(expected, rel=1e-6, abs=1e-12)
+
+
+def test_coincidence_probability_limits():
+    # no scatter: the triangle itself; large scatter: w/(sqrt(2 pi) sigma), the density at 0 times w
+    assert coincidence_probability(1.0, 0.25, 0.0) == pytest.approx(0.75)
+    assert coincidence_probability(1.0, 2.0, 0.0) == 0.0
+    assert coincidence_probability(1e-3, 0.0, 1.0) == pytest.approx(1e-3 / math.sqrt(2 * math.pi), rel=1e-3)
+
+
+def test_cells_match_as_printed_numbers_at_the_coarser_precision():
+    same = [printed_value(t) for t in ("10.02", "10.020", " 1.002e1", "10,02", "10.0234", "10.015")]
+    assert all(same_printed(same[0], x) for x in same)
+    assert not same_printed(printed_value("10.02"), printed_value("10.03"))
+    assert not same_printed(printed_value("10.0250"), printed_value("10.0249"))  # same precision: digits differ
+    assert same_printed(printed_value("300.15"), printed_value("300.2"))
+    assert printed_value("760").digits == 3 and printed_value("0.0870").digits == 3
+    assert printed_value("3.5").digits == 2 and printed_value("1.2e-3").digits == 2
+    # one unit in the last digit as a difference in ln P: 0.01/10.02 for kPa, ln(10)*0.001 for log10
+    assert printed_value("10.02", "kPa").resolution_lnP == pytest.approx(0.01 / 10.02, rel=1e-12)
+    assert printed_value("3.123", "log10(P/Pa)").resolution_lnP == pytest.approx(math.log(10) * 1e-3, rel=1e-12)
+    for junk in ("nan", "n/a", "", "inf", "0"):
+        assert printed_value(junk).value is None
+
+
+# --- synthetic compilations -----------------------------------------------------------------
+
+def test_series_republished_with_temperatures_shifted_by_2_K(default_profile):
+    T_a = np.arange(300.0, 336.0, 5.0)  # 8 rows
+    P_a = _printed(iapws_saturation_pressure(T_a), 6)
+    orig = _rows("Ostrander 1958 (synthetic)", T_a, P_a)
+    other_T = np.array([302.5, 317.5, 332.5])
+    other = _rows("Vaillant 2004 (synthetic)", other_T, _printed(_noisy(other_T, 5e-4, 1), 6))
+    # the copy: rows 2-8 of the original, temperatures +2 K, after two rows of its own
+    own_T = np.array([280.0, 290.0])
+    copy = (_rows("Lindqvist 1969 (synthetic)", own_T, _printed(_noisy(own_T, 5e-4, 2), 6))
+            + _rows("Lindqvist 1969 (synthetic)", T_a[1:] + 2.0, P_a[1:]))
+    res = run_audit(_dataset(orig, other, copy), default_profile)
+    chk = _copied(res)
+    assert chk.status == "warn", chk.message
+    assert chk.metrics["n_pairs"] == 1
+    pair = chk.metrics["pairs"][0]
+    assert (pair["source_a"], pair["source_b"]) == ("Ostrander 1958 (synthetic)", "Lindqvist 1969 (synthetic)")
+    assert pair["rows_a"] == [2, 3, 4, 5, 6, 7, 8]
+    assert pair["rows_b"] == [14, 15, 16, 17, 18, 19, 20]
+    assert pair["shared"] == "pressure" and pair["ratio"] is None
+    assert pair["shift_K"] == pytest.approx(2.0, abs=1e-9)
+    assert pair["shift_spread_K"] == pytest.approx(0.0, abs=1e-9)
+    assert "'Ostrander 1958 (synthetic)' and 'Lindqvist 1969 (synthetic)' print the same 7 pressures" in chk.message
+    assert "rows 2–8 and 14–20" in chk.message and "+2.00 K" in chk.message
+    flagged = {f.row for f in chk.flags}
+    assert flagged == set(range(2, 9)) | set(range(14, 21))
+    assert not chk.point_status  # which copy to keep is the curator's call
+
+
+def test_series_republished_unchanged(default_profile):
+    T = np.arange(300.0, 361.0, 10.0)
+    P = _printed(iapws_saturation_pressure(T), 6)
+    T_b = np.arange(305.0, 366.0, 10.0)
+    res = run_audit(_dataset(_rows("Arkwright 1961 (synthetic)", T, P),
+                             _rows("Bellamy 1975 (synthetic)", T_b, _printed(_noisy(T_b, 5e-4, 3), 6)),
+                             _rows("Cordier 1980 (synthetic)", T[:5], P[:5])), default_profile)
+    chk = _copied(res)
+    assert [(p["source_a"], p["source_b"], p["rows_a"], p["rows_b"]) for p in chk.metrics["pairs"]] == [
+        ("Arkwright 1961 (synthetic)", "Cordier 1980 (synthetic)", [1, 2, 3, 4, 5], [15, 16, 17, 18, 19])]
+    assert chk.metrics["pairs"][0]["shift_K"] == 0.0
+    assert "at the same temperatures" in chk.message
+
+
+def test_copy_re_rounded_to_fewer_digits_is_still_a_copy(default_profile):
+    # the copier printed one decimal fewer in T and five digits instead of six in P
+    T = np.arange(300.15, 340.0, 5.0)  # 8 rows
+    P_a = _printed(iapws_saturation_pressure(T), 6)
+    P_b = [f"{float(p):.5g}" for p in P_a]
+    res = run_audit(_dataset(_rows("Pemberton 1949 (synthetic)", T, P_a),
+                             _rows("Quist 1972 (synthetic)", T, P_b, T_digits=1)), default_profile)
+    chk = _copied(res)
+    assert chk.metrics["n_pairs"] == 1, chk.message
+    pair = chk.metrics["pairs"][0]
+    assert pair["shared"] == "pressure" and pair["rows_a"] == list(range(1, 9))
+    assert abs(pair["shift_K"]) <= 0.05 + 1e-9  # half a unit of the coarser printed temperature
+    assert "at the same temperatures" in chk.message
+
+
+def test_copy_through_a_pressure_factor_at_the_same_temperatures(default_profile):
+    # the copier multiplied by 1.01325 (atm taken for bar) and printed 6 digits again
+    T = np.arange(300.0, 341.0, 5.0)
+    P = iapws_saturation_pressure(T)
+    P_a = _printed(P, 6)
+    P_b = [f"{float(p) * 1.01325:.6g}" for p in P_a]
+    res = run_audit(_dataset(_rows("Harrow 1955 (synthetic)", T, P_a), _rows("Iverson 1966 (synthetic)", T, P_b)),
+                    default_profile)
+    chk = _copied(res)
+    assert chk.metrics["n_pairs"] == 1, chk.message
+    pair = chk.metrics["pairs"][0]
+    assert pair["shared"] == "temperature" and len(pair["rows_a"]) == 9
+    # the factor is recovered to the rounding of 6 printed digits
+    assert pair["ratio"] == pytest.approx(1.01325, rel=1e-5)
+    assert "constant ratio 1.0132" in chk.message
+
+
+def test_independent_precise_sources_at_the_same_round_temperatures_are_not_copies(default_profile):
+    T = np.arange(300.0, 371.0, 10.0)
+    res = run_audit(_dataset(_rows("Dahl 1983 (synthetic)", T, _printed(_noisy(T, 5e-4, 11), 6), T_digits=0),
+                             _rows("Espinosa 1999 (synthetic)", T, _printed(_noisy(T, 5e-4, 12), 6), T_digits=0)),
+                    default_profile)
+    chk = _copied(res)
+    assert chk.status == "pass", chk.message
+    assert chk.metrics["n_pairs"] == 0
+
+
+def test_a_biased_independent_source_is_not_a_rescaled_copy(default_profile):
+    # 1 % high with its own 0.05 % scatter: a constant ratio, but not to the printed digits
+    T = np.arange(300.0, 371.0, 5.0)
+    res = run_audit(_dataset(_rows("Falk 1970 (synthetic)", T, _printed(_noisy(T, 5e-4, 21), 6), T_digits=0),
+                             _rows("Gorski 1990 (synthetic)", T, _printed(1.01 * _noisy(T, 5e-4, 22), 6),
+                                   T_digits=0)), default_profile)
+    assert _copied(res).metrics["n_pairs"] == 0
+
+
+def test_two_digit_handbook_values_agree_by_chance_at_the_same_temperatures(tmp_path, default_profile):
+    T = np.arange(300.0, 401.0, 5.0)  # 21 rows
+    a = _printed(_noisy(T, 5e-4, 31), 2)
+    b = _printed(_noisy(T, 5e-4, 32), 2)
+    shared = sum(x == y for x, y in zip(a, b))
+    assert shared >= 18  # the two tables do print nearly the same digits
+    ds = _dataset(_rows("Handbook A (synthetic)", T, a, T_digits=0), _rows("Handbook B (synthetic)", T, b, T_digits=0))
+    # below the digit floor: not compared at all
+    assert _copied(run_audit(ds, default_profile)).metrics["n_pairs"] == 0
+    # compared, the chance model still calls a two-digit agreement at the same temperatures chance
+    lenient = _profile(tmp_path, min_significant_digits=1)
+    chk = _copied(run_audit(ds, lenient))
+    assert chk.status == "pass", chk.message
+    # ... but the same two digits at temperatures 2 K higher (IAPWS-95: P up ~11 %) are not chance
+    shifted = _dataset(_rows("Handbook A (synthetic)", T, a, T_digits=0),
+                       _rows("Handbook C (synthetic)", T + 2.0, a, T_digits=0))
+    chk = _copied(run_audit(shifted, lenient))
+    assert chk.metrics["n_pairs"] >= 1
+    assert all(p["shift_K"] == pytest.approx(2.0) for p in chk.metrics["pairs"])
+
+
+def test_replicates_inside_one_source_are_not_copies(default_profile):
+    T = np.arange(300.0, 341.0, 10.0)
+    P = _printed(iapws_saturation_pressure(T), 6)
+    # each state printed twice within one source; the other source is independent
+    rep = _rows("Jansen 1977 (synthetic)", np.repeat(T, 2), list(np.repeat(P, 2)))
+    ind = _rows("Kowalski 2011 (synthetic)", T + 5.0, _printed(_noisy(T + 5.0, 5e-4, 41), 6))
+    assert _copied(run_audit(_dataset(rep, ind), default_profile)).metrics["n_pairs"] == 0
+    chk = _copied(run_audit(_dataset(rep), default_profile))
+    assert chk.status == "skipped" and chk.message == "fewer than two named sources"
+
+
+def test_no_source_column_is_skipped(default_profile):
+    T = np.arange(300.0, 341.0, 10.0)
+    pts = [Point(**{**p.__dict__, "source": None}) for p in _rows("x", T, _printed(iapws_saturation_pressure(T), 6))]
+    chk = _copied(run_audit(_dataset(pts), default_profile))
+    assert chk.status == "skipped" and chk.message == "fewer than two named sources"
+    assert chk.metrics["pairs"] == [] and chk.metrics["n_pairs"] == 0
+
+
+def test_odd_input_does_not_raise(default_profile):
+    T = np.arange(300.0, 341.0, 10.0)
+    P = _printed(iapws_saturation_pressure(T), 6)
+    junk = [Point(row=1, T_K=310.0, P_Pa=6000.0, source="Junk (synthetic)", T_text="n/a", P_text="nan"),
+            Point(row=1, T_K=None, P_Pa=None, source="Junk (synthetic)", T_text="?", P_text="?",
+                  status="unreadable", reason="not a number")]
+    single = _rows("One row (synthetic)", [315.0], ["8.0"])
+    same = [_rows(f"Copy {k} (synthetic)", T, P) for k in range(3)]
+    chk = _copied(run_audit(_dataset(junk, single, *same), default_profile))
+    # three identical sources: each of the three pairs, nothing from the junk or the one-row source
+    assert sorted((p["source_a"], p["source_b"]) for p in chk.metrics["pairs"]) == [
+        ("Copy 0 (synthetic)", "Copy 1 (synthetic)"), ("Copy 0 (synthetic)", "Copy 2 (synthetic)"),
+        ("Copy 1 (synthetic)", "Copy 2 (synthetic)")]
+
+
+def test_findings_json_carries_the_pairs(tmp_path):
+    # through the file reader: a semicolon table in mmHg with decimal commas (synthetic)
+    from audit.cli import main
+    from audit.schema import validate_findings
+
+    T_c = np.arange(20.0, 81.0, 5.0)
+    P = iapws_saturation_pressure(T_c + 273.15) / MMHG
+    a = [f"{v:.5g}".replace(".", ",") for v in P]
+    lines = ["Temperature (°C);Vapour pressure (mmHg);Reference"]
+    lines += [f"{t:.1f}".replace(".", ",") + f";{p};Morland 1952 (synthetic)" for t, p in zip(T_c, a)]
+    lines += [f"{t + 1.5:.1f}".replace(".", ",") + f";{p};Norberg 1960 (synthetic)" for t, p in zip(T_c[3:], a[3:])]
+    data = tmp_path / "compiled.csv"
+    data.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    main(["check", str(data), "--out", str(tmp_path / "out"), "--format", "json"])
+    findings = json.loads((tmp_path / "out" / "findings.json").read_text("utf-8"))
+    validate_findings(findings)
+    chk = next(c for c in findings["checks"] if c["id"] == "copied-values")
+    assert chk["status"] == "warn"
+    [pair] = chk["metrics"]["pairs"]
+    assert set(pair) >= {"source_a", "source_b", "rows_a", "rows_b", "shift_K", "shift_spread_K", "shared", "ratio"}
+    assert pair["rows_a"] == list(range(4, 14)) and pair["rows_b"] == list(range(14, 24))
+    assert pair["shift_K"] == pytest.approx(1.5, abs=1e-9) and pair["shared"] == "pressure"
+    assert chk["metrics"]["n_pairs"] == 1

@@ -36,7 +36,7 @@ __all__ = [
     "TEMPERATURE_UNITS", "PRESSURE_UNITS", "SI_FACTORS", "ACCEPTED_TEMPERATURE_UNITS",
     "ACCEPTED_PRESSURE_UNITS", "PressureUnit", "parse_temperature_unit",
     "parse_plain_pressure_unit", "parse_pressure_unit", "split_log_prefix", "registry",
-    "derive_si_factors", "kelvin_per_unit", "pascal_per_unit", "temperature_to_kelvin",
+    "RefusedUnit", "derive_si_factors", "kelvin_per_unit", "pascal_per_unit", "temperature_to_kelvin",
     "pressure_to_pascal", "kelvin_affine", "pascal_per", "known_si_affine",
 ]
 

@@ -10,12 +10,23 @@ Format (our own)::
     temperature_unit = "degC"
     [constants]                      # value, unit (any pint unit), source; optional uncertainty
     T_triple = { value = 353.37, unit = "K", source = "..." }
-    [reference_equation]             # optional; kept verbatim
+    [reference_equation]             # optional; see audit.thermo.reference.reference_from_table
+    form = "antoine"
+    parameters = { A = 6.95464, B = 1344.8, C = 219.482 }
+    P_unit = "Torr"                  # any unit a table header may use
+    T_unit = "degC"
+    valid_from_K = 286.0
+    valid_to_K = 410.0
+    source = "..."
 
-Each constant is converted with pint to the SI unit listed in
-:data:`audit.model.CONSTANT_UNITS` (the dipole moment stays in debye).
-Anything not understood is an error naming the file and the key: a typo in a
-metadata file must not silently drop a constant.
+Each constant is converted to the SI unit listed in
+:data:`audit.model.CONSTANT_UNITS` (the dipole moment stays in debye): a
+temperature or pressure unit through the vocabulary the table headers use
+(:mod:`audit.units`), anything else (``g/mol``, ``kJ/mol``, ``cm^3/mol``)
+with pint.  The reference equation (a table, or an array of tables, one per
+branch) is validated here and kept verbatim.  Anything not understood is an
+error naming the file and the key: a typo in a metadata file must not
+silently drop a constant or a reference.
 """
 
 from __future__ import annotations
@@ -25,8 +36,8 @@ import os
 import re
 import tomllib
 
+from audit import units as _units
 from audit.errors import InputError
-from audit.ingest import units as _units
 from audit.ingest.columns import OVERRIDE_FIELDS, ColumnOverrides
 from audit.model import CONSTANT_UNITS, Constant, Metadata
 
@@ -51,9 +62,19 @@ def cas_number_is_valid(cas: str) -> bool:
 
 
 def _convert(value: float, unit: str, target: str) -> float:
+    """`value` in `unit` expressed in `target`.
+
+    Temperature and pressure units of the shared vocabulary use its table (so
+    'C', 'mm Hg' or 'Torr' mean what they mean in a header, without building
+    pint's registry); other unit texts are free-form and go to pint.
+    """
+    known = _units.known_si_affine(unit, target)
+    if known is not None:
+        return known[0] * value + known[1]
+    if target == "1" and unit.strip() in _DIMENSIONLESS:
+        return float(value)
     ureg = _units.registry()
     if target == "1":
-        unit = "dimensionless" if unit.strip() in _DIMENSIONLESS else unit
         target = "dimensionless"
     return float(ureg.Quantity(value, unit).to(target).magnitude)
 
@@ -95,6 +116,8 @@ def _read_constant(name: str, spec, file: str) -> Constant:
         si = _convert(float(value), unit, target)
         u_si = (None if uncertainty is None
                 else abs(_convert(float(value) + float(uncertainty), unit, target) - si))
+    except _units.RefusedUnit as exc:
+        raise InputError(f"{key}.unit {unit!r} cannot be used: {exc}", file=file) from None
     except Exception as exc:  # noqa: BLE001 -- pint raises many types for unparseable unit text
         what = "dimensionless" if target == "1" else target
         raise InputError(f"{key}.unit {unit!r} cannot be converted to {what} ({type(exc).__name__})",
@@ -103,6 +126,48 @@ def _read_constant(name: str, spec, file: str) -> Constant:
     if not math.isfinite(si):
         raise InputError(f"{key} is out of range after conversion", file=file)
     return Constant(value=si, unit=target, source=source.strip(), uncertainty=u_si)
+
+
+def _check_reference_equations(given, file: str) -> None:
+    """Validate ``[reference_equation]`` (one table) or ``[[reference_equation]]`` (one per branch).
+
+    Raises
+    ------
+    InputError
+        Naming the metadata file and the key, e.g. ``reference_equation.P_unit``.
+    """
+    from audit.thermo.reference import REFERENCE_TABLE_KEYS, ReferenceTableError, reference_from_table
+
+    tables = given if isinstance(given, list) else [given]
+    if not tables or not all(isinstance(t, dict) for t in tables):
+        raise InputError("'reference_equation' must be a table, or an array of tables ([[reference_equation]])",
+                         file=file)
+    branches: dict[str, str] = {}
+    for i, table in enumerate(tables):
+        prefix = "reference_equation" if len(tables) == 1 and not isinstance(given, list) \
+            else f"reference_equation[{i}]"
+        try:
+            ref = reference_from_table(table)
+        except ReferenceTableError as exc:
+            key = f"{prefix}.{exc.key}" if exc.key else prefix
+            shown = _value_at(table, exc.key)
+            raise InputError(f"{key}{'' if shown is None else f' = {shown!r}'}: {exc}", file=file,
+                             hint="keys: " + ", ".join(REFERENCE_TABLE_KEYS)
+                                  + "; see 'vpaudit explain reference-agreement'") from None
+        if ref.branch in branches:
+            raise InputError(f"{prefix}.branch: a second reference equation for the {ref.branch} branch "
+                             f"(the first is {branches[ref.branch]})", file=file)
+        branches[ref.branch] = prefix
+
+
+def _value_at(table: dict, dotted: str):
+    """The scalar at a dotted key of `table`, or None (absent, or a table)."""
+    node = table
+    for part in dotted.split(".") if dotted else ():
+        if not isinstance(node, dict) or part not in node:
+            return None
+        node = node[part]
+    return None if isinstance(node, (dict, list)) or node is table else node
 
 
 def read_metadata_and_columns(path: str | os.PathLike) -> tuple[Metadata, ColumnOverrides]:
@@ -155,8 +220,7 @@ def read_metadata_and_columns(path: str | os.PathLike) -> tuple[Metadata, Column
             raise InputError("'notes' must be a text or a list of texts", file=file)
         extra["notes"] = list(notes)
     if "reference_equation" in doc:
-        if not isinstance(doc["reference_equation"], dict):
-            raise InputError("'reference_equation' must be a table", file=file)
+        _check_reference_equations(doc["reference_equation"], file)
         extra["reference_equation"] = doc["reference_equation"]
     columns = doc.get("columns", {})
     if not isinstance(columns, dict):

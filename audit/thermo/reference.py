@@ -20,14 +20,16 @@ References
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
-from typing import ClassVar
+from typing import ClassVar, Mapping
 
 import numpy as np
 
+from ..units import kelvin_affine, pascal_per
 from .constants import WATER_P_CRITICAL, WATER_P_TRIPLE, WATER_T_CRITICAL, WATER_T_TRIPLE
-from .equations import VaporPressureEquation, as_temperature, reduced_power_series
+from .equations import FORMS, Antoine, VaporPressureEquation, as_temperature, reduced_power_series
 
 __all__ = [
     "WaterSaturationWagnerPruss",
@@ -36,6 +38,10 @@ __all__ = [
     "ICE_SUBLIMATION",
     "water_saturation_pressure",
     "ice_sublimation_pressure",
+    "REFERENCE_TABLE_KEYS",
+    "ReferenceTableError",
+    "TabulatedReference",
+    "reference_from_table",
 ]
 
 
@@ -138,3 +144,209 @@ def water_saturation_pressure(T):
 def ice_sublimation_pressure(T):
     """Sublimation pressure of ice Ih [Pa] at `T` [K] (IAPWS R14-08(2011))."""
     return ICE_SUBLIMATION.p(T)
+
+
+# -- a reference equation given as a table (the metadata's [reference_equation]) --------
+#: Keys of a reference-equation table.
+REFERENCE_TABLE_KEYS: tuple[str, ...] = ("form", "parameters", "fixed", "base", "P_unit", "T_unit",
+                                         "valid_from_K", "valid_to_K", "branch", "source")
+_REQUIRED_KEYS = ("form", "parameters", "valid_from_K", "valid_to_K", "source")
+_ANTOINE_ONLY = ("base", "P_unit", "T_unit")
+# Antoine's base and units are table keys, not coefficients.
+_NOT_COEFFICIENTS = {"antoine": ("base", "P_unit", "T_unit")}
+# Points at which a tabulated equation must give a finite pressure over its range.
+_RANGE_PROBES = 65
+
+
+class ReferenceTableError(ValueError):
+    """A reference-equation table that cannot be used.
+
+    Attributes
+    ----------
+    key : str
+        Dotted key of the offending entry inside the table, e.g. ``'P_unit'``
+        or ``'parameters.C'``.
+    """
+
+    def __init__(self, key: str, problem: str):
+        super().__init__(problem)
+        self.key = key
+
+
+@dataclass(frozen=True)
+class TabulatedReference:
+    """A reference correlation read from a table.
+
+    Attributes
+    ----------
+    branch : {'liquid', 'solid'}
+        The branch it describes.
+    equation : VaporPressureEquation
+        The equation (T in K, ln(P/Pa)) whatever units the table quoted.
+    T_min, T_max : float
+        Range of validity [K].
+    name : str
+        ``'<form> (<source>)'``, for messages.
+    """
+
+    branch: str
+    equation: VaporPressureEquation
+    T_min: float
+    T_max: float
+    name: str
+
+
+def _is_number(x) -> bool:
+    return isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x)
+
+
+def _coefficient(name: str, kind: str, value, key: str):
+    """`value` as the type the form's field `name` declares (float, int or str)."""
+    if kind == "str":
+        if not isinstance(value, str):
+            raise ReferenceTableError(key, f"{name} must be text, not {value!r}")
+        return value
+    if not _is_number(value):
+        raise ReferenceTableError(key, f"{name} must be a finite number, not {value!r}")
+    if kind == "int":
+        if float(value) != int(value):
+            raise ReferenceTableError(key, f"{name} must be a whole number, not {value!r}")
+        return int(value)
+    return float(value)
+
+
+def _coefficients(form: str, cls, table: Mapping) -> dict:
+    params = table["parameters"]
+    fixed = table.get("fixed", {})
+    for key, sub in (("parameters", params), ("fixed", fixed)):
+        if not isinstance(sub, Mapping):
+            raise ReferenceTableError(key, f"{key} must be a table of name = number")
+    skip = _NOT_COEFFICIENTS.get(form, ())
+    declared = {f.name: f for f in dataclasses.fields(cls) if f.init and f.name not in skip}
+    both = sorted(set(params) & set(fixed))
+    if both:
+        raise ReferenceTableError(f"fixed.{both[0]}", f"{both[0]} is given both in parameters and in fixed")
+    values = {}
+    for key, sub in (("parameters", params), ("fixed", fixed)):
+        for name, value in sub.items():
+            if name not in declared:
+                raise ReferenceTableError(f"{key}.{name}", f"the {form} form has no coefficient {name!r} "
+                                                           f"(it has {', '.join(declared)})")
+            kind = declared[name].type if isinstance(declared[name].type, str) else declared[name].type.__name__
+            values[name] = _coefficient(name, kind, value, f"{key}.{name}")
+    for name, f in declared.items():
+        if name not in values and f.default is dataclasses.MISSING:
+            raise ReferenceTableError(f"parameters.{name}", f"the {form} form needs coefficient {name!r}")
+    return values
+
+
+def _units_of(form: str, table: Mapping) -> dict:
+    """Antoine's base and units checked through :mod:`audit.units`; SI for other forms."""
+    given = {k: table[k] for k in _ANTOINE_ONLY if k in table}
+    for key, value in given.items():
+        if not isinstance(value, str):
+            raise ReferenceTableError(key, f"{key} must be text, not {value!r}")
+    if form == "antoine":
+        if given.get("base", "log10") not in ("log10", "ln"):
+            raise ReferenceTableError("base", f"base must be 'log10' or 'ln', not {given['base']!r}")
+        for key, convert in (("P_unit", pascal_per), ("T_unit", kelvin_affine)):
+            if key in given:
+                try:
+                    convert(given[key])
+                except ValueError as exc:
+                    raise ReferenceTableError(key, str(exc)) from None
+        return given
+    if "base" in given:
+        raise ReferenceTableError("base", f"base applies to the antoine form only; the {form} form is "
+                                          "written in ln(P/Pa)")
+    for key, convert, si in (("P_unit", pascal_per, (1.0,)), ("T_unit", kelvin_affine, ((1.0, 0.0),))):
+        if key in given:
+            try:
+                ok = convert(given[key]) in si
+            except ValueError as exc:
+                raise ReferenceTableError(key, str(exc)) from None
+            if not ok:
+                raise ReferenceTableError(key, f"the {form} form takes SI coefficients (T in K, P in Pa); "
+                                               f"{key} = {given[key]!r} applies to the antoine form only")
+    return {}
+
+
+def reference_from_table(table: Mapping) -> TabulatedReference:
+    """Build a reference equation from a table such as a metadata ``[reference_equation]``.
+
+    Example (TOML)::
+
+        form = "antoine"          # or clausius-clapeyron-2, clausius-clapeyron-3, clarke-glew, wagner
+        parameters = { A = 6.95464, B = 1344.8, C = 219.482 }
+        base = "log10"            # antoine only
+        P_unit = "mmHg"           # antoine only; any unit a table header may use (Torr, kPa, bar, psi, ...)
+        T_unit = "degC"           # antoine only (K, degC, °C, degF, ...)
+        fixed = { Tc = 591.75, Pc = 4.1263e6 }   # quantities held fixed (wagner, clarke-glew), SI
+        valid_from_K = 286.0
+        valid_to_K = 410.0
+        branch = "liquid"         # or "solid"
+        source = "..."
+
+    Parameters
+    ----------
+    table : Mapping
+        The table, as read from TOML.
+
+    Returns
+    -------
+    TabulatedReference
+
+    Raises
+    ------
+    ReferenceTableError
+        Unknown key or form, a missing or non-numeric coefficient, a unit the
+        vocabulary of :mod:`audit.units` does not accept, a validity range
+        that is empty or where the equation is not finite; ``key`` names the
+        entry.
+    """
+    if not isinstance(table, Mapping):
+        raise ReferenceTableError("", "must be a table")
+    for key in table:
+        if key not in REFERENCE_TABLE_KEYS:
+            raise ReferenceTableError(str(key), f"unknown key; allowed: {', '.join(REFERENCE_TABLE_KEYS)}")
+    for key in _REQUIRED_KEYS:
+        if key not in table:
+            raise ReferenceTableError(key, f"missing (a reference equation needs {', '.join(_REQUIRED_KEYS)})")
+    form = table["form"]
+    if not isinstance(form, str) or form.lower() not in FORMS:
+        raise ReferenceTableError("form", f"unknown form {form!r}; known: {', '.join(sorted(FORMS))}")
+    form = form.lower()
+    branch = table.get("branch", "liquid")
+    if branch not in ("liquid", "solid"):
+        raise ReferenceTableError("branch", f"branch must be 'liquid' or 'solid', not {branch!r}")
+    source = table["source"]
+    if not isinstance(source, str) or not source.strip():
+        raise ReferenceTableError("source", "source must be a non-empty text naming where the equation comes from")
+    lo, hi = table["valid_from_K"], table["valid_to_K"]
+    for key, value in (("valid_from_K", lo), ("valid_to_K", hi)):
+        if not _is_number(value) or value <= 0:
+            raise ReferenceTableError(key, f"{key} must be a temperature above 0 K, not {value!r}")
+    if not lo < hi:
+        raise ReferenceTableError("valid_to_K", f"the validity range is empty ({lo} K to {hi} K)")
+    cls = FORMS[form]
+    units = _units_of(form, table)
+    values = _coefficients(form, cls, table)
+    try:
+        equation = cls(**values, **units)
+    except ValueError as exc:
+        raise ReferenceTableError("parameters", str(exc)) from None
+    grid = np.linspace(float(lo), float(hi), _RANGE_PROBES)
+    with np.errstate(all="ignore"):
+        ln_p = np.asarray(equation.ln_p(grid), dtype=float)
+    pole = isinstance(equation, Antoine) and _antoine_pole_inside(equation, float(lo), float(hi))
+    if pole or not np.all(np.isfinite(ln_p)):
+        raise ReferenceTableError("parameters", f"the equation gives no finite pressure over the whole "
+                                                f"validity range {lo}–{hi} K"
+                                  + (" (its pole T/T_unit = -C lies inside)" if pole else ""))
+    return TabulatedReference(branch, equation, float(lo), float(hi), f"{table['form']} ({source})")
+
+
+def _antoine_pole_inside(eq: Antoine, lo: float, hi: float) -> bool:
+    """True when T_unit + C changes sign (or is 0) between `lo` and `hi` [K]."""
+    x = [eq._parts(T)[3] for T in (lo, hi)]
+    return bool(x[0] * x[1] <= 0)

@@ -32,7 +32,10 @@ acentric_factor = { value = 0.302, unit = "1", source = "from memory" }
 dipole_moment = { value = 0.0, unit = "debye", source = "symmetry" }
 [reference_equation]
 form = "antoine"
-A = 9.0
+parameters = { A = 9.0, B = 1500.0, C = -40.0 }
+valid_from_K = 300.0
+valid_to_K = 400.0
+source = "synthetic"
 '''
 
 
@@ -51,7 +54,9 @@ def test_good_metadata(tmp_path):
     assert c["V_solid"].value == pytest.approx(111.9e-6, rel=ROUNDOFF)
     assert c["acentric_factor"].value == pytest.approx(0.302, rel=ROUNDOFF)
     assert c["dipole_moment"].unit == "debye"
-    assert md.extra["reference_equation"] == {"form": "antoine", "A": 9.0}
+    assert md.extra["reference_equation"] == {  # validated, kept verbatim
+        "form": "antoine", "parameters": {"A": 9.0, "B": 1500.0, "C": -40.0}, "valid_from_K": 300.0,
+        "valid_to_K": 400.0, "source": "synthetic"}
     assert md.extra["notes"] == ["test data"]
 
 

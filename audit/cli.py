@@ -110,7 +110,7 @@ def audit_file(data: str, *, profile: str = "default", overrides=None, metadata:
     from .substances import with_library_constants
 
     prof = load_profile(profile)
-    dataset = read_table(data, overrides, metadata_path=metadata)
+    dataset = read_table(data, overrides, metadata_path=metadata, row_limit=prof.row_limit)
     dataset = with_library_constants(dataset, substance)
     return dataset, prof, run_audit(dataset, prof, audited_at=audited_at)
 
@@ -192,6 +192,7 @@ def cmd_profiles(args) -> int:
         prof = load_profile(name)
         extends = f" (extends {' → '.join(Path(c).stem for c in prof.chain[:-1])})" if len(prof.chain) > 1 else ""
         print(f"{prof.name}{extends}: {prof.description}")
+        print(f"  {'limits':24s} {'':8s} max_rows={prof.limits.max_rows} (data rows per audit)")
         for check_id in all_checks():
             s = prof.settings(check_id)
             opts = ", ".join(f"{k}={v}" for k, v in s.options.items())

@@ -61,7 +61,13 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
     Returns
     -------
     AuditResult
+
+    Raises
+    ------
+    InputError
+        The dataset has more points than the profile's ``limits.max_rows``.
     """
+    profile.row_limit.check(len(dataset.points), dataset.file_name)
     ctx = AuditContext(dataset=dataset, profile=profile)
     results: list[CheckResult] = []
     for check_id, check_cls in registry.all_checks().items():

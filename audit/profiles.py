@@ -17,6 +17,9 @@ Example
     description = "For reference-quality data"
     extends = "default"
 
+    [limits]
+    max_rows = 20000
+
     [checks.outliers]
     reject_alpha = 0.001
 """
@@ -31,6 +34,7 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import Any, Mapping
 
+from .checks.registry import Option
 from .errors import InputError
 
 SEVERITIES = ("warn", "fail")
@@ -49,6 +53,58 @@ class CheckSettings:
         return self.options[key]
 
 
+#: what ``[limits]`` may say, declared and validated as a check's options are
+LIMIT_OPTIONS: Mapping[str, Option] = MappingProxyType({
+    "max_rows": Option(int, "most data rows one audit accepts; a larger table is refused with one "
+                            "message before its rows become points", unit="rows", minimum=1),
+})
+
+
+@dataclass(frozen=True)
+class Limits:
+    """The resolved ``[limits]`` of a profile: how large an input one audit accepts.
+
+    Attributes
+    ----------
+    max_rows : int
+        Most data rows (blank rows inside the table included) [rows].
+    """
+
+    max_rows: int
+
+
+@dataclass(frozen=True)
+class RowLimit:
+    """A profile's row limit, with the profile's name for the message.
+
+    Attributes
+    ----------
+    max_rows : int
+        Most data rows accepted [rows].
+    profile : str
+        Name of the profile that sets it.
+    """
+
+    max_rows: int
+    profile: str
+
+    def check(self, n_rows: int, file: str | None) -> None:
+        """Raise the one :class:`~audit.errors.InputError` for a table above the limit.
+
+        Parameters
+        ----------
+        n_rows : int
+            Data rows of the table [rows].
+        file : str or None
+            The file, for the message.
+        """
+        if n_rows > self.max_rows:
+            raise InputError(
+                f"the table has {n_rows} data rows; profile {self.profile!r} audits at most "
+                f"{self.max_rows} (limits.max_rows)", file=file,
+                hint="split the table by source or raise the limit in a profile of your own")
+
+
 @dataclass(frozen=True)
 class Profile:
     """A resolved rule profile.
@@ -58,6 +114,8 @@ class Profile:
     name : str
     description : str
     checks : mapping of check id to CheckSettings
+    limits : Limits
+        Size limits of the input (``[limits]``).
     sha256 : str
         SHA-256 of the profile file's bytes (of the named file itself; the
         profiles it extends are listed in ``chain``).
@@ -72,6 +130,7 @@ class Profile:
     name: str
     description: str
     checks: Mapping[str, CheckSettings]
+    limits: Limits
     sha256: str
     path: str
     chain: tuple[str, ...] = ()
@@ -83,6 +142,11 @@ class Profile:
     def is_enabled(self, check_id: str) -> bool:
         s = self.checks.get(check_id)
         return bool(s and s.enabled)
+
+    @property
+    def row_limit(self) -> RowLimit:
+        """The row limit with this profile's name, for readers and :func:`audit.pipeline.run_audit`."""
+        return RowLimit(self.limits.max_rows, self.name)
 
 
 def shipped_profiles() -> list[str]:
@@ -157,7 +221,9 @@ def load_profile(name_or_path: str | Path = "default") -> Profile:
             raise InputError("'extends' must be a profile name or path (text)", file=display)
 
     merged: dict[str, dict[str, Any]] = {}
+    merged_limits: dict[str, Any] = {}
     for display, doc in reversed(chain):
+        merged_limits.update(doc.get("limits", {}))
         for check_id, table in doc.get("checks", {}).items():
             merged.setdefault(check_id, {}).update(table)
 
@@ -200,6 +266,7 @@ def load_profile(name_or_path: str | Path = "default") -> Profile:
         name=str(head.get("name", stem0)),
         description=str(head.get("description", "")),
         checks=MappingProxyType(checks),
+        limits=_resolve_limits(merged_limits, display0),
         sha256=hashlib.sha256(data0).hexdigest(),
         path=display0,
         chain=tuple(d for d, _ in reversed(chain)),
@@ -207,11 +274,29 @@ def load_profile(name_or_path: str | Path = "default") -> Profile:
     )
 
 
+def _resolve_limits(table: dict, display: str) -> Limits:
+    """Validate the merged ``[limits]`` with the same rules as a check's options."""
+    values = {}
+    for key, opt in LIMIT_OPTIONS.items():
+        if key not in table:
+            raise InputError(f"[limits] is missing {key!r} ({opt.doc})", file=display,
+                             hint="add it, or extend a profile that sets it")
+        values[key] = opt.validate(table[key], f"[limits] {key}", display)
+    return Limits(**values)
+
+
 def _validate_shape(display: str, doc: dict) -> None:
-    extra = set(doc) - {"profile", "checks"}
+    extra = set(doc) - {"profile", "limits", "checks"}
     if extra:
         raise InputError(f"unknown top-level key(s): {', '.join(sorted(extra))}", file=display,
-                         hint="a profile has only [profile] and [checks.<id>] tables")
+                         hint="a profile has only [profile], [limits] and [checks.<id>] tables")
+    limits = doc.get("limits", {})
+    if not isinstance(limits, dict):
+        raise InputError("[limits] must be a table", file=display)
+    unknown_limits = set(limits) - set(LIMIT_OPTIONS)
+    if unknown_limits:
+        raise InputError(f"[limits] has unknown key(s): {', '.join(sorted(unknown_limits))}",
+                         file=display, hint=f"allowed: {', '.join(LIMIT_OPTIONS)}")
     prof = doc.get("profile", {})
     if not isinstance(prof, dict):
         raise InputError("[profile] must be a table", file=display)

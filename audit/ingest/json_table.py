@@ -25,7 +25,7 @@ def _cell_text(value) -> str:
     return json.dumps(value, ensure_ascii=False)
 
 
-def read_json_table(data: bytes, file: str) -> RawTable:
+def read_json_table(data: bytes, file: str, row_limit=None) -> RawTable:
     """Read a JSON table.
 
     Parameters
@@ -34,6 +34,8 @@ def read_json_table(data: bytes, file: str) -> RawTable:
         The file's bytes.
     file : str
         File name for messages.
+    row_limit : audit.profiles.RowLimit, optional
+        Most records accepted; checked before the records become rows.
 
     Returns
     -------
@@ -42,7 +44,8 @@ def read_json_table(data: bytes, file: str) -> RawTable:
     Raises
     ------
     InputError
-        Invalid JSON, or JSON that is not a list of records.
+        Invalid JSON, JSON that is not a list of records, or more records
+        than ``row_limit``.
     """
     text, encoding = decode(data, file)
     try:
@@ -66,6 +69,8 @@ def read_json_table(data: bytes, file: str) -> RawTable:
                          hint="write a list of records, or {\"data\": [records]}")
     if not doc:
         raise InputError("the JSON list of records is empty", file=file)
+    if row_limit is not None:
+        row_limit.check(len(doc), file)
     header: dict[str, None] = {}
     for i, record in enumerate(doc, start=1):
         if not isinstance(record, dict):

@@ -47,17 +47,29 @@ def _read_bytes(path, file: str) -> bytes:
         raise InputError(f"cannot read the file ({exc.strerror or exc})", file=file) from None
 
 
-def read_raw_table(data: bytes, file: str, sheet: str | None = None) -> RawTable:
+def read_raw_table(data: bytes, file: str, sheet: str | None = None, row_limit=None) -> RawTable:
     """Reduce a file's bytes to a :class:`RawTable`, choosing the reader by content.
 
     XLSX is recognised by its ZIP signature or extension, JSON by extension or
     a leading ``[``/``{`` that parses as JSON; everything else is read as a
     delimited text table.
 
+    Parameters
+    ----------
+    data : bytes
+        The file's bytes.
+    file : str
+        File name for messages.
+    sheet : str, optional
+        XLSX worksheet.
+    row_limit : audit.profiles.RowLimit, optional
+        Most data rows accepted; each reader checks it as early as its format
+        allows (a text table while its rows are split).
+
     Raises
     ------
     InputError
-        Empty, binary or unreadable content.
+        Empty, binary or unreadable content; more data rows than ``row_limit``.
     """
     if not data.strip():
         raise InputError("the file is empty", file=file)
@@ -71,19 +83,23 @@ def read_raw_table(data: bytes, file: str, sheet: str | None = None) -> RawTable
     if data.startswith(b"PK\x03\x04") or suffix in (".xlsx", ".xlsm"):
         from audit.ingest.xlsx_table import read_xlsx_table
 
-        return read_xlsx_table(data, file, sheet)
+        return read_xlsx_table(data, file, sheet, row_limit)
     from audit.ingest.json_table import read_json_table
 
     if suffix == ".json":
-        return read_json_table(data, file)
+        return read_json_table(data, file, row_limit)
     if data.lstrip(b"\xef\xbb\xbf \t\r\n")[:1] in (b"[", b"{"):
         try:
-            return read_json_table(data, file)
+            raw = read_json_table(data, file)
         except InputError:
             pass  # not JSON after all: a text table may start with a bracket
+        else:
+            if row_limit is not None:  # checked here: the reader's own check would be taken for "not JSON"
+                row_limit.check(len(raw.rows), file)
+            return raw
     from audit.ingest.text_table import read_text_table
 
-    return read_text_table(data, file)
+    return read_text_table(data, file, row_limit)
 
 
 def _sibling_metadata(path) -> Path | None:
@@ -92,7 +108,7 @@ def _sibling_metadata(path) -> Path | None:
 
 
 def read_table(path: str | os.PathLike, overrides: ColumnOverrides | None = None,
-               metadata_path: str | os.PathLike | None = None) -> Dataset:
+               metadata_path: str | os.PathLike | None = None, *, row_limit=None) -> Dataset:
     """Read a vapor-pressure table (CSV, TSV, semicolon CSV, XLSX or JSON).
 
     Parameters
@@ -105,6 +121,10 @@ def read_table(path: str | os.PathLike, overrides: ColumnOverrides | None = None
     metadata_path : str or path-like, optional
         Metadata TOML file; by default the ``.toml`` file with the same stem
         beside the data file, if there is one.
+    row_limit : audit.profiles.RowLimit, optional
+        The rule profile's ``limits.max_rows`` (``profile.row_limit``): a
+        table with more data rows is refused while it is split into rows,
+        before any point is built.  Default: no limit.
 
     Returns
     -------
@@ -117,7 +137,7 @@ def read_table(path: str | os.PathLike, overrides: ColumnOverrides | None = None
     InputError
         For anything the user can fix: unreadable file, no header, no
         temperature or pressure column, missing or unknown unit, ambiguous
-        header, invalid metadata file.
+        header, invalid metadata file, more data rows than ``row_limit``.
     """
     file = str(path)
     cli = overrides or ColumnOverrides()
@@ -142,7 +162,7 @@ def read_table(path: str | os.PathLike, overrides: ColumnOverrides | None = None
     if cli.substance is not None:
         metadata = replace(metadata, substance=cli.substance)
 
-    raw = read_raw_table(data, file, merged.sheet)
+    raw = read_raw_table(data, file, merged.sheet, row_limit)
     if not raw.rows:
         raise InputError("the table has a header but no data rows", file=file)
     try:

@@ -6,7 +6,9 @@ Windows-1252.  The delimiter is chosen by parsing the header and the first
 rows with each candidate and keeping the one that splits the header into at
 least two columns and gives the most rows of the header's width (ties:
 tab, then semicolon, then comma).  Lines before the header that are empty or
-start with ``#`` are skipped and counted in the notes.
+start with ``#`` are skipped and counted in the notes.  With a row limit, the
+rows past it are only counted, not kept, so that a table far above the limit
+is refused with its row count before it fills the memory.
 """
 
 from __future__ import annotations
@@ -17,7 +19,7 @@ import io
 import re
 
 from audit.errors import InputError
-from audit.ingest.raw_table import RawTable, drop_trailing_blank_rows, is_blank_row
+from audit.ingest.raw_table import RawTable, is_blank_row
 
 _DELIMITERS = (("\t", "tsv", "tab"), (";", "csv-semicolon", "semicolon"), (",", "csv", "comma"))
 _LEADING_LINES = re.compile(r"\A(?:[ \t]*(?:#[^\r\n]*)?(?:\r\n|\r|\n))*")
@@ -63,6 +65,30 @@ def _parse(text: str, delimiter: str, limit: int | None = None) -> list[list[str
     return rows
 
 
+def _parse_body(text: str, delimiter: str, row_limit, file: str
+                ) -> tuple[tuple[str, ...], list[list[str]], int]:
+    """Header, data rows (trailing blank rows dropped) and how many blank rows were dropped.
+
+    With a ``row_limit`` (:class:`audit.profiles.RowLimit`), at most one row past
+    the limit is kept; the others are counted, and a table with more data rows
+    than the limit raises its :class:`InputError` before the rows are returned.
+    """
+    reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter, strict=False)
+    header = tuple(next(reader, ()))
+    keep = None if row_limit is None else row_limit.max_rows + 1
+    rows: list[list[str]] = []
+    n_rows = last_filled = 0
+    for row in reader:
+        n_rows += 1
+        if keep is None or n_rows <= keep:
+            rows.append(row)
+        if not is_blank_row(row):
+            last_filled = n_rows
+    if row_limit is not None:
+        row_limit.check(last_filled, file)
+    return header, rows[:last_filled], n_rows - last_filled
+
+
 def _choose_delimiter(text: str) -> tuple[str, str, str] | None:
     best, best_score = None, -1.0
     for delimiter, fmt, name in _DELIMITERS:
@@ -77,7 +103,7 @@ def _choose_delimiter(text: str) -> tuple[str, str, str] | None:
     return best
 
 
-def read_text_table(data: bytes, file: str) -> RawTable:
+def read_text_table(data: bytes, file: str, row_limit=None) -> RawTable:
     """Read a delimited text table.
 
     Parameters
@@ -86,6 +112,8 @@ def read_text_table(data: bytes, file: str) -> RawTable:
         The file's bytes.
     file : str
         File name for messages.
+    row_limit : audit.profiles.RowLimit, optional
+        Most data rows accepted; checked while the rows are read.
 
     Returns
     -------
@@ -94,7 +122,8 @@ def read_text_table(data: bytes, file: str) -> RawTable:
     Raises
     ------
     InputError
-        Undecodable or binary content, no header, or a single column.
+        Undecodable or binary content, no header, a single column, or more
+        data rows than ``row_limit``.
     """
     text, encoding = decode(data, file)
     notes = [f"read as {encoding} text"]
@@ -124,11 +153,9 @@ def read_text_table(data: bytes, file: str) -> RawTable:
         raise InputError(f"only one column found in the header {first[:80]!r}", file=file, hint=hint)
     delimiter, fmt, name = chosen
     try:
-        records = _parse(body, delimiter)
+        header, rows, n_trailing = _parse_body(body, delimiter, row_limit, file)
     except csv.Error as exc:
         raise InputError(f"the table cannot be split into cells ({exc})", file=file) from None
-    header = tuple(records[0])
-    rows, n_trailing = drop_trailing_blank_rows(records[1:])
     notes.append(f"columns separated by {name}s")
     if n_trailing:
         notes.append(f"ignored {n_trailing} empty line(s) after the last data row")

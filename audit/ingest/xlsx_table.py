@@ -74,7 +74,7 @@ def display_text(value, number_format: str | None) -> str:
     return str(value)
 
 
-def read_xlsx_table(data: bytes, file: str, sheet: str | None = None) -> RawTable:
+def read_xlsx_table(data: bytes, file: str, sheet: str | None = None, row_limit=None) -> RawTable:
     """Read one worksheet of an .xlsx workbook.
 
     Parameters
@@ -85,6 +85,10 @@ def read_xlsx_table(data: bytes, file: str, sheet: str | None = None) -> RawTabl
         File name for messages.
     sheet : str, optional
         Worksheet name (default: the first worksheet).
+    row_limit : audit.profiles.RowLimit, optional
+        Most data rows accepted.  openpyxl holds the whole workbook in memory
+        first (an .xlsx sheet has at most 1 048 576 rows), so the limit is
+        checked on the cell texts, before the rows become points.
 
     Returns
     -------
@@ -93,7 +97,8 @@ def read_xlsx_table(data: bytes, file: str, sheet: str | None = None) -> RawTabl
     Raises
     ------
     InputError
-        Not a readable workbook, unknown sheet, or no table on the sheet.
+        Not a readable workbook, unknown sheet, no table on the sheet, or
+        more data rows than ``row_limit``.
     """
     import openpyxl
 
@@ -166,6 +171,8 @@ def read_xlsx_table(data: bytes, file: str, sheet: str | None = None) -> RawTabl
     header = header[:width]
     rows = [r[:width] if all(not c.strip() for c in r[width:]) else r for r in table[start + 1:]]
     rows, n_trailing = drop_trailing_blank_rows(rows)
+    if row_limit is not None:
+        row_limit.check(len(rows), file)
     n_blank = sum(1 for r in rows if is_blank_row(r))
     if n_blank:
         notes.append(f"{n_blank} empty row(s) inside the table kept as unreadable rows ('empty row')")

@@ -12,7 +12,8 @@ are kept in :data:`SI_FACTORS`, a table *generated from pint* by
 ``python -m audit.units`` and compared with pint, entry by entry, by the test
 suite (``tests/ingest/test_one_unit_registry.py``).  pint itself is built at
 most once per process, on first use, by :func:`registry` -- only for unit
-texts outside that vocabulary (free-form constants such as ``kJ/mol``).
+texts outside that vocabulary (free-form constant units other than the
+common ones of :data:`CONSTANT_UNIT_TEXTS`, such as ``kJ/kg``).
 
 The alias map keeps ``Torr`` (101325/760 Pa exactly) and ``mmHg`` (the
 conventional millimetre of mercury, 133.322387415 Pa) apart, as NIST SP 811
@@ -36,7 +37,8 @@ __all__ = [
     "TEMPERATURE_UNITS", "PRESSURE_UNITS", "SI_FACTORS", "ACCEPTED_TEMPERATURE_UNITS",
     "ACCEPTED_PRESSURE_UNITS", "PressureUnit", "parse_temperature_unit",
     "parse_plain_pressure_unit", "parse_pressure_unit", "split_log_prefix", "registry",
-    "RefusedUnit", "derive_si_factors", "kelvin_per_unit", "pascal_per_unit", "temperature_to_kelvin",
+    "RefusedUnit", "CONSTANT_FACTORS", "CONSTANT_UNIT_TEXTS", "constant_factor",
+    "derive_constant_factors", "derive_si_factors", "kelvin_per_unit", "pascal_per_unit", "temperature_to_kelvin",
     "pressure_to_pascal", "kelvin_affine", "pascal_per", "known_si_affine",
 ]
 
@@ -67,9 +69,11 @@ PRESSURE_UNITS: dict[str, str] = {
 }
 
 # GENERATED from pint 0.25.3 by `python -m audit.units` -- do not edit by hand.
-# Canonical unit -> (scale, offset) with SI = scale * value + offset, SI being
-# K for temperatures and Pa for pressures.  A test compares every entry with
-# what pint computes now (derive_si_factors) and with NIST SP 811.
+# SI_FACTORS: canonical unit -> (scale, offset) with SI = scale * value + offset,
+# SI being K for temperatures and Pa for pressures.  CONSTANT_FACTORS: (unit
+# text, target) -> factor for the multiplicative units of CONSTANT_UNIT_TEXTS.
+# A test compares every entry with what pint computes now (derive_si_factors,
+# derive_constant_factors) and with NIST SP 811.
 SI_FACTORS: dict[str, tuple[float, float]] = {
     "K": (1.0, 0.0),
     "degC": (1.0, 273.15),
@@ -90,7 +94,29 @@ SI_FACTORS: dict[str, tuple[float, float]] = {
     "inHg": (3386.3886403409997, 0.0),
     "kgf/cm2": (98066.5, 0.0),
 }
+CONSTANT_FACTORS: dict[tuple[str, str], float] = {
+    ("g/mol", "kg/mol"): 0.001,
+    ("kg/mol", "kg/mol"): 1.0,
+    ("J/mol", "J/mol"): 1.0,
+    ("kJ/mol", "J/mol"): 1000.0,
+    ("cal/mol", "J/mol"): 4.184,
+    ("kcal/mol", "J/mol"): 4184.0,
+    ("cm^3/mol", "m^3/mol"): 1.0000000000000002e-06,
+    ("dm^3/mol", "m^3/mol"): 0.0010000000000000002,
+    ("L/mol", "m^3/mol"): 0.0010000000000000002,
+    ("m^3/mol", "m^3/mol"): 1.0,
+    ("debye", "debye"): 1.0,
+}
 # END GENERATED
+
+#: Metadata-constant unit texts, exactly as pint reads them, with the unit
+#: they convert to; :data:`CONSTANT_FACTORS` holds pint's factor for each, so
+#: the usual metadata file needs no registry.  Any other text goes to pint.
+CONSTANT_UNIT_TEXTS: tuple[tuple[str, str], ...] = (
+    ("g/mol", "kg/mol"), ("kg/mol", "kg/mol"), ("J/mol", "J/mol"), ("kJ/mol", "J/mol"),
+    ("cal/mol", "J/mol"), ("kcal/mol", "J/mol"), ("cm^3/mol", "m^3/mol"), ("dm^3/mol", "m^3/mol"),
+    ("L/mol", "m^3/mol"), ("m^3/mol", "m^3/mol"), ("debye", "debye"),
+)
 
 ACCEPTED_TEMPERATURE_UNITS = "K, °C (degC, C), °F (degF, F), °R (degR, R)"
 ACCEPTED_PRESSURE_UNITS = (
@@ -322,6 +348,37 @@ def derive_si_factors() -> dict[str, tuple[float, float]]:
     return table
 
 
+def derive_constant_factors() -> dict[tuple[str, str], float]:
+    """Compute :data:`CONSTANT_FACTORS` from pint (builds the registry).
+
+    Raises
+    ------
+    ValueError
+        If pint gives one of :data:`CONSTANT_UNIT_TEXTS` an offset (it must be
+        a plain factor).
+    """
+    table = {}
+    for text, target in CONSTANT_UNIT_TEXTS:
+        scale, offset = _linear_map(text, target)
+        if offset != 0.0:
+            raise ValueError(f"{text!r} -> {target!r} is not a plain factor")
+        table[(text, target)] = scale
+    return table
+
+
+def constant_factor(text: str, target: str) -> float | None:
+    """pint's factor from `text` to `target` for a listed constant unit, or None.
+
+    Parameters
+    ----------
+    text : str
+        The unit exactly as written (surrounding spaces ignored), e.g. ``'g/mol'``.
+    target : str
+        The unit wanted, e.g. ``'kg/mol'``.
+    """
+    return CONSTANT_FACTORS.get((text.strip(), target))
+
+
 # -- conversions -------------------------------------------------------------------
 def kelvin_per_unit(unit: str) -> tuple[float, float]:
     """Scale [K per unit] and offset [K] of a canonical temperature unit.
@@ -449,6 +506,9 @@ def _generated_table_source() -> str:
              "SI_FACTORS: dict[str, tuple[float, float]] = {"]
     lines += [f"    {unit!r}: ({scale!r}, {offset!r}),".replace("'", '"')
               for unit, (scale, offset) in derive_si_factors().items()]
+    lines += ["}", "CONSTANT_FACTORS: dict[tuple[str, str], float] = {"]
+    lines += [f"    ({text!r}, {target!r}): {factor!r},".replace("'", '"')
+              for (text, target), factor in derive_constant_factors().items()]
     lines.append("}")
     return "\n".join(lines)
 

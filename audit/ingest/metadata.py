@@ -23,7 +23,7 @@ Each constant is converted to the SI unit listed in
 :data:`audit.model.CONSTANT_UNITS` (the dipole moment stays in debye): a
 temperature or pressure unit through the vocabulary the table headers use
 (:mod:`audit.units`), anything else (``g/mol``, ``kJ/mol``, ``cm^3/mol``)
-with pint.  The reference equation (a table, or an array of tables, one per
+with pint's factors.  The reference equation (a table, or an array of tables, one per
 branch) is validated here and kept verbatim.  Anything not understood is an
 error naming the file and the key: a typo in a metadata file must not
 silently drop a constant or a reference.
@@ -65,12 +65,17 @@ def _convert(value: float, unit: str, target: str) -> float:
     """`value` in `unit` expressed in `target`.
 
     Temperature and pressure units of the shared vocabulary use its table (so
-    'C', 'mm Hg' or 'Torr' mean what they mean in a header, without building
-    pint's registry); other unit texts are free-form and go to pint.
+    'C', 'mm Hg' or 'Torr' mean what they mean in a header), the usual
+    constant units ('g/mol', 'kJ/mol', 'cm^3/mol') pint's factors kept in
+    :data:`audit.units.CONSTANT_FACTORS`; only other, free-form unit texts
+    build pint's registry.
     """
     known = _units.known_si_affine(unit, target)
     if known is not None:
         return known[0] * value + known[1]
+    factor = _units.constant_factor(unit, target)
+    if factor is not None:
+        return factor * value
     if target == "1" and unit.strip() in _DIMENSIONLESS:
         return float(value)
     ureg = _units.registry()

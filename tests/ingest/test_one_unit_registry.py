@@ -173,6 +173,15 @@ def test_cli_exit_2_names_the_toml_not_the_csv(tmp_path, capsys):
     assert str(csv) not in err
 
 
+@pytest.mark.parametrize("unit, target, factor", [
+    ("g/mol", "kg/mol", 1e-3), ("kJ/mol", "J/mol", 1e3), ("cm^3/mol", "m^3/mol", 1e-6),
+    ("L/mol", "m^3/mol", 1e-3),  # SI Brochure (2019): 1 L = 1 dm^3 = 1e-3 m^3
+    ("kcal/mol", "J/mol", 4184.0),  # SP 811 B.8: thermochemical calorie = 4.184 J (exact)
+])
+def test_usual_constant_units_without_pint_agree_with_the_definitions(unit, target, factor):
+    assert audit.units.constant_factor(f" {unit} ", target) == pytest.approx(factor, rel=EXACT)
+
+
 def test_metadata_constants_use_the_header_vocabulary(tmp_path):
     """'C' and 'mm Hg' mean what they mean in a header (pint would read coulomb, or fail)."""
     path = tmp_path / "c.toml"
@@ -189,8 +198,9 @@ def test_metadata_constants_use_the_header_vocabulary(tmp_path):
 
 
 def test_factor_table_is_what_pint_computes():
-    """SI_FACTORS is generated from pint; it must match pint now, entry by entry, and the file."""
+    """The factor tables are generated from pint; they must match pint now, entry by entry, and the file."""
     assert audit.units.SI_FACTORS == audit.units.derive_si_factors()
+    assert audit.units.CONSTANT_FACTORS == audit.units.derive_constant_factors()
     generated = audit.units._generated_table_source().splitlines()[1:]  # without the version comment
     source = Path(audit.units.__file__).read_text(encoding="utf-8")
     assert "\n".join(generated) in source
@@ -225,11 +235,15 @@ def test_one_pint_registry_per_process(count_registries, tmp_path, read_text):
     assert pressure_unit_size_Pa("inHg") == pytest.approx(3.386389e3, rel=SEVEN_DIGITS)
     assert temperature_to_K(77.0, "degF") == pytest.approx(298.15, rel=EXACT)
     assert all_hypotheses(ds.points[0])
-    assert count_registries == []
-    # free-form constant units need pint: built once, then reused by everyone
+    # the usual constant units: pint's factors from the generated table, no registry either
     path = tmp_path / "m.toml"
     path.write_text('[constants]\nmolar_mass = { value = 18.015, unit = "g/mol", source = "synthetic" }\n'
                     'dH_fusion = { value = 6.01, unit = "kJ/mol", source = "synthetic" }\n', encoding="utf-8")
+    assert read_metadata(path).constants["dH_fusion"].value == pytest.approx(6010.0, rel=EXACT)
+    assert count_registries == []
+    # a free-form unit text needs pint: built once, then reused by everyone
+    path.write_text('[constants]\nmolar_mass = { value = 18.015, unit = "mg/mmol", source = "synthetic" }\n'
+                    'dH_fusion = { value = 6.01, unit = "kJ / mol", source = "synthetic" }\n', encoding="utf-8")
     assert read_metadata(path).constants["molar_mass"].value == pytest.approx(0.018015, rel=EXACT)
     read_metadata(path)
     audit.units.derive_si_factors()

@@ -15,7 +15,6 @@ from __future__ import annotations
 
 import codecs
 import csv
-import io
 import re
 
 from audit.errors import InputError
@@ -24,6 +23,8 @@ from audit.ingest.raw_table import RawTable, is_blank_row
 _DELIMITERS = (("\t", "tsv", "tab"), (";", "csv-semicolon", "semicolon"), (",", "csv", "comma"))
 _LEADING_LINES = re.compile(r"\A(?:[ \t]*(?:#[^\r\n]*)?(?:\r\n|\r|\n))*")
 _SAMPLE_ROWS = 50
+# a line with its ending, split where a file opened with newline="" would split it
+_LINE = re.compile(r"[^\r\n]*(?:\r\n|\r|\n)|[^\r\n]+\Z")
 
 
 def decode(data: bytes, file: str) -> tuple[str, str]:
@@ -55,8 +56,17 @@ def decode(data: bytes, file: str) -> tuple[str, str]:
                          hint="save it as UTF-8") from None
 
 
+def _lines(text: str):
+    """The lines of ``text`` one by one, endings kept (csv joins quoted line breaks).
+
+    Unlike ``io.StringIO``, which copies the text at 4 bytes a character, this
+    reads it in place, and a sample of the first rows costs only those rows.
+    """
+    return (m.group(0) for m in _LINE.finditer(text))
+
+
 def _parse(text: str, delimiter: str, limit: int | None = None) -> list[list[str]]:
-    reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter, strict=False)
+    reader = csv.reader(_lines(text), delimiter=delimiter, strict=False)
     rows = []
     for row in reader:
         rows.append(row)
@@ -69,13 +79,13 @@ def _parse_body(text: str, delimiter: str, row_limit, file: str
                 ) -> tuple[tuple[str, ...], list[list[str]], int]:
     """Header, data rows (trailing blank rows dropped) and how many blank rows were dropped.
 
-    With a ``row_limit`` (:class:`audit.profiles.RowLimit`), at most one row past
-    the limit is kept; the others are counted, and a table with more data rows
-    than the limit raises its :class:`InputError` before the rows are returned.
+    With a ``row_limit`` (:class:`audit.profiles.RowLimit`), rows past the limit
+    are counted, not kept, and a table with more data rows than the limit raises
+    its :class:`InputError` before the rows are returned.
     """
-    reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter, strict=False)
+    reader = csv.reader(_lines(text), delimiter=delimiter, strict=False)
     header = tuple(next(reader, ()))
-    keep = None if row_limit is None else row_limit.max_rows + 1
+    keep = None if row_limit is None else row_limit.max_rows
     rows: list[list[str]] = []
     n_rows = last_filled = 0
     for row in reader:

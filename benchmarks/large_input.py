@@ -1,4 +1,4 @@
-"""Large inputs: time and peak memory of reading and auditing 10⁴, 10⁵ and 10⁶ rows.
+"""Large inputs: time and peak memory of reading and auditing 5·10³ to 10⁶ rows.
 
 Writes SYNTHETIC tables (water saturation pressures from IAPWS-IF97 region 4,
 ``iapws.iapws97._PSat_T``, with 0.1–0.3 % noise, four invented sources, one of
@@ -11,13 +11,14 @@ subprocess:
   with the profile's row limit, as a user would run it: either the audit
   finishes, or it ends with the one row-limit message.
 
-Each line gives the wall time (median of ``--repeats``), the peak resident
-memory of the subprocess (``ru_maxrss`` from ``os.wait4``), the file size and
-the outcome.  ``--layout skewed`` puts 95 % of the rows in one source (the
+Each line gives the wall time (median of ``--repeats``), the CPU time of the
+subprocess (user + system; less sensitive than the wall time to other work on
+a shared machine), its peak resident memory (``ru_maxrss`` from ``os.wait4``),
+the file size and the outcome.  ``--layout skewed`` puts 95 % of the rows in one source (the
 costliest layout for the per-source comparison).  No assertions: this is a
 measurement, not a test.
 
-Run:  python benchmarks/large_input.py [--sizes 1e4,1e5,1e6] [--repeats 1]
+Run:  python benchmarks/large_input.py [--sizes 5e3,1e4,1e5,1e6] [--repeats 1]
                                        [--layout four|skewed] [--profile default]
 """
 
@@ -75,8 +76,8 @@ def write_table(path: Path, n: int, layout: str, seed: int = 1) -> None:
             fh.write(f"{T:.3f},{P:.6g},liquid,{name},{u}\n")
 
 
-def _run(cmd: list[str], timeout: float) -> tuple[float, float, int, str, str]:
-    """(wall s, peak RSS MB, exit code, stdout, stderr) of one fresh subprocess."""
+def _run(cmd: list[str], timeout: float) -> tuple[float, float, float, int, str, str]:
+    """(wall s, CPU s, peak RSS MB, exit code, stdout, stderr) of one fresh subprocess."""
     with tempfile.TemporaryFile("w+") as out, tempfile.TemporaryFile("w+") as err:
         t0 = time.perf_counter()
         proc = subprocess.Popen(cmd, stdout=out, stderr=err, cwd=ROOT, start_new_session=True)
@@ -96,7 +97,8 @@ def _run(cmd: list[str], timeout: float) -> tuple[float, float, int, str, str]:
         out.seek(0)
         err.seek(0)
         code = os.waitstatus_to_exitcode(status) if status != -1 else -1
-        return wall, usage.ru_maxrss / 1024.0, code, out.read(), err.read()
+        cpu = usage.ru_utime + usage.ru_stime
+        return wall, cpu, usage.ru_maxrss / 1024.0, code, out.read(), err.read()
 
 
 def _outcome(code: int, stdout: str, stderr: str, timeout: float) -> str:
@@ -110,7 +112,7 @@ def _outcome(code: int, stdout: str, stderr: str, timeout: float) -> str:
 
 def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    ap.add_argument("--sizes", default="1e4,1e5,1e6", help="comma-separated row counts")
+    ap.add_argument("--sizes", default="5e3,1e4,1e5,1e6", help="comma-separated row counts")
     ap.add_argument("--repeats", type=int, default=1, help="runs per size (median reported)")
     ap.add_argument("--layout", choices=sorted(LAYOUTS), default="four")
     ap.add_argument("--profile", default="default")
@@ -120,7 +122,8 @@ def main(argv=None) -> int:
 
     print(f"layout {args.layout}, profile {args.profile}, {args.repeats} repeat(s), "
           f"{os.cpu_count()} CPU(s); SYNTHETIC water tables")
-    print(f"{'rows':>9} {'file MB':>8} {'read s':>8} {'read MB':>8} {'check s':>8} {'check MB':>9}  outcome")
+    print(f"{'rows':>9} {'file MB':>8} {'read s':>8} {'read MB':>8} {'check s':>8} {'CPU s':>7} "
+          f"{'check MB':>9}  outcome")
     with tempfile.TemporaryDirectory(prefix="vpaudit-large-") as tmp:
         for n in sizes:
             data = Path(tmp) / f"water_{n}.csv"
@@ -128,23 +131,25 @@ def main(argv=None) -> int:
             size_mb = data.stat().st_size / 1e6
             reads, checks = [], []
             for _ in range(args.repeats):
-                wall, peak, code, out, err = _run([sys.executable, "-c", _READ_ONLY, str(data)], args.timeout)
+                _, _, peak, code, out, err = _run([sys.executable, "-c", _READ_ONLY, str(data)], args.timeout)
                 if code != 0:
                     raise SystemExit(f"read_table failed on {n} rows: {err.strip()[-400:]}")
                 reads.append((json.loads(out)["seconds"], peak))
                 cmd = [sys.executable, "-m", "audit", "check", str(data), "--substance", "water",
                        "--profile", args.profile, "--format", "json", "--out", str(Path(tmp) / f"out_{n}")]
-                wall, peak, code, out, err = _run(cmd, args.timeout)
-                checks.append((wall, peak, _outcome(code, out, err, args.timeout)))
+                wall, cpu, peak, code, out, err = _run(cmd, args.timeout)
+                checks.append((wall, cpu, peak, _outcome(code, out, err, args.timeout)))
             read_s = statistics.median(r[0] for r in reads)
             read_mb = max(r[1] for r in reads)
             check_s = statistics.median(c[0] for c in checks)
-            check_mb = max(c[1] for c in checks)
-            print(f"{n:9d} {size_mb:8.2f} {read_s:8.2f} {read_mb:8.0f} {check_s:8.1f} {check_mb:9.0f}  "
-                  f"{checks[-1][2]}", flush=True)
+            cpu_s = statistics.median(c[1] for c in checks)
+            check_mb = max(c[2] for c in checks)
+            print(f"{n:9d} {size_mb:8.2f} {read_s:8.2f} {read_mb:8.0f} {check_s:8.1f} {cpu_s:7.1f} "
+                  f"{check_mb:9.0f}  {checks[-1][3]}", flush=True)
             data.unlink()
     print("read: read_table alone, no row limit, in-process time; check: the whole "
-          "'vpaudit check' subprocess (imports and the JSON report included); MB: peak RSS")
+          "'vpaudit check' subprocess (imports and the JSON report included), wall and CPU time; "
+          "MB: peak RSS; load average at the end: " + " ".join(f"{x:.1f}" for x in os.getloadavg()))
     return 0
 
 

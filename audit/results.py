@@ -204,6 +204,8 @@ class AuditResult:
     notes: tuple[str, ...] = ()
     #: series prepared for plots (computed by the audit, only drawn by the report)
     plot_data: Mapping[str, Any] = field(default_factory=dict, compare=False, repr=False)
+    #: "check-id: ExceptionType: message" for each check an unexpected exception stopped
+    internal_errors: tuple[str, ...] = ()
 
     @property
     def verdict(self) -> str:
@@ -256,6 +258,7 @@ class AuditResult:
             "enthalpy": [e.to_dict() for e in self.enthalpy],
             "triple_point": None if self.triple_point is None else self.triple_point.to_dict(),
             "notes": list(self.notes),
+            "internal_errors": list(self.internal_errors),
         }
 
 

@@ -70,21 +70,24 @@ class ClapeyronLinearity(Check):
         "positive_dCp_k": Option(float, "ΔCp > 0 is flagged when ΔCp − k·u(ΔCp) > 0 (liquid branch)",
                                  "", 0, 10),
         "runs_alpha": Option(float, "significance level of the runs test on residual signs", "", 1e-9, 0.5),
-        "min_points": Option(int, "fewest points of a branch for these tests", "", 4, 1000),
+        "min_points": Option(int, "fewest distinct temperatures of a branch for these tests", "", 4, 1000),
     }
 
     def run(self, ctx):
-        from ..thermo.fitting import fit_equation
+        from ..thermo.fitting import distinct_temperatures, fit_equation
         from ..thermo.stats import curvature_test, residual_runs
 
         s = ctx.settings(self.id)
         per_branch, flags, warn_texts, metrics = [], [], [], {}
         for branch in ctx.branches():
             choice, data = recommended(ctx, branch)
-            if choice is None or data.n < max(s["min_points"], MIN_POINTS_FOR_FIT):
-                per_branch.append(f"{branch}: {data.n} points — too few to test")
+            w = None if choice is None else choice.point_weights
+            # the three-constant form needs four temperatures; replicates add none
+            n_T = 0 if w is None else distinct_temperatures(data.T[w > 0])
+            if choice is None or data.n < MIN_POINTS_FOR_FIT or n_T < max(s["min_points"], 4):
+                per_branch.append(f"{branch}: {data.n} points at {n_T} distinct temperatures used by the fit "
+                                  f"— too few to test (at least {max(s['min_points'], 4)} temperatures)")
                 continue
-            w = choice.point_weights
             f2 = fit_equation(data.T, data.P, "cc2", data.u_T, data.u_P, robust=False, point_weights=w)
             f3 = fit_equation(data.T, data.P, "cc3", data.u_T, data.u_P, robust=False, point_weights=w)
             curv = curvature_test(f2, f3)

@@ -50,7 +50,7 @@ class EnthalpyContinuity(Check):
         "G. C. Chow, Econometrica 28, 591 (1960), doi:10.2307/1910133 — test for a structural break.",
     )
     options = {
-        "window": Option(int, "points per local window", "", 3, 50),
+        "window": Option(int, "distinct temperatures per local window (replicates at them included)", "", 3, 50),
         "k": Option(float, "coverage factor on the local window's uncertainty", "", 0.5, 20),
         "tolerance_percent": Option(float, "smallest relative departure worth flagging", "%", 0, 100),
         "step_alpha": Option(float, "significance level (adjusted) of a step in ΔH(T)", "", 1e-12, 0.5),
@@ -59,22 +59,26 @@ class EnthalpyContinuity(Check):
 
     def run(self, ctx):
         from ..thermo.enthalpy import apparent_enthalpy, enthalpy_steps, local_enthalpy
+        from ..thermo.fitting import InsufficientData, distinct_temperatures
 
         s = ctx.settings(self.id)
         texts, flags, metrics, problems, failed = [], [], {}, [], False
         local_series = []
         for branch in ctx.branches():
             choice, data = recommended(ctx, branch)
-            if choice is None or data.n < s["window"] + 1:
-                texts.append(f"{branch}: {data.n} points — too few for windows of {s['window']}")
+            if choice is None:
+                texts.append(f"{branch}: {data.n} points — no fit to compare windows with")
                 continue
             used = choice.chosen.weights > 0
             T, P = data.T[used], data.P[used]
             uT = None if data.u_T is None else data.u_T[used]
             uP = None if data.u_P is None else data.u_P[used]
             rows = np.array(data.rows)[used]
-            if T.size < s["window"] + 1:
-                texts.append(f"{branch}: too few points left after outliers for windows")
+            # windows count distinct temperatures: replicates at one T carry no slope
+            n_T = distinct_temperatures(T)
+            if n_T < s["window"] + 1:
+                texts.append(f"{branch}: {T.size} points at {n_T} distinct temperatures used by the fit — too "
+                             f"few for windows of {s['window']} temperatures (at least {s['window'] + 1})")
                 continue
             loc = local_enthalpy(T, P, uT, uP, window=s["window"])
             smooth = np.atleast_1d(apparent_enthalpy(choice.chosen.equation, loc.T_center))
@@ -103,10 +107,10 @@ class EnthalpyContinuity(Check):
             for i in range(loc.dH.size):
                 local_series.append({"branch": branch, "T_K": float(loc.T_center[i]),
                                      "dH_J_per_mol": float(loc.dH[i]), "u_dH_J_per_mol": float(loc.u_dH[i])})
-            if T.size >= 8:
+            if n_T >= 8:
                 try:
                     step = enthalpy_steps(T, P, uT, uP, min_points_per_side=4)
-                except ValueError:
+                except InsufficientData:
                     step = None
                 if step is not None:
                     step_rel = 100 * abs(step.dH_step) / float(np.median(np.abs(smooth)))

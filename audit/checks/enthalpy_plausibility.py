@@ -136,20 +136,15 @@ class EnthalpyPlausibility(Check):
 
 def _temperature_at_pressure(eq, P, lo, hi):
     """T [K] where the curve reaches P, searched in [lo, hi]; None if it does not."""
-    from scipy.optimize import brentq
+    from ..thermo.roots import bracketed_root, sign_change_brackets
 
     lnP = math.log(P)
     lo = max(lo, 1.0)
     Tc = getattr(eq, "Tc", None)
     if isinstance(Tc, float) and Tc > 0:  # reduced forms are undefined at and above Tc
         hi = min(hi, Tc * (1 - 1e-9))
-    if hi <= lo:
-        return None
-    grid = np.linspace(lo, hi, 400)
-    with np.errstate(all="ignore"):
-        vals = eq.ln_p(grid) - lnP
-    ok = np.isfinite(vals)
-    for i in range(grid.size - 1):
-        if ok[i] and ok[i + 1] and np.sign(vals[i]) != np.sign(vals[i + 1]):
-            return float(brentq(lambda t: float(eq.ln_p(np.array([t]))[0]) - lnP, grid[i], grid[i + 1]))
+    for a, b in sign_change_brackets(lambda t: eq.ln_p(t) - lnP, lo, hi):
+        root = bracketed_root(lambda t: float(eq.ln_p(np.array([t]))[0]) - lnP, a, b)
+        if root is not None:
+            return root
     return None

@@ -53,6 +53,7 @@ import numpy as np
 from ..diagnose import diagnose_point
 from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
 from ..results import Cause, CheckResult, PointFlag
+from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
 from ..thermo.stats import mad_scale, repeated_median_line
 from ._util import rows_text, skipped, worst_status
@@ -130,7 +131,7 @@ def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
     the point is scored by that distance through the slope there:
     z = (d ln P/dT)(T*)·(T* − T)/σ(T*).
     """
-    from scipy.optimize import brentq
+    from ..thermo.roots import bracketed_root
 
     eq = fit.equation
     lo, hi = fit.T_range
@@ -144,7 +145,9 @@ def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
         y = math.log(P[i])
         if not ln_lo <= y <= ln_hi:
             continue
-        T_star = brentq(lambda t: float(eq.ln_p(np.array([t]))[0]) - y, lo, hi, xtol=1e-9)
+        T_star = bracketed_root(lambda t: float(eq.ln_p(np.array([t]))[0]) - y, lo, hi, xtol=1e-9)
+        if T_star is None:  # the curve does not reach that pressure smoothly: leave z as it is
+            continue
         slope = float(eq.dlnp_dT(np.array([T_star]))[0])
         sig = math.sqrt(rel[i] ** 2 + (slope * uT_eff[i]) ** 2) * scale
         z[i] = slope * (T_star - T[i]) / sig
@@ -423,7 +426,7 @@ class _BranchAnalysis:
                 curve_var = 0.0 if gd is None else float(np.median(gd.curve_variance))
                 med_out = float(np.median(r_out))
                 u = math.hypot(_median_u(r_out, float(np.median(sig[mine]))), math.sqrt(curve_var))
-                if abs(med_out) > ss["k"] * u and 100 * abs(math.expm1(med_out)) > ss["tolerance_percent"] \
+                if abs(med_out) > ss["k"] * u and abs(percent_from_log_ratio(med_out)) > ss["tolerance_percent"] \
                         and abs(med_out) / u > worst_score:
                     worst, worst_score = (name, u, r_out), abs(med_out) / u
             if worst is None:
@@ -640,7 +643,7 @@ class Outliers(Check):
             by_row = {p.row: p for p in pts}
             # in logs: a curve extrapolated to a misprinted temperature can overflow exp()
             with np.errstate(over="ignore", invalid="ignore"):
-                dev = 100 * np.expm1(np.log(a.P) - a.fit.equation.ln_p(a.T) - a.offsets)
+                dev = percent_from_log_ratio(np.log(a.P) - a.fit.equation.ln_p(a.T) - a.offsets)
             diagnoses = {}
             for i, p in enumerate(pts):
                 resid_sigma[p.row] = float(a.z[i])
@@ -672,7 +675,7 @@ class Outliers(Check):
                 "critical_suspect_sigma": a.crit_suspect, "iterations": a.iterations,
                 "converged": bool(a.converged), "uncertainties_given": a.u_given,
                 "scale": a.birge, "rms_percent": a.fit.rms_percent,
-                "biased_sources": {k: 100 * math.expm1(v.offset_lnP) for k, v in a.biased.items()},
+                "biased_sources": {k: percent_from_log_ratio(v.offset_lnP) for k, v in a.biased.items()},
                 "max_cooks_distance": float(np.max(a.influence.cooks_distance)),
             }
             ctx.shared.setdefault("outliers_biased_sources", {})[branch] = sorted(a.biased)

@@ -479,38 +479,63 @@ class LocalEnthalpy:
 def local_enthalpy(T, P, u_T=None, u_P=None, window: int = 5) -> LocalEnthalpy:
     """Apparent enthalpy from local two-parameter fits over sliding windows.
 
-    Each window of `window` points neighbouring in T is fitted with
-    ln P = a + b/T by weighted least squares with the effective variance
-    (u_T counted through the local slope); without uncertainties the
-    window's own residual scale sets u.
+    Each window spans `window` neighbouring *distinct* temperatures, with
+    every replicate measured at them, and is fitted with ln P = a + b/T by
+    weighted least squares with the effective variance (u_T counted through
+    the local slope); without uncertainties the window's own residual scale
+    sets u.  Counting distinct temperatures keeps replicate measurements
+    (several points at one T, common in published data) from forming a
+    window that holds no slope information.
+
+    Parameters
+    ----------
+    T, P : array_like
+        Temperatures [K] and pressures [Pa].
+    u_T, u_P : array_like, optional
+        Standard uncertainties [K], [Pa].
+    window : int
+        Distinct temperatures per window (at least 3).
+
+    Returns
+    -------
+    LocalEnthalpy
+
+    Raises
+    ------
+    InsufficientData
+        Fewer distinct temperatures than `window`.
     """
-    from .fitting import _as_data, _as_uncertainty, fit_equation
+    from .fitting import InsufficientData, _as_data, _as_uncertainty, fit_equation
 
     T, P = _as_data(T, P)
     n = T.size
     window = int(window)
     if window < 3:
-        raise ValueError("local windows need at least 3 points")
-    if n < window:
-        raise ValueError(f"need at least {window} points for windows of {window}")
+        raise ValueError("local windows need at least 3 temperatures")
     order = np.argsort(T, kind="stable")
+    Ts, Ps = T[order], P[order]
+    # index of the first point of each distinct temperature, and the end
+    firsts = np.concatenate([np.flatnonzero(np.diff(Ts, prepend=-np.inf) > 0), [n]])
+    n_T = firsts.size - 1
+    if n_T < window:
+        raise InsufficientData(f"windows of {window} temperatures need at least {window} distinct "
+                               f"temperatures; got {n} points at {n_T}")
     given = u_T is not None or u_P is not None
     uT = _as_uncertainty(u_T, n, "u_T")[order]
     uP = _as_uncertainty(u_P, n, "u_P")[order]
-    Ts, Ps = T[order], P[order]
     Tc, dH, u = [], [], []
-    starts = np.arange(0, n - window + 1)
-    for s in starts:
-        sl = slice(s, s + window)
-        if np.ptp(Ts[sl]) == 0:
-            raise ValueError("a window has all points at the same temperature")
+    starts = firsts[:n_T - window + 1]
+    stops = firsts[window:]
+    for a, b in zip(starts, stops):
+        sl = slice(int(a), int(b))
         fit = fit_equation(Ts[sl], Ps[sl], "cc2", uT[sl] if given else None, uP[sl] if given else None,
                            robust=False)
         Tc.append(fit.T_ref)
         dH.append(-R * fit.params[1])
         u.append(R * fit.standard_errors[1])
     return LocalEnthalpy(T_center=np.array(Tc), dH=np.array(dH), u_dH=np.array(u),
-                         start=starts, stop=starts + window, order=order, scale_estimated=not given)
+                         start=np.asarray(starts, dtype=int), stop=np.asarray(stops, dtype=int), order=order,
+                         scale_estimated=not given)
 
 
 @dataclass(frozen=True)
@@ -553,15 +578,22 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> En
     side is tried; the largest F statistic wins.  The σ of each point
     follows the effective variance with the slope of the base fit.
     """
-    from .fitting import _as_data, _as_uncertainty, _weighted_lstsq, fit_equation
+    from .fitting import InsufficientData, _as_data, _as_uncertainty, _weighted_lstsq, fit_equation
 
     T, P = _as_data(T, P)
     n = T.size
     m = int(min_points_per_side)
-    if m < 2 or n < 2 * m or n < 6:
-        raise ValueError(f"need at least {max(2 * m, 6)} points to look for a step")
+    if m < 2:
+        raise ValueError("min_points_per_side must be at least 2")
     order = np.argsort(T, kind="stable")
     Ts, y = T[order], np.log(P[order])
+    # distinct temperatures up to and including each sorted point: a side made of
+    # replicates at one temperature has no slope of its own
+    distinct_upto = np.cumsum(np.diff(Ts, prepend=-np.inf) > 0)
+    n_T = int(distinct_upto[-1])
+    if n_T < max(2 * m, 6):
+        raise InsufficientData(f"need at least {max(2 * m, 6)} distinct temperatures to look for a step; "
+                               f"got {n} points at {n_T}")
     given = u_T is not None or u_P is not None
     base = fit_equation(Ts, np.exp(y), "cc3", _as_uncertainty(u_T, n, "u_T")[order] if given else None,
                         _as_uncertainty(u_P, n, "u_P")[order] if given else None, robust=False)
@@ -570,8 +602,9 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> En
     rss0 = base.chi2
     best = None
     tested = 0
-    for k in range(m, n - m + 1):
-        if Ts[k] == Ts[k - 1]:
+    for k in range(1, n):
+        below = int(distinct_upto[k - 1])
+        if Ts[k] == Ts[k - 1] or below < m or n_T - below < m:
             continue
         inv_k = 0.5 * (1.0 / Ts[k - 1] + 1.0 / Ts[k])
         hinge = np.minimum(0.0, 1.0 / Ts - inv_k)

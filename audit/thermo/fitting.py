@@ -42,9 +42,13 @@ import numpy as np
 from scipy import optimize
 
 from .enthalpy import apparent_enthalpy, heat_capacity_change
-from .equations import Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner, get_form
+from .ratios import percent_from_log_ratio
+from .equations import (Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner,
+                        _pressure_ln_factor, get_form)
 
 __all__ = [
+    "InsufficientData",
+    "distinct_temperatures",
     "VaporPressureFit",
     "fit_equation",
     "CandidateAssessment",
@@ -197,6 +201,27 @@ class VaporPressureFit:
 
 
 # -- input handling -------------------------------------------------------------------
+class InsufficientData(ValueError):
+    """The data cannot determine the fit asked for (too few points or distinct
+    temperatures, or parameters not separable).  A property of the data, not
+    a bug: callers skip or degrade the analysis and say why, with the counts."""
+
+
+def distinct_temperatures(T) -> int:
+    """Number of distinct temperatures among `T` [K].
+
+    Replicate measurements at one temperature add points but no information
+    on the shape of ln P(T): a curve with k parameters needs k distinct
+    temperatures, however many points there are.
+
+    Examples
+    --------
+    >>> distinct_temperatures([300.0, 300.0, 300.0, 310.0])
+    2
+    """
+    return int(np.unique(np.asarray(T, dtype=float)).size)
+
+
 def _as_data(T, P):
     T = np.asarray(T, dtype=float).ravel()
     P = np.asarray(P, dtype=float).ravel()
@@ -265,7 +290,7 @@ def _weighted_lstsq(X, y, w):
     norms[norms == 0] = 1.0
     U, s, Vt = np.linalg.svd(A / norms, full_matrices=False)
     if s[-1] <= s[0] * 1e-14:
-        raise ValueError("the fit is ill-posed (parameters not determined by the data)")
+        raise InsufficientData("the fit is ill-posed (parameters not determined by the data)")
     b = (Vt.T @ ((U.T @ (y * sw)) / s)) / norms
     cov = (Vt.T / s ** 2) @ Vt
     cov = cov / np.outer(norms, norms)
@@ -298,32 +323,104 @@ def _antoine_start(T, y, w, fixed) -> Antoine:
     return start.converted(fixed["base"], fixed["P_unit"], fixed["T_unit"])
 
 
+class _AntoineProfile:
+    """Weighted least squares of Antoine constants with C held fixed.
+
+    With C fixed, ln P = k·A − k·B/(T_u + C) + ln(unit) is a straight line in
+    z = −1/(T_u + C), so (A, B) and the weighted sum of squares have a closed
+    form (centred normal equations; stable because z is centred).
+    """
+
+    def __init__(self, eq: Antoine, T, y, w):
+        _, k, _, x = eq._parts(T)
+        self.k = k
+        self.Tu = x - eq.C
+        self.yk = (y - _pressure_ln_factor(eq.P_unit)) / k
+        self.w = w
+        self.W = float(np.sum(w))
+
+    def solve(self, C: float) -> tuple[float, float, float]:
+        """(weighted sum of squares in ln P, A, B) for this C."""
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            z = -1.0 / (self.Tu + C)
+            zbar = float(np.sum(self.w * z)) / self.W
+            ybar = float(np.sum(self.w * self.yk)) / self.W
+            dz, dy = z - zbar, self.yk - ybar
+            szz = float(np.sum(self.w * dz * dz))
+            szy = float(np.sum(self.w * dz * dy))
+            syy = float(np.sum(self.w * dy * dy))
+        if not (szz > 0 and math.isfinite(szz) and math.isfinite(szy)):
+            return math.inf, math.nan, math.nan
+        B = szy / szz
+        return max(syy - szy * B, 0.0) * self.k ** 2, ybar - B * zbar, B
+
+
+def _antoine_profile_C(eq: Antoine, T, y, w) -> tuple[float, float, float]:
+    """(A, B, C) minimising the weighted sum of squares, C searched alone.
+
+    C is searched as d = C + min(T_u) > 0 (the distance of the pole below the
+    coldest weighted point, in the constants' temperature unit), in ln d,
+    between 1e-6 of the temperature span and 1e3 times the temperature
+    scale.  From a C already on the right side of the pole (the reweighting
+    loop's previous solution) Brent's bounded method [1]_ searches a factor e
+    either way, widening while the minimum sits on the edge; otherwise a log
+    grid of 61 values picks the cell Brent then refines.
+
+    References
+    ----------
+    .. [1] R. P. Brent, *Algorithms for Minimization without Derivatives*,
+       Prentice-Hall (1973), ch. 5.
+    """
+    prof = _AntoineProfile(eq, T, y, w)
+    Tu = prof.Tu[w > 0]
+    t_min = float(np.min(Tu))
+    span = max(1.0, float(np.ptp(Tu)))
+    lo, hi = math.log(1e-6 * span), math.log(1e3 * max(span, abs(t_min)))
+
+    def sse(t):
+        return prof.solve(math.exp(t) - t_min)[0]
+
+    def refine(a, b):
+        r = optimize.minimize_scalar(sse, bounds=(a, b), method="bounded", options={"xatol": 1e-10})
+        return float(r.x), float(r.fun)
+
+    d_now = eq.C + t_min
+    best_t = None
+    if d_now > 0 and lo < math.log(d_now) < hi:
+        a, b = max(lo, math.log(d_now) - 1.0), min(hi, math.log(d_now) + 1.0)
+        for _ in range(12):
+            t, f = refine(a, b)
+            edge = min(t - a, b - t) < 1e-3 * (b - a)
+            if not edge or (a <= lo and t - a < b - t) or (b >= hi and b - t < t - a):
+                best_t = t if math.isfinite(f) else None
+                break
+            a, b = (max(lo, a - 2.0), t + 0.1) if t - a < b - t else (t - 0.1, min(hi, b + 2.0))
+    if best_t is None:
+        grid = np.linspace(lo, hi, 61)
+        vals = np.array([sse(t) for t in grid])
+        i = int(np.argmin(vals))
+        t, f = refine(grid[max(i - 1, 0)], grid[min(i + 1, grid.size - 1)])
+        best_t = t if f <= vals[i] else float(grid[i])
+    C = math.exp(best_t) - t_min
+    _, A, B = prof.solve(C)
+    return A, B, C
+
+
 def _solve(cls, template, T, y, w, current):
     """One weighted solve; returns (equation, unscaled covariance)."""
     if cls.linear:
         X = template.design_matrix(T)
         b, cov = _weighted_lstsq(X, y - template.design_offset(T), w)
         return cls.from_coefficients(b, **template.fixed_parameters()), cov
-    # Antoine: nonlinear; keep T + C on the positive side of the pole.
-    # the pole bound comes from the points that count: a zero-weight point far
-    # outside the range (a °C value in a K column) must not pin C and stall the solver
-    Tu = (current._parts(T)[3] - current.C)[w > 0]  # T in the constants' unit
-    lo = np.array([-np.inf, -np.inf, -np.min(Tu) + 1e-6 * max(1.0, np.ptp(Tu))])
-    sw = np.sqrt(w)
-
-    def resid(x):
-        return sw * (y - current.with_params(x).ln_p(T))
-
-    def jac(x):
-        return -sw[:, None] * current.with_params(x).jacobian_ln_p(T)
-
-    x0 = current.params.copy()
-    x0[2] = max(x0[2], lo[2] + 1e-3 * max(1.0, abs(lo[2])))
-    sol = optimize.least_squares(resid, x0, jac=jac, bounds=(lo, np.full(3, np.inf)),
-                                 method="trf", x_scale="jac", xtol=1e-13, ftol=1e-13, gtol=1e-13,
-                                 max_nfev=300)
-    eq = current.with_params(sol.x)
-    J = eq.jacobian_ln_p(T) * sw[:, None]
+    # Antoine is linear in (A, B) once C is fixed: minimise the profiled weighted sum of
+    # squares over C alone (variable projection), on the positive side of the pole.  A
+    # one-dimensional search with a closed-form inner solve costs milliseconds where a
+    # three-parameter trust-region solve near the pole took a tenth of a second per call.
+    sol_x = np.array(_antoine_profile_C(current, T, y, w))
+    if not np.all(np.isfinite(sol_x)):
+        raise InsufficientData("the Antoine constants are not determined by the data")
+    eq = current.with_params(sol_x)
+    J = eq.jacobian_ln_p(T) * np.sqrt(w)[:, None]
     norms = np.linalg.norm(J, axis=0)
     norms[norms == 0] = 1.0
     _, s, Vt = np.linalg.svd(J / norms, full_matrices=False)
@@ -384,8 +481,10 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     active = prior > 0
     fixed = _default_fixed(cls, T[active] if active.any() else T, fixed)
     k = _n_params(cls, fixed)
-    if active.sum() <= k:
-        raise ValueError(f"{cls.__name__} has {k} parameters: needs more than {k} points, got {int(active.sum())}")
+    n_T = distinct_temperatures(T[active])
+    if active.sum() <= k or n_T < k:
+        raise InsufficientData(f"{cls.__name__} has {k} parameters: needs more than {k} points at {k} or more "
+                               f"distinct temperatures, got {int(active.sum())} points at {n_T}")
     if given and np.any((uP == 0) & (uT == 0) & active):
         raise ValueError("a point has zero uncertainty in both T and P")
     if robust is True:
@@ -430,7 +529,8 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
                 robust_w = _robust_weights(z / mad, "huber")
         elif phase == "tukey" and mad > 0:
             robust_w = _robust_weights(z_stud / mad, "tukey")
-            if np.sum(active & (robust_w > 0)) <= k:
+            kept = active & (robust_w > 0)
+            if kept.sum() <= k or distinct_temperatures(T[kept]) < k:
                 robust_w = _robust_weights(z / mad, "huber")  # too few left: stay with Huber
         w = prior * robust_w / sigma ** 2
         eq, cov = _solve(cls, template, T, y, w, eq)
@@ -458,8 +558,7 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     scale = math.sqrt(chi2 / dof) if dof > 0 else float("nan")
     covariance = cov * scale ** 2 if not given else cov
     se = np.sqrt(np.diag(covariance))
-    with np.errstate(over="ignore"):  # a gross error kept in a non-robust fit: inf, not a warning
-        rel = np.expm1(resid[used]) * 100.0  # (P - Pfit)/Pfit in %
+    rel = percent_from_log_ratio(resid[used])  # (P - Pfit)/Pfit; a gross error kept: inf
     rms = float(np.sqrt(np.mean(rel ** 2)))
     rss = max(chi2, 1e-300)
     m = n_used
@@ -595,10 +694,14 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
             raise ValueError(f"unknown candidate {name!r}; known: {sorted(CANDIDATES)}")
     if "clausius-clapeyron-2" not in names:
         names.insert(0, "clausius-clapeyron-2")
-    max_k = max(2, int(math.floor(n * max_params_per_point)))
+    # replicates add points but not shape: the parameters are bounded by distinct temperatures
+    n_T = distinct_temperatures(T)
+    if n_T < 2:
+        raise InsufficientData(f"{n} points at {n_T} temperature: no curve can be fitted")
+    max_k = max(2, int(math.floor(n_T * max_params_per_point)))
 
     if robust:
-        screen_form = "cc3" if max_k >= 3 and n >= 6 else "cc2"
+        screen_form = "cc3" if max_k >= 3 and n_T >= 6 else "cc2"
         screen = fit_equation(T, P, screen_form, u_T, u_P, robust=True)
         pw = np.array(screen.weights)
     else:
@@ -612,7 +715,7 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
         reasons: list[str] = []
         if k > max_k:
             assessed.append(CandidateAssessment(name, k, None, math.inf, math.inf, False,
-                                                (f"{k} parameters is too many for {n} points",)))
+                                                (f"{k} parameters is too many for {n} points at {n_T} temperatures",)))
             continue
         if cls is Wagner:
             if Tc is None or Pc is None:

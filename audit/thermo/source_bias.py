@@ -49,6 +49,8 @@ from typing import Sequence
 
 import numpy as np
 
+from .ratios import percent_from_log_ratio, u_percent_from_log_ratio
+
 __all__ = ["SourceOffset", "SourceBiasAnalysis", "gls_one_parameter", "source_offsets"]
 
 
@@ -117,11 +119,11 @@ class SourceOffset:
     @property
     def bias_percent(self) -> float:
         """100·(exp(b) − 1): the source's pressures relative to the others' [%]."""
-        return 100.0 * math.expm1(self.offset_lnP)
+        return percent_from_log_ratio(self.offset_lnP)
 
     @property
     def u_bias_percent(self) -> float:
-        return 100.0 * math.exp(self.offset_lnP) * self.u_offset_lnP
+        return u_percent_from_log_ratio(self.offset_lnP, self.u_offset_lnP)
 
     @property
     def delta_chi2(self) -> float:

@@ -176,15 +176,16 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
         p2, p1 = float(2 * stats.norm.sf(abs(z))), float(stats.norm.cdf(z))
     else:  # all residuals of one sign: a single run, maximal structure
         mu, z, p2, p1 = 1.0, math.nan, math.nan, math.nan
-    bounds = np.concatenate([[0], changes, [s.size]])
-    lengths = np.diff(bounds)
-    j = int(np.argmax(lengths)) if lengths.size else 0
-    start = int(nonzero[bounds[j]]) if lengths.size else 0
-    stop = int(nonzero[bounds[j + 1] - 1] + 1) if lengths.size else 0
+    if n:
+        bounds = np.concatenate([[0], changes, [s.size]])
+        lengths = np.diff(bounds)
+        j = int(np.argmax(lengths))
+        longest, start, stop = int(lengths[j]), int(nonzero[bounds[j]]), int(nonzero[bounds[j + 1] - 1] + 1)
+    else:  # every residual exactly zero (a curve through every point): no run at all
+        longest, start, stop = 0, 0, 0
     return RunsTest(n_pos=n_pos, n_neg=n_neg, runs=runs, expected_runs=float(mu), z=float(z), p_value=p2,
-                    p_value_too_few=p1, durbin_watson=float(durbin_watson(r)),
-                    longest_run=int(lengths[j]) if lengths.size else 0,
-                    longest_run_start=start, longest_run_stop=stop)
+                    p_value_too_few=p1, durbin_watson=float(durbin_watson(r)) if np.any(r) else math.nan,
+                    longest_run=longest, longest_run_start=start, longest_run_stop=stop)
 
 
 #: MAD of a standard normal variable, Φ⁻¹(3/4); MAD/this estimates σ

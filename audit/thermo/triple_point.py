@@ -20,10 +20,11 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import optimize, stats
+from scipy import stats
 
 from .constants import R
 from .enthalpy import heat_capacity_change
+from .roots import bracketed_root, sign_change_brackets
 
 __all__ = ["TriplePointEstimate", "intersect_branches", "SlopeBreak", "find_slope_break"]
 
@@ -149,16 +150,13 @@ def intersect_branches(fit_solid, fit_liquid, T_guess: float | None = None,
     def f(T):
         return eq_s.ln_p(T) - eq_l.ln_p(T)
 
-    grid = np.linspace(lo, hi, 2001)
-    with np.errstate(all="ignore"):
-        vals = f(grid)
-    ok = np.isfinite(vals)
-    sign = np.sign(vals)
-    idx = [i for i in range(grid.size - 1) if ok[i] and ok[i + 1] and sign[i] != sign[i + 1]]
-    if not idx:
+    brackets = sign_change_brackets(f, lo, hi, n_grid=2001)
+    roots = [r for r in (bracketed_root(lambda t: float(f(np.array([t]))[0]), a, b, xtol=1e-13)
+                         for a, b in brackets) if r is not None]
+    if not roots:
         return _nan_estimate(f"the curves do not cross between {lo:.5g} and {hi:.5g} K", dzs, dzl)
-    i = min(idx, key=lambda j: abs(0.5 * (grid[j] + grid[j + 1]) - T_guess))
-    T0 = float(optimize.brentq(f, grid[i], grid[i + 1], xtol=1e-13, rtol=1e-15))
+    T0 = min(roots, key=lambda r: abs(r - T_guess))
+    idx = roots
     message = "" if len(idx) == 1 else f"{len(idx)} crossings found; the one nearest {T_guess:.5g} K taken"
 
     Ta = np.array([T0])

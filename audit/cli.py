@@ -7,6 +7,8 @@
 
 Exit codes: 0 verdict pass or warn; 1 fail (with ``--strict``, warn too);
 2 the input or the command line cannot be used (one message, no traceback);
+3 a bug in vpaudit: a check stopped on an unexpected exception (it is skipped
+with "internal error: …", the other checks ran and every output is written);
 130 interrupted (Ctrl-C, SIGINT); 143 stopped by SIGTERM.  An interrupted run
 leaves no output file half-written: the outputs appear together or not at all.
 """
@@ -129,6 +131,13 @@ def cmd_check(args) -> int:
         print(line)
     for fmt, path in written.items():
         print(f"  {fmt:4s} {path}")
+    for error in result.internal_errors:
+        check, _, what = error.partition(": ")
+        print(f"vpaudit: internal error in '{check}': {what} — a bug in vpaudit, not in your data; the other "
+              "checks ran and the outputs are written; please report it with the input file "
+              "(VPAUDIT_DEBUG=1 shows the traceback)", file=sys.stderr)
+    if result.internal_errors:
+        return EXIT_INTERNAL
     return _exit_code(result.verdict, args.strict)
 
 

@@ -45,7 +45,7 @@ class BranchSplit(Check):
     )
     options = {
         "alpha": Option(float, "significance level (adjusted) of the slope break", "", 1e-15, 0.5),
-        "min_points_per_side": Option(int, "fewest points on each side of a break", "", 3, 1000),
+        "min_points_per_side": Option(int, "fewest distinct temperatures on each side of a break", "", 3, 1000),
         "min_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH taken as a "
                                "solid/liquid break", "", 1.0, 3.0),
     }
@@ -122,7 +122,7 @@ def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, floa
     """
     from scipy import stats
 
-    from ..thermo.fitting import fit_equation
+    from ..thermo.fitting import distinct_temperatures, fit_equation
 
     def rss(fit):
         return float(np.sum(fit.weights * fit.residuals_lnP ** 2))
@@ -130,7 +130,7 @@ def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, floa
     n = T.size
     one = fit_equation(T, P, "cc3", robust="huber")
     lo = fit_equation(T[:split], P[:split], "cc2", robust="huber")
-    hi = fit_equation(T[split:], P[split:], "cc3" if n - split >= 6 else "cc2", robust="huber")
+    hi = fit_equation(T[split:], P[split:], _side_form(distinct_temperatures(T[split:])), robust="huber")
     k_two = 2 + hi.n_params
     dof = n - k_two
     if dof <= 0:
@@ -142,6 +142,11 @@ def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, floa
     F = ((rss(one) - rss2) / extra) / (rss2 / dof)
     p = float(stats.f.sf(F, extra, dof)) if F > 0 else 1.0
     return float(F), min(1.0, p * max(n_tested, 1))
+
+
+def _side_form(n_temperatures: int) -> str:
+    """The constant-ΔCp form for a side with six temperatures or more, else a line."""
+    return "cc3" if n_temperatures >= 6 else "cc2"
 
 
 def _refine_split(T, P, split: int, min_side: int, max_rounds: int = 5) -> int:
@@ -158,14 +163,24 @@ def _refine_split(T, P, split: int, min_side: int, max_rounds: int = 5) -> int:
 
     y = np.log(P)
     n = T.size
+    # sides are counted in distinct temperatures (T is sorted): replicates add no shape
+    distinct_upto = np.cumsum(np.diff(T, prepend=-np.inf) > 0)
+    n_T = int(distinct_upto[-1])
+
+    def side_temperatures(k):
+        below = int(distinct_upto[k - 1])
+        return below, n_T - below
+
     for _ in range(max_rounds):
-        lo_form = "cc3" if split >= 6 else "cc2"
-        hi_form = "cc3" if n - split >= 6 else "cc2"
-        f_lo = fit_equation(T[:split], P[:split], lo_form, robust="huber")
-        f_hi = fit_equation(T[split:], P[split:], hi_form, robust="huber")
+        n_lo, n_hi = side_temperatures(split)
+        f_lo = fit_equation(T[:split], P[:split], _side_form(n_lo), robust="huber")
+        f_hi = fit_equation(T[split:], P[split:], _side_form(n_hi), robust="huber")
         r_lo = (y - f_lo.equation.ln_p(T)) ** 2
         r_hi = (y - f_hi.equation.ln_p(T)) ** 2
-        candidates = range(max(min_side, split - 3), min(n - min_side, split + 3) + 1)
+        candidates = [k for k in range(max(1, split - 3), min(n - 1, split + 3) + 1)
+                      if T[k] != T[k - 1] and min(side_temperatures(k)) >= min_side]
+        if not candidates:
+            break
         best = min(candidates, key=lambda k: r_lo[:k].sum() + r_hi[k:].sum())
         if best == split:
             break

@@ -268,17 +268,21 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     / (RSS₂/(n - 4)).  Because the best split is picked, the nominal p-value
     is optimistic; ``p_value_adjusted`` is conservative.
     """
-    from .fitting import _as_data, _as_uncertainty
+    from .fitting import InsufficientData, _as_data, _as_uncertainty
 
     T, P = _as_data(T, P)
     n = T.size
     m = int(min_points_per_side)
     if m < 3:
         raise ValueError("min_points_per_side must be at least 3")
-    if n < 2 * m + 1:
-        raise ValueError(f"need at least {2 * m + 1} points to look for a slope break")
     order = np.argsort(T, kind="stable")
     Ts, x, y = T[order], 1.0 / T[order], np.log(P[order])
+    # each side needs m distinct temperatures: replicates at one T give a side no slope
+    distinct_upto = np.cumsum(np.diff(Ts, prepend=-np.inf) > 0)
+    n_T = int(distinct_upto[-1])
+    if n_T < 2 * m + 1:
+        raise InsufficientData(f"need at least {2 * m + 1} distinct temperatures to look for a slope break; "
+                               f"got {n} points at {n_T}")
     if u_T is not None or u_P is not None:
         uT = _as_uncertainty(u_T, n, "u_T")[order]
         uP = _as_uncertainty(u_P, n, "u_P")[order]
@@ -293,8 +297,9 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     rss1 = _line(x, y, w)[2]
     best = None
     tested = 0
-    for k in range(m, n - m + 1):
-        if Ts[k] == Ts[k - 1] or np.ptp(x[:k]) == 0 or np.ptp(x[k:]) == 0:
+    for k in range(1, n):
+        below = int(distinct_upto[k - 1])
+        if Ts[k] == Ts[k - 1] or below < m or n_T - below < m:
             continue
         a1, b1, r1 = _line(x[:k], y[:k], w[:k])
         a2, b2, r2 = _line(x[k:], y[k:], w[k:])

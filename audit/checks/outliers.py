@@ -284,6 +284,7 @@ class _BranchAnalysis:
                                robust=False, **fixed)
             r = np.log(P) - fit.equation.ln_p(T)
             sigma = np.sqrt(rel ** 2 + (fit.equation.dlnp_dT(T) * uT_eff) ** 2)
+            floor_sig = np.sqrt(floorP ** 2 + (fit.equation.dlnp_dT(T) * floorT) ** 2)
             if not u_given:
                 scale_pt = self._scales(r - offsets, in_fit, src, s)
             J = fit.equation.jacobian_ln_p(T)
@@ -307,6 +308,12 @@ class _BranchAnalysis:
                 birge = inf.scale
                 z = np.array(inf.studentized)
                 crit_dof = dof
+                # printed precision is a floor no estimated scale lowers: with a scale below 1
+                # (a series that scatters less than its rounding) a point is never judged by a
+                # σ smaller than the half-digit of its own printed values
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    z_floor = np.where(floor_sig > 0, inf.studentized_known_scale * sigma / floor_sig, np.inf)
+                z = np.where(np.abs(z_floor) < np.abs(z), z_floor, z)
             # biased sources: score their points after removing the source offset
             if multi:
                 slope = fit.equation.dlnp_dT(T)
@@ -349,7 +356,7 @@ class _BranchAnalysis:
         self.influence = inf
         self.z = z
         self.sigma_raw = sigma
-        self.sigma = sigma * max(birge, 1.0) if u_given else sigma * birge
+        self.sigma = sigma * max(birge, 1.0) if u_given else np.maximum(sigma * birge, floor_sig)
         self.birge = birge
         self.crit_reject, self.crit_suspect = crit_reject, crit_suspect
         self.reject = np.abs(z) > crit_reject

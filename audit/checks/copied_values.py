@@ -85,8 +85,9 @@ class PrintedValue:
     step : Decimal or None
         One unit of the last printed digit [column unit].
     digits : int
-        Significant digits as printed (an integer's trailing zeros count, as
-        in :mod:`audit.thermo.rounding`).
+        Significant digits as printed.  Unlike :mod:`audit.thermo.rounding`
+        (where a larger uncertainty is the cautious reading), an integer's
+        trailing zeros are not counted: ``1000`` is one digit, step 1000.
     resolution_lnP : float
         ``step`` as a difference in ln P [-] (meaningful for pressures).
     """
@@ -118,8 +119,13 @@ def printed_value(text: str, P_text_unit: str = "Pa") -> PrintedValue:
         return _UNREAD
     if not value.is_finite() or value == 0:
         return _UNREAD
-    step = Decimal(1).scaleb(value.as_tuple().exponent)
-    digits = max(int(value.adjusted() - value.as_tuple().exponent + 1), 0)
+    exponent = value.as_tuple().exponent
+    if exponent == 0:
+        # an integer's trailing zeros may be padding ("1000" for a value known to one digit): for the
+        # chance of a coincidence the coarser reading is the cautious one
+        exponent = value.normalize().as_tuple().exponent
+    step = Decimal(1).scaleb(exponent)
+    digits = max(int(value.adjusted() - exponent + 1), 0)
     base = log_pressure_base(P_text_unit)
     res = math.log(base) * float(step) if base is not None else float(step / abs(value))
     return PrintedValue(value, step, digits, res)
@@ -137,13 +143,8 @@ def same_printed(a: PrintedValue, b: PrintedValue) -> bool:
     return abs(a.value - b.value) <= max(a.step, b.step) / 2
 
 
-def _maximal_runs(xs: list[PrintedValue], ys: list[PrintedValue], min_len: int,
-                  min_digits: int = 0) -> list[tuple[int, int, int]]:
-    """Maximal runs (start in xs, start in ys, length) of matching cells at consecutive positions.
-
-    Cells match when :func:`same_printed` holds and the coarser carries at
-    least `min_digits` significant digits.
-    """
+def _maximal_runs(xs: list[PrintedValue], ys: list[PrintedValue], min_len: int) -> list[tuple[int, int, int]]:
+    """Maximal runs (start in xs, start in ys, length) of cells that :func:`same_printed` matches."""
     ys_sorted = sorted((y.value, j) for j, y in enumerate(ys) if y.value is not None)
     values = [v for v, _ in ys_sorted]
     widest = max((ys[j].step for _, j in ys_sorted), default=Decimal(0))
@@ -155,11 +156,30 @@ def _maximal_runs(xs: list[PrintedValue], ys: list[PrintedValue], min_len: int,
         for k in range(bisect_left(values, x.value - reach), bisect_right(values, x.value + reach)):
             j = ys_sorted[k][1]
             y = ys[j]
-            coarse = x if x.step >= y.step else y
-            if coarse.digits >= min_digits and same_printed(x, y):
+            if same_printed(x, y):
                 length[(i, j)] = length.get((i - 1, j - 1), 0) + 1
     return [(i - n + 1, j - n + 1, n) for (i, j), n in length.items()
             if n >= min_len and (i + 1, j + 1) not in length]
+
+
+def _clapeyron_slope(points: list[Point]) -> float:
+    """B [K] of ln P = A − B/T fitted by least squares to all the points; 0 when undetermined.
+
+    Used only to say how far apart two independent pressures at temperatures
+    T_a and T_b should be, B·(1/T_a − 1/T_b) in ln P; 0 (no expected
+    difference) is the lenient choice when the data cannot tell.
+    """
+    x = [1.0 / p.T_K for p in points]
+    y = [math.log(p.P_Pa) for p in points]
+    n = len(x)
+    if n < 2:
+        return 0.0
+    mx, my = sum(x) / n, sum(y) / n
+    sxx = sum((v - mx) ** 2 for v in x)
+    if not sxx > 0:
+        return 0.0
+    B = -sum((u - mx) * (v - my) for u, v in zip(x, y)) / sxx
+    return B if math.isfinite(B) and B > 0 else 0.0
 
 
 def _median(x: list[float]) -> float:
@@ -249,10 +269,10 @@ class CopiedValues(Check):
     the first rounded), as are ``300.15`` and ``300.2`` — a copy re-rounded to
     fewer digits is still a copy.
 
-    A run is reported only when its pressures carry at least
-    ``min_significant_digits`` digits and when so close a match between two
-    independent sources would have a probability below ``alpha`` (see
-    Method).  Identical round temperatures on their own (300, 310, 320 K …)
+    A run is reported only when at least ``min_run`` of its pressures carry
+    ``min_significant_digits`` digits or more (coarser rows neither count nor
+    break the run) and when so close a match between two independent
+    sources would have a probability below ``alpha`` (see Method).  Identical round temperatures on their own (300, 310, 320 K …)
     are never a finding, nor are values repeated inside one source
     (replicates).
 
@@ -270,8 +290,9 @@ class CopiedValues(Check):
     expected difference μ ± σ of the two values in ln P, two values fall into
     the same rounding cell with probability E[max(0, 1 − |d|/δ)],
     d ~ N(μ, σ²) (closed form in :func:`coincidence_probability`).  μ is the
-    pressure change the temperature shift implies (dln P/dT from the first
-    source's neighbouring rows × shift; zero at identical temperatures); σ is
+    pressure change the temperature shift implies, B·(1/T_a − 1/T_b), with
+    B of ln P = A − B/T fitted to all the sources' points (zero at identical
+    temperatures, and when the data do not determine B); σ is
     ``independent_scatter_percent``, or the combined stated u(P) of the two
     rows when smaller — so a pair is called copied only if even the closest
     agreement independent sources plausibly reach makes the match improbable.
@@ -338,17 +359,22 @@ class CopiedValues(Check):
         sizes = [len(series[n]) for n in names]
         # alignments compared: n_a·n_b start pairs per source pair, for each of the two kinds of match
         n_alignments = max(1, sum(sizes) ** 2 - sum(x * x for x in sizes))
+        B = _clapeyron_slope([p for n in names for p in series[n]])
 
         found: list[_Copy] = []
         for ia, a in enumerate(names):
             for b in names[ia + 1:]:
                 pa, pb = series[a], series[b]
                 same_p: set[tuple[int, int]] = set()
-                for i0, j0, n in _maximal_runs(pkeys[a], pkeys[b], min_run, min_digits):
+                for i0, j0, n in _maximal_runs(pkeys[a], pkeys[b], min_run):
                     pairs = [(i0 + k, j0 + k) for k in range(n)]
                     same_p.update(pairs)
-                    chance = _family_probability(self._chance_same_p(pa, pb, pkeys[a], pkeys[b], pairs, scatter),
-                                                 n_alignments)
+                    # a row printed too coarsely to be evidence neither counts nor breaks the run
+                    evidence = [(i, j) for i, j in pairs if min(pkeys[a][i].digits, pkeys[b][j].digits) >= min_digits]
+                    if len(evidence) < min_run:
+                        continue
+                    chance = _family_probability(self._chance_same_p(pa, pb, pkeys[a], pkeys[b], evidence, scatter,
+                                                                     B), n_alignments)
                     if chance < s["alpha"]:
                         found.append(self._record(a, b, pa, pb, tkeys, pairs, "pressure", None, chance))
                 for i0, j0, n in _maximal_runs(tkeys[a], tkeys[b], min_run):
@@ -388,16 +414,12 @@ class CopiedValues(Check):
             return min(scatter, math.hypot(p.u_P_Pa / p.P_Pa, q.u_P_Pa / q.P_Pa))
         return scatter
 
-    def _chance_same_p(self, pa, pb, ka, kb, pairs, scatter) -> float:
+    def _chance_same_p(self, pa, pb, ka, kb, pairs, scatter, B) -> float:
         """Product over the run of the chance that independent sources print the same pressure."""
         prob = 1.0
-        for k, (i, j) in enumerate(pairs):
-            # dln P/dT from the first source's neighbours within the run; 0 (most lenient) if undefined
-            lo, hi = pairs[max(k - 1, 0)][0], pairs[min(k + 1, len(pairs) - 1)][0]
-            dT = pa[hi].T_K - pa[lo].T_K
-            slope = (math.log(pa[hi].P_Pa) - math.log(pa[lo].P_Pa)) / dT if dT > 0 else 0.0
-            slope = slope if math.isfinite(slope) and slope > 0 else 0.0
-            mu = slope * (pb[j].T_K - pa[i].T_K)
+        for i, j in pairs:
+            # the change in ln P the temperature shift implies, ln P = A − B/T
+            mu = B * (1.0 / pa[i].T_K - 1.0 / pb[j].T_K)
             width = max(ka[i].resolution_lnP, kb[j].resolution_lnP)
             prob *= coincidence_probability(width, mu, self._sigma(pa[i], pb[j], scatter))
         return prob

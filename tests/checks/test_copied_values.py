@@ -86,7 +86,10 @@ def test_cells_match_as_printed_numbers_at_the_coarser_precision():
     assert not same_printed(printed_value("10.02"), printed_value("10.03"))
     assert not same_printed(printed_value("10.0250"), printed_value("10.0249"))  # same precision: digits differ
     assert same_printed(printed_value("300.15"), printed_value("300.2"))
-    assert printed_value("760").digits == 3 and printed_value("0.0870").digits == 3
+    assert printed_value("0.0870").digits == 3 and printed_value("760.0").digits == 4
+    # an integer's trailing zeros may be padding: "1000" is read as one digit (the cautious reading here)
+    assert printed_value("760").digits == 2 and printed_value("1000").digits == 1
+    assert printed_value("1000").step == 1000 and printed_value("101325").step == 1
     assert printed_value("3.5").digits == 2 and printed_value("1.2e-3").digits == 2
     # one unit in the last digit as a difference in ln P: 0.01/10.02 for kPa, ln(10)*0.001 for log10
     assert printed_value("10.02", "kPa").resolution_lnP == pytest.approx(0.01 / 10.02, rel=1e-12)

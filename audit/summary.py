@@ -71,7 +71,7 @@ def summarise(ctx: AuditContext) -> Products:
     return Products(
         fits=tuple(fits),
         enthalpy=tuple(enthalpy),
-        sources=tuple(ctx.shared.get("source_records", ())),
+        sources=every_source(ctx, ctx.shared.get("source_records", ())),
         triple_point=ctx.shared.get("triple_point_record"),
         notes=tuple(notes),
         plot_data=dict(ctx.shared.get("plot_data", {})),
@@ -79,6 +79,60 @@ def summarise(ctx: AuditContext) -> Products:
         u_percent=dict(ctx.shared.get("u_percent", {})),
         reference_deviation_percent=dict(ctx.shared.get("reference_deviation_percent", {})),
     )
+
+
+def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
+    """One record per named source, in the order the data name them, whatever was decided.
+
+    ``source-agreement`` compares the sources it can (usable points, a
+    consensus to compare with); a source it could not compare — every row
+    rejected, too few rows, the only source of its branch, the check disabled
+    — is still listed, with its row counts and a one-line ``reason``, so a
+    curator sees what happened to every source.  ``cause`` names the cause
+    kind most of the source's flagged rows share, when most of them share one.
+    """
+    from dataclasses import replace
+
+    by_name = {r.source: r for r in records}
+    out = []
+    for name in ctx.dataset.sources:
+        rows = [p for p in ctx.dataset.points if p.source == name]
+        status = [ctx.status[p.row] for p in rows]
+        n_reject, n_suspect = status.count("reject"), status.count("suspect")
+        n_unreadable = status.count("unreadable")
+        kinds = [ctx.causes[p.row].kind for p in rows if p.row in ctx.causes and ctx.status[p.row] != "ok"]
+        cause = None
+        if kinds:
+            top = max(set(kinds), key=kinds.count)
+            if kinds.count(top) * 2 > n_reject + n_suspect:
+                cause = {"kind": top, "n_rows": kinds.count(top)}
+        rec = by_name.get(name)
+        if rec is not None and rec.extra.get("cause"):  # a source-level diagnosis wins
+            cause = rec.extra["cause"]
+        counts = {"n_rows": len(rows), "n_reject": n_reject, "n_suspect": n_suspect,
+                  "n_unreadable": n_unreadable, "cause": cause}
+        if rec is not None and "not_analysed" not in rec.extra:
+            if rec.status == "ok":
+                reason = "agrees with the other sources within its uncertainty"
+            elif rec.pattern == "temperature-offset" and rec.temperature_offset_K is not None:
+                reason = f"temperatures read {rec.temperature_offset_K:+.3g} K off the other sources"
+            else:
+                reason = f"pressures {rec.bias_percent:+.3g} % off the other sources"
+            out.append(replace(rec, extra={**rec.extra, **counts, "reason": reason}))
+            continue
+        usable = len(rows) - n_reject - n_unreadable
+        if rows and usable == 0:
+            st, reason = "reject", (f"every row rejected or unreadable ({n_reject} rejected, "
+                                    f"{n_unreadable} unreadable): not compared with the other sources")
+        elif rec is not None:
+            st, reason = rec.status, f"not compared: {rec.extra['not_analysed']}"
+        else:
+            st = "ok"
+            reason = ("not compared: the only named source" if len(ctx.dataset.sources) < 2 else
+                      "not compared: no other source on its branch, or no consensus fit to compare with")
+        base = rec if rec is not None else SourceAgreement(name, len(rows), None, None, None, "none", st)
+        out.append(replace(base, n=len(rows), status=st, extra={**base.extra, **counts, "reason": reason}))
+    return tuple(out)
 
 
 def _finite(x) -> float | None:

@@ -23,7 +23,9 @@ import math
 
 import numpy as np
 
-from ..results import CheckResult, PointFlag, SourceAgreement
+from dataclasses import replace
+
+from ..results import Cause, CheckResult, PointFlag, SourceAgreement
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
@@ -54,8 +56,14 @@ class SourceAgreement_(Check):
     high everywhere → "B: pressures +3.1 % (u 0.2 %) vs. the other sources;
     pattern: pressure-scale".
 
+    A flagged source whose offset is the ratio of two pressure units, within
+    ``unit_tolerance_percent``, was printed in that other unit (a series in
+    mmHg under a "Pa" header is 133.3 times too low): its rows are rejected
+    with the cause ``pressure-unit`` and the value read in the real unit,
+    and the source record carries that cause.
+
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
-    ``pattern_delta_chi2``, ``min_points``.
+    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``.
     """
 
     id = "source-agreement"
@@ -76,6 +84,8 @@ class SourceAgreement_(Check):
         "pattern_delta_chi2": Option(float, "Δχ² needed to name pressure-scale vs temperature-offset",
                                      "", 0, 100),
         "min_points": Option(int, "fewest usable points of a source to assess it", "", 2, 1000),
+        "unit_tolerance_percent": Option(float, "largest offset left after reading a source's pressures in "
+                                                "another unit, for that reading to be its cause", "%", 0, 50),
     }
 
     def run(self, ctx):
@@ -172,6 +182,22 @@ class SourceAgreement_(Check):
                         deviation[p.row] = float(100 * (p.P_Pa - P_fit[i]) / P_fit[i])
                     notes.append(f"{branch}: consensus refitted without {', '.join(newly)}")
         records = list(best.values())
+        point_status, causes = {}, {}
+        for i, r in enumerate(records):
+            reading = self._unit_reading(ctx, r, s) if r.status != "ok" else None
+            if reading is None:
+                continue
+            records[i] = replace(r, status="reject", extra={**r.extra, "cause": {
+                "kind": "pressure-unit", "n_rows": r.n, "printed_unit": reading.printed_unit,
+                "real_unit": reading.real_unit, "factor": reading.factor,
+                "remaining_percent": reading.remaining_percent}})
+            text = (f"the whole series of source '{r.source}' reads as {reading.real_unit}, not "
+                    f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with the other sources "
+                    f"within {reading.remaining_percent:+.2g} %")
+            for p in ctx.dataset.points:
+                if p.source == r.source and ctx.status[p.row] in ("ok", "suspect"):
+                    point_status[p.row] = "reject"
+                    causes[p.row] = Cause("pressure-unit", text, None, p.P_Pa * reading.factor)
         ctx.shared["source_records"] = records
         ctx.shared["consensus"] = consensus
         ctx.shared["deviation_percent"] = deviation
@@ -198,4 +224,16 @@ class SourceAgreement_(Check):
         metrics = {"n_sources": len(records), "n_flagged": len(bad),
                    "sources": [r.to_dict() for r in records]}
         return CheckResult(self.id, self.title, worst_status(len(bad), s.severity), message, metrics,
-                           tuple(flags))
+                           tuple(flags), point_status=point_status, causes=causes)
+
+    @staticmethod
+    def _unit_reading(ctx, record: SourceAgreement, s):
+        """The other pressure unit a flagged source was printed in, if its offset is a unit ratio."""
+        from ..diagnose.source_units import source_pressure_unit
+
+        units = [p.P_text_unit for p in ctx.dataset.points if p.source == record.source]
+        if record.bias_percent is None or not units or record.bias_percent <= -100:
+            return None
+        printed = max(set(units), key=units.count)
+        return source_pressure_unit(math.log1p(record.bias_percent / 100), printed,
+                                    math.log1p(s["unit_tolerance_percent"] / 100))

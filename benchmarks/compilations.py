@@ -713,7 +713,7 @@ def make_compilation(rng: np.random.Generator, *, fault: str | None, replicate_o
         copies.append((orig.name, label))
     # ---- point faults on rows of good sources
     if fault == "point":
-        rows = _plant_point_faults(rng, rows, truths, P_unit, T_unit)
+        rows = _plant_point_faults(rng, rows, truths, P_unit, T_unit, p_true)
     if identical_rows and rows:
         for _ in range(int(rng.integers(1, 4))):
             k = int(rng.integers(len(rows)))
@@ -740,8 +740,23 @@ def make_compilation(rng: np.random.Generator, *, fault: str | None, replicate_o
                        tuple(copies))
 
 
-def _plant_point_faults(rng, rows, truths, P_unit, T_unit):
-    """One to three gross single-row errors on rows of good sources (kinds as in detection.py)."""
+def _ln_p_step(p_true, T_old_K, T_new_K):
+    """|Δ ln P| [-] a temperature misprint causes on the true curve (inf off the curve's range)."""
+    if not T_new_K > 0:
+        return math.inf
+    try:
+        step = float(np.log(p_true(np.array([T_new_K]))[0] / p_true(np.array([T_old_K]))[0]))
+    except (ValueError, NotImplementedError, ZeroDivisionError, FloatingPointError):
+        return math.inf
+    return abs(step) if math.isfinite(step) else math.inf
+
+
+def _plant_point_faults(rng, rows, truths, P_unit, T_unit, p_true):
+    """One to three gross single-row errors on rows of good sources (kinds as in detection.py).
+
+    Gross means more than 10 times the source's scatter (with its rounding) in ln P and more
+    than a factor 1.5 for a plain random error; a digit swap smaller than that is not planted.
+    """
     rows = list(rows)
     good = {t.name: t for t in truths if t.good}
     cands = [k for k, r in enumerate(rows) if r.source in good]
@@ -767,7 +782,8 @@ def _plant_point_faults(rng, rows, truths, P_unit, T_unit):
             P_txt = s
         elif kind == "digit-swap-T":
             s = _swap(T_txt, rng)
-            if s is None:
+            T_old = float(from_unit_T(float(T_txt), T_unit))
+            if s is None or _ln_p_step(p_true, T_old, float(from_unit_T(float(s), T_unit))) < 10 * sig_eff:
                 continue
             T_txt = s
         elif kind == "temperature-unit":

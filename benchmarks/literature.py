@@ -213,7 +213,8 @@ def report(results: list[dict], seeds: range, profile: str, seconds: float) -> N
     for kind, sub in sorted(by.items()):
         fo = sum(p[1] for p in sub)
         ri = sum(p[2] for p in sub if p[1])
-        print(f"{'  ' + kind:58s} {f'{fo}/{len(sub)}':>8s}{_pct(fo, len(sub)):>8s}   cause {_pct(ri, fo)}")
+        why = _pct(ri, fo) if EXPECTED_CAUSE[kind] else "   none named"  # a random error has no cause to name
+        print(f"{'  ' + kind:58s} {f'{fo}/{len(sub)}':>8s}{_pct(fo, len(sub)):>8s}   cause {why}")
     if errors or internal or miscount or refused:
         print("\nerrors:")
         for r in errors:

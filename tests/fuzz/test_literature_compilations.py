@@ -19,6 +19,8 @@ Deterministic: hypothesis derandomized, no example database, no deadline.
 
 from __future__ import annotations
 
+import csv
+import io
 import json
 import math
 import os
@@ -27,11 +29,33 @@ from pathlib import Path
 from unittest import mock
 
 import numpy as np
+import pytest
 from hypothesis import HealthCheck, Phase, given, note, settings
 from hypothesis import strategies as st
 
 from audit.cli import main
 from benchmarks.compilations import FAULTS, from_unit_T, make_compilation, pascal_per
+
+
+FOUND = Path(__file__).with_name("found")
+
+
+def _audit_points(text: str, sources: list[str]) -> list[dict]:
+    """Audit `text` through the CLI; assert exit 0 or 1 and one point per row, in order, with its source."""
+    with tempfile.TemporaryDirectory() as folder:
+        data = Path(folder) / "compilation.csv"
+        data.write_text(text, encoding="utf-8")
+        out = Path(folder) / "out"
+        # VPAUDIT_DEBUG: an internal error raises with its traceback instead of becoming exit 3
+        with mock.patch.dict(os.environ, {"VPAUDIT_DEBUG": "1"}):
+            code = main(["check", str(data), "--format", "json,csv", "--out", str(out),
+                         "--audit-time", "2024-01-01T00:00:00Z"])
+        assert code in (0, 1), f"exit code {code}"
+        assert data.read_text(encoding="utf-8") == text
+        points = json.loads((out / "findings.json").read_text(encoding="utf-8"))["points"]
+    assert [p["row"] for p in points] == list(range(1, len(sources) + 1))
+    assert [p["source"] for p in points] == sources
+    return points
 
 
 @settings(max_examples=60, derandomize=True, database=None, deadline=None,
@@ -47,24 +71,20 @@ def test_compilation_ends_with_exit_0_or_1_and_one_point_per_row(seed, fault, re
                             identical_rows=identical_rows, no_overlap=no_overlap)
     text = comp.to_csv()
     note(f"seed {seed}, fault {fault}, substance {comp.substance}\n{text[:4000]}")
-    with tempfile.TemporaryDirectory() as folder:
-        data = Path(folder) / "compilation.csv"
-        data.write_text(text, encoding="utf-8")
-        out = Path(folder) / "out"
-        # VPAUDIT_DEBUG: an internal error raises with its traceback instead of becoming exit 3
-        with mock.patch.dict(os.environ, {"VPAUDIT_DEBUG": "1"}):
-            code = main(["check", str(data), "--format", "json,csv", "--out", str(out),
-                         "--audit-time", "2024-01-01T00:00:00Z"])
-        assert code in (0, 1), f"exit code {code}"
-        assert data.read_text(encoding="utf-8") == text
-        findings = json.loads((out / "findings.json").read_text(encoding="utf-8"))
-    points = findings["points"]
-    assert len(points) == len(comp.rows)
-    assert [p["row"] for p in points] == list(range(1, len(comp.rows) + 1))
+    points = _audit_points(text, [r.source for r in comp.rows])
     P_factor = pascal_per(comp.P_unit)
     for p, r in zip(points, comp.rows):
-        assert p["source"] == r.source
         assert p["status"] in ("ok", "suspect", "reject")  # every cell printed is a number
         assert math.isclose(p["T_K"], float(from_unit_T(float(r.T_text), comp.T_unit)), rel_tol=1e-12, abs_tol=1e-9)
         # rel 1e-9: pint's factors and the audit's agree to rounding (both from NIST SP 811 definitions)
         assert math.isclose(p["P_Pa"], float(r.P_text) * P_factor, rel_tol=1e-9)
+
+
+@pytest.mark.parametrize("path", sorted(FOUND.glob("literature_*.csv")), ids=lambda p: p.stem)
+def test_found_compilation_ends_with_exit_0_or_1_and_one_point_per_row(path):
+    """Compilations that once crashed the audit (reduced by deleting rows while the crash stayed)."""
+    text = path.read_text(encoding="utf-8")
+    dialect = csv.Sniffer().sniff(text.splitlines()[0], delimiters=",;\t")
+    header, *rows = list(csv.reader(io.StringIO(text), dialect))
+    col = next(i for i, h in enumerate(header) if h.lower() in ("source", "reference", "author"))
+    _audit_points(text, [r[col] for r in rows])

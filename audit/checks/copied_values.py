@@ -19,7 +19,7 @@ from decimal import Decimal, InvalidOperation
 
 from ..model import Point
 from ..results import CheckResult, PointFlag
-from ..thermo.rounding import log_pressure_base, parse_printed_number
+from ..thermo.rounding import log_pressure_base, parse_printed_number, temperature_rounding_u_K
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
@@ -27,6 +27,13 @@ __all__ = ["CopiedValues", "PrintedValue", "coincidence_probability", "printed_v
 
 _SQRT2 = math.sqrt(2.0)
 _SQRT2PI = math.sqrt(2.0 * math.pi)
+_SQRT12 = math.sqrt(12.0)  # a rounding step is √12 times its standard uncertainty (GUM §4.3.7)
+
+
+def _t_rounding(p: Point) -> float:
+    """Standard uncertainty [K] of a printed temperature from its rounding; 0 if unreadable."""
+    u = temperature_rounding_u_K(p.T_text, p.T_text_unit)
+    return u if math.isfinite(u) else 0.0
 
 
 def coincidence_probability(width: float, mu: float, sigma: float) -> float:
@@ -291,8 +298,10 @@ class CopiedValues(Check):
     the same rounding cell with probability E[max(0, 1 − |d|/δ)],
     d ~ N(μ, σ²) (closed form in :func:`coincidence_probability`).  μ is the
     pressure change the temperature shift implies, B·(1/T_a − 1/T_b), with
-    B of ln P = A − B/T fitted to all the sources' points (zero at identical
-    temperatures, and when the data do not determine B); σ is
+    B of ln P = A − B/T fitted to all the sources' points, for the part of
+    the shift beyond half a step of the coarser printed temperature (zero
+    for temperatures the same to the printed digits, and when the data do
+    not determine B); σ is
     ``independent_scatter_percent``, or the combined stated u(P) of the two
     rows when smaller — so a pair is called copied only if even the closest
     agreement independent sources plausibly reach makes the match improbable.
@@ -418,8 +427,12 @@ class CopiedValues(Check):
         """Product over the run of the chance that independent sources print the same pressure."""
         prob = 1.0
         for i, j in pairs:
-            # the change in ln P the temperature shift implies, ln P = A − B/T
-            mu = B * (1.0 / pa[i].T_K - 1.0 / pb[j].T_K)
+            # the change in ln P the temperature shift implies, ln P = A − B/T, for the part of the
+            # shift the printed temperatures' rounding cannot explain (81.85 K and 81.9 K may be one T)
+            dT = pb[j].T_K - pa[i].T_K
+            slack = _SQRT12 * max(_t_rounding(pa[i]), _t_rounding(pb[j])) / 2
+            mu = 0.0 if abs(dT) <= slack else \
+                B * (1.0 / pa[i].T_K - 1.0 / pb[j].T_K) * (abs(dT) - slack) / abs(dT)
             width = max(ka[i].resolution_lnP, kb[j].resolution_lnP)
             prob *= coincidence_probability(width, mu, self._sigma(pa[i], pb[j], scatter))
         return prob

@@ -184,6 +184,21 @@ def test_independent_precise_sources_at_the_same_round_temperatures_are_not_copi
     assert chk.metrics["n_pairs"] == 0
 
 
+def test_temperatures_the_same_to_the_printed_digits_imply_no_pressure_difference(default_profile):
+    # pairs of independent sources (own noise 0.01 %, the best data) at one set of temperatures,
+    # printed 300.9 K and 300.85 K: the 0.05 K is rounding, not a shift that would make equal
+    # pressures improbable (read as a shift, 17 of these 20 pairs were called copies)
+    T = np.arange(300.85, 340.0, 5.0)  # 8 rows
+    for seed in range(20):
+        four = [str(int(round(p, 3 - math.floor(math.log10(p))))) for p in _noisy(T, 1e-4, 200 + seed)]
+        pts_a = [Point(row=i + 1, T_K=float(f"{t:.1f}"), P_Pa=float(x), source="Rask 1931 (synthetic)",
+                       T_text=f"{t:.1f}", P_text=x) for i, (t, x) in enumerate(zip(T, four))]
+        pts_b = [Point(row=i + 1, T_K=float(f"{t:.2f}"), P_Pa=float(f"{p:.1f}"), source="Sorel 1958 (synthetic)",
+                       T_text=f"{t:.2f}", P_text=f"{p:.1f}") for i, (t, p) in enumerate(zip(T, _noisy(T, 1e-4, 100 + seed)))]
+        chk = _copied(run_audit(_dataset(pts_a, pts_b), default_profile))
+        assert chk.metrics["n_pairs"] == 0, (seed, chk.message)
+
+
 def test_a_biased_independent_source_is_not_a_rescaled_copy(default_profile):
     # 1 % high with its own 0.05 % scatter: a constant ratio, but not to the printed digits
     T = np.arange(300.0, 371.0, 5.0)

@@ -100,6 +100,12 @@ def _floors(points):
     return np.nan_to_num(fP, nan=0.0), np.nan_to_num(fT, nan=0.0)
 
 
+#: asymptotic efficiency of the MAD for normal data (Rousseeuw & Croux 1993,
+#: doi:10.1080/01621459.1993.10476408): its variance is that of a standard deviation
+#: from 0.37 times as many points
+_MAD_EFFICIENCY = 0.37
+
+
 def _robust_scale(x) -> float:
     return mad_scale(x)
 
@@ -203,7 +209,8 @@ class _BranchAnalysis:
         # keeps points far off even a straight ln P–1/T line out of it.  Curvature only widens
         # the line's scale, so this catches gross errors alone.
         line = repeated_median_line(1.0 / T, np.log(P))
-        line_scale = max(_robust_scale(line.residuals), s["min_scatter_percent"] / 100)
+        line_scale = np.maximum(self._scales(line.residuals, np.ones(n, bool), src, s),
+                                s["min_scatter_percent"] / 100)
         far = np.abs(line.residuals - np.median(line.residuals)) > crit_gross * line_scale
         if n - far.sum() <= 4:
             far[:] = False
@@ -222,7 +229,8 @@ class _BranchAnalysis:
         if u_given:
             rel_screen, uT_screen, scale_screen = np.sqrt(uPrel ** 2 + floorP ** 2), uT_eff, max(1.0, scr.scale)
         else:
-            rel_screen = np.full(n, max(_robust_scale(screen.residuals_lnP[~out_of_screen]), 1e-12))
+            # per source when the sources' scatters differ, as in the stepwise test below
+            rel_screen = np.maximum(self._scales(screen.residuals_lnP, ~out_of_screen, src, s), 1e-12)
             uT_screen, scale_screen = np.zeros(n), 1.0
         z_screen = _inverse_scores(scr.studentized, screen, T, P, out_of_screen, rel_screen, uT_screen,
                                    scale_screen)
@@ -304,6 +312,13 @@ class _BranchAnalysis:
                 birge = max(1.0, inf.scale)
                 z = inf.studentized_known_scale / np.maximum(1.0, inf.scale_loo)
                 crit_dof = None
+            elif np.ptp(scale_pt) > 0:
+                # each source has its own estimated scale: a Birge ratio below 1, set by a
+                # precise series that scatters less than the profile's floor, must not shrink
+                # the scatter of the others (a source is never judged by a more precise one)
+                birge = max(1.0, inf.scale)
+                z = inf.studentized_known_scale / np.maximum(1.0, inf.scale_loo)
+                crit_dof = dof
             else:
                 birge = inf.scale
                 z = np.array(inf.studentized)
@@ -376,25 +391,44 @@ class _BranchAnalysis:
         standardized residual.  So own scales are used only when the
         Brown–Forsythe test (Levene's test about the median, robust to
         non-normal residuals) finds the sources' scatters different at
-        ``source_scale_alpha``.
+        ``source_scale_alpha``.  Then every source gets its own scale, shrunk
+        toward a prior (the median of the sources' own scales, one vote per
+        source, so that one large precise series does not set it) with the
+        MAD's effective degrees of freedom, 0.37·(n − 1), against those of
+        ``min_points_source_scale`` points — and shrunk only upward: a
+        scattered source is never judged by the scatter of a more precise
+        one.  A one-row source, with no scatter of its own, gets the larger
+        of the prior and the pooled scale.
         """
         from scipy.stats import levene
 
         pooled = _robust_scale(r[active])
         pooled = pooled if pooled > 0 else 1e-6
         out = np.full(r.size, pooled)
-        own = [name for name in dict.fromkeys(src)
-               if name and ((src == name) & active).sum() >= s["min_points_source_scale"]]
-        groups = [r[(src == name) & active] for name in own]
-        rest = r[active & ~np.isin(src, own)]
+        # a source's own scale comes from all its points, fitted or not: the MAD is robust to
+        # the source's own outliers, and a scattered source whose points a precise series had
+        # pushed out of the fit must still be measured by its own scatter
+        named = [name for name in dict.fromkeys(src) if name]
+        big = [name for name in named if (src == name).sum() >= s["min_points_source_scale"]]
+        groups = [r[src == name] for name in big]
+        small = np.isin(src, [x for x in named if x not in big])
+        rest = r[(small | (active & (src == ""))) & ~np.isin(src, big)]
         if rest.size >= 3:
             groups.append(rest)
         if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
             return out
-        for name in own:
-            sc = _robust_scale(r[(src == name) & active])
-            if sc > 0:
-                out[src == name] = sc
+        own = {name: _robust_scale(r[src == name]) for name in named if (src == name).sum() >= 2}
+        own = {k: v for k, v in own.items() if v > 0}
+        prior = float(np.median([own[k] for k in big if k in own] or list(own.values()) or [pooled]))
+        nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
+        for name in named:
+            mine = src == name
+            if name in own:
+                nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
+                shrunk = math.sqrt((nu * own[name] ** 2 + nu0 * prior ** 2) / (nu + nu0))
+                out[mine] = max(own[name], shrunk)
+            else:
+                out[mine] = max(prior, pooled)
         return out
 
     @staticmethod

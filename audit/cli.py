@@ -173,10 +173,19 @@ def _finding_lines(result) -> list[str]:
         lines.append(f"  … and {len(flagged) - CONSOLE_ROWS} more flagged rows (see the report)")
     for src in result.sources:
         if src.status != "ok":
-            lines.append(f"  source '{src.source}' {src.status}: pattern {src.pattern}, bias "
-                         f"{src.bias_percent:+.3g} ± {src.u_bias_percent:.2g} %"
-                         + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
-                            if src.pattern == "temperature-offset" else ""))
+            cause = src.extra.get("cause") or {}
+            if src.bias_percent is None or src.u_bias_percent is None:
+                what = src.extra.get("reason", "not compared with the other sources")
+            else:
+                what = (f"pattern {src.pattern}, bias {src.bias_percent:+.3g} ± {src.u_bias_percent:.2g} %"
+                        + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
+                           if src.pattern == "temperature-offset" and src.temperature_offset_K is not None
+                           else ""))
+            if cause.get("kind") == "pressure-unit" and cause.get("real_unit"):
+                what += f"; cause pressure-unit: printed in {cause['real_unit']}, not {cause['printed_unit']}"
+            elif cause.get("kind"):
+                what += f"; cause {cause['kind']} ({cause['n_rows']} rows)"
+            lines.append(f"  source '{src.source}' {src.status}: {what}")
     return lines
 
 

@@ -3,10 +3,10 @@
 from __future__ import annotations
 
 import math
-from collections import defaultdict
 
 from ..results import CheckResult, PointFlag
 from ._util import fmt, rows_text, worst_status
+from .duplicates import explained_reason, group_series, series_points
 from .registry import Check, Option, register
 
 
@@ -18,9 +18,12 @@ class Monotonic(Check):
     and one source, points sorted by temperature must have rising pressure.
     Neighbours from different sources are not compared: a fall between them
     is a disagreement of the sources, which ``source-agreement`` and
-    ``outliers`` measure against the consensus of all the data.  Each pair of
-    temperature neighbours (|ΔT| > ``T_tolerance_K``) whose pressure falls by
-    more than the larger of ``k`` × combined u(P) and
+    ``outliers`` measure against the consensus of all the data.  Replicates
+    (rows whose temperatures agree within the printed resolution of T,
+    ``k`` × combined u(T) or ``T_tolerance_K``) are one temperature, judged
+    among themselves by ``duplicates``; each group enters the series through
+    its median-pressure row.  Each pair of temperature neighbours whose
+    pressure falls by more than the larger of ``k`` × combined u(P) and
     ``P_tolerance_percent`` is flagged, naming both rows; both become
     suspect, since either may be the wrong one.
 
@@ -28,8 +31,13 @@ class Monotonic(Check):
     ΔH > 0 and ΔV > 0 for vaporization and sublimation, so a saturation
     pressure must increase with temperature.  A fall is a typing error, a
     unit slip or a mislabelled phase.  The check runs after the outlier
-    screening and judges the rows it kept: a rejected row already carries its
-    explanation and does not drag its neighbour into a pair.
+    screening and judges the rows it kept: a row already rejected, or given
+    a cause, carries its explanation and does not drag its innocent
+    neighbour into a pair — the falls it makes are counted in the message
+    and metrics (``pairs_left_to_explained``), not flagged.
+
+    **Method.** Sort each branch-and-source series by T, merge replicates
+    into their median-pressure row, compare consecutive rows.
 
     **Example.** 300 K → 3.54 kPa, 305 K → 3.45 kPa → "P falls from row 4 to
     row 5 as T rises by 5 K".
@@ -39,14 +47,17 @@ class Monotonic(Check):
 
     id = "monotonic"
     title = "Pressure rises with temperature"
-    method = ("Points of each branch are sorted by T; neighbours with P falling by more than the "
-              "noise allowance are reported in pairs.")
+    method = ("Points of each branch and source are sorted by T, replicates merged into their "
+              "median-pressure row; neighbours with P falling by more than the noise allowance are "
+              "reported in pairs, except pairs with a row already rejected or explained.")
     references = ("B. P. E. Clapeyron, J. École Polytechnique 14, 153 (1834); see e.g. P. Atkins, "
                   "J. de Paula, Physical Chemistry, §4B (the Clapeyron equation).",)
     options = {
-        "T_tolerance_K": Option(float, "neighbours closer than this are left to the duplicates check", "K", 0, 5),
+        "T_tolerance_K": Option(float, "neighbours closer than this (or within the printed resolution of T) "
+                                "are replicates, left to the duplicates check", "K", 0, 5),
         "P_tolerance_percent": Option(float, "allowed relative fall in pressure (noise)", "%", 0, 100),
-        "k": Option(float, "coverage factor applied to the combined u(P)", "", 0.5, 10),
+        "k": Option(float, "coverage factor applied to the combined u(P), and to the combined u(T) "
+                    "when grouping replicates", "", 0.5, 10),
     }
 
     def run(self, ctx):
@@ -54,19 +65,16 @@ class Monotonic(Check):
         flags: list[PointFlag] = []
         suspect: dict[int, str] = {}
         pairs: list[list[int]] = []
-        by_branch = defaultdict(list)
-        for p in ctx.usable():
-            # a measurement series is one source; unlabelled rows count as one series
-            by_branch[(ctx.phase(p), p.source or "")].append(p)
-        for pts in by_branch.values():
-            pts = sorted(pts, key=lambda q: (q.T_K, q.row))
-            for a, b in zip(pts, pts[1:]):
-                if b.T_K - a.T_K <= s["T_tolerance_K"]:
-                    continue
-                fall = a.P_Pa - b.P_Pa
-                allowed = s["P_tolerance_percent"] / 100 * a.P_Pa
-                if a.u_P_Pa is not None and b.u_P_Pa is not None:
-                    allowed = max(allowed, s["k"] * math.hypot(a.u_P_Pa, b.u_P_Pa))
+        left: list[list[int]] = []
+        explained_rows: set[int] = set()
+        for pts in series_points(ctx).values():
+            kept = [p for p in pts if not explained_reason(ctx, p)]
+            # replicates (one temperature within its printed resolution) are the duplicates check's;
+            # each group enters the series through its median-pressure row
+            reps = [sorted(g, key=lambda q: (q.P_Pa, q.row))[(len(g) - 1) // 2]
+                    for g in group_series(kept, s["T_tolerance_K"], s["k"])]
+            for a, b in zip(reps, reps[1:]):
+                fall, allowed = self._fall(a, b, s)
                 if fall > allowed:
                     pairs.append([a.row, b.row])
                     text = (f"P falls by {100 * fall / a.P_Pa:.3g} % from row {a.row} "
@@ -75,10 +83,35 @@ class Monotonic(Check):
                     for r in (a.row, b.row):
                         suspect[r] = "suspect"
                         flags.append(PointFlag(r, self.id, s.severity, text))
+            # a row already rejected or explained does not drag its neighbour into a pair:
+            # the falls it would make are counted, not flagged
+            series = sorted(reps + [p for p in pts if explained_reason(ctx, p)], key=lambda q: (q.T_K, q.row))
+            for a, b in zip(series, series[1:]):
+                if not (explained_reason(ctx, a) or explained_reason(ctx, b)):
+                    continue
+                if b.T_K - a.T_K <= s["T_tolerance_K"]:
+                    continue
+                fall, allowed = self._fall(a, b, s)
+                if fall > allowed:
+                    left.append([a.row, b.row])
+                    explained_rows.update(q.row for q in (a, b) if explained_reason(ctx, q))
         if pairs:
             msg = f"{len(pairs)} neighbouring pairs with P falling as T rises: {rows_text(suspect)}"
         else:
             msg = "pressure rises with temperature within every branch" + (
                 " and source" if ctx.dataset.sources else "")
+        if left:
+            msg += (f"; {len(left)} pair{'s' if len(left) != 1 else ''} left to the rows already rejected or "
+                    f"explained ({rows_text(explained_rows)})")
         return CheckResult(self.id, self.title, worst_status(len(pairs), s.severity), msg,
-                           {"n_violating_pairs": len(pairs), "pairs": pairs}, tuple(flags), suspect)
+                           {"n_violating_pairs": len(pairs), "pairs": pairs,
+                            "n_pairs_left_to_explained": len(left), "pairs_left_to_explained": left},
+                           tuple(flags), suspect)
+
+    @staticmethod
+    def _fall(a, b, s) -> tuple[float, float]:
+        """Fall of P from a to b [Pa] and the fall the noise allows [Pa]."""
+        allowed = s["P_tolerance_percent"] / 100 * a.P_Pa
+        if a.u_P_Pa is not None and b.u_P_Pa is not None:
+            allowed = max(allowed, s["k"] * math.hypot(a.u_P_Pa, b.u_P_Pa))
+        return a.P_Pa - b.P_Pa, allowed

@@ -124,6 +124,8 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         if rows and usable == 0:
             st, reason = "reject", (f"every row rejected or unreadable ({n_reject} rejected, "
                                     f"{n_unreadable} unreadable): not compared with the other sources")
+            if rec is not None:
+                reason += f"; {rec.extra['not_analysed']}"
         elif rec is not None:
             st, reason = rec.status, f"not compared: {rec.extra['not_analysed']}"
         else:

@@ -90,3 +90,19 @@ def test_a_bias_the_size_of_bar_versus_atm_is_not_called_a_unit(tmp_path, defaul
     lab_c = {s.source: s for s in result.sources}["Lab C"]
     assert lab_c.status != "ok" and lab_c.pattern == "pressure-scale"
     assert lab_c.extra["cause"] is None
+
+
+def test_a_source_no_other_source_overlaps_is_not_given_an_offset(default_profile):
+    # two series at 280-320 K and a third at 350-370 K, 20 % high: its "offset" against the
+    # others would be an extrapolation over 30 K: it is listed, no offset is measured or
+    # removed, and the reason says why (its rows are then judged, as printed, against the
+    # extrapolated curve with that extrapolation's uncertainty)
+    rng = np.random.default_rng(5)
+    T = np.concatenate([np.linspace(280, 320, 9), np.linspace(282, 318, 8), np.linspace(350, 370, 6)])
+    P = iapws_saturation_pressure(T) * np.exp(rng.normal(0, 0.002, T.size))
+    P[17:] *= 1.2
+    src = ["Low A"] * 9 + ["Low B"] * 8 + ["High C"] * 6
+    result = run_audit(from_arrays(T, P, source=src, phase="liquid", substance="water"), default_profile)
+    high = {s.source: s for s in result.sources}["High C"]
+    assert high.bias_percent is None and high.temperature_offset_K is None
+    assert "extrapolation" in high.extra["reason"]

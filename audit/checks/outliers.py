@@ -53,6 +53,7 @@ import numpy as np
 from ..diagnose import diagnose_point
 from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
 from ..results import Cause, CheckResult, PointFlag
+from ..thermo.overlap import overlaps_others
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
 from ..thermo.stats import mad_scale, repeated_median_line
@@ -333,7 +334,7 @@ class _BranchAnalysis:
             if multi:
                 slope = fit.equation.dlnp_dT(T)
                 biased = self._biased_sources(
-                    r, slope, sigma, src, names, source_settings,
+                    r, slope, sigma, src, names, source_settings, T, in_fit,
                     lambda mask, left_out: group_deletion(J, r, sigma, (in_fit & ~left_out).astype(float), mask))
                 offsets, u_off = self._point_offsets(biased, src, slope)
                 if biased:
@@ -432,7 +433,7 @@ class _BranchAnalysis:
         return out
 
     @staticmethod
-    def _biased_sources(r, slope, sig, src, names, ss, deletion):
+    def _biased_sources(r, slope, sig, src, names, ss, T, in_fit, deletion):
         """Sources off the curve of the others by more than ``k``·u and ``tolerance_percent``.
 
         Each source is judged by its points' residuals against the fit made
@@ -445,8 +446,10 @@ class _BranchAnalysis:
         offset ΔT·d ln P/dT), judged by the robust spread each leaves, and is
         measured on the residuals those points will be scored with: against
         the next fit, which leaves the source out when three or more sources
-        are named, else against this one.  ``source-agreement`` does the full
-        comparison later.
+        are named, else against this one.  A source none of whose points lies
+        within the temperatures of the others' fitted points is not judged:
+        its offset would be an extrapolation.  ``source-agreement`` does the
+        full comparison later.
         """
         out: dict[str, _SourceShift] = {}
         # worst source first, then the others against a yardstick without it: one biased
@@ -459,6 +462,10 @@ class _BranchAnalysis:
                 # rejected by the first screen, and the median is robust to its own outliers anyway
                 mine = src == name
                 if name in out or mine.sum() < 2:
+                    continue
+                # an offset is measured only where the other sources overlap the source in
+                # temperature; far outside them, "the others' curve" is an extrapolation
+                if not overlaps_others(T, mine, in_fit & ~left_out & ~mine):
                     continue
                 gd = deletion(mine, left_out)
                 r_out = r[mine] if gd is None else gd.residuals

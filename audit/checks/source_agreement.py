@@ -26,6 +26,7 @@ import numpy as np
 from dataclasses import replace
 
 from ..results import Cause, CheckResult, PointFlag, SourceAgreement
+from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
@@ -123,12 +124,27 @@ class SourceAgreement_(Check):
             form = type(eq)
             # Flag the worst source first, then re-assess the others against a consensus without
             # it: one biased source would otherwise make every other look off in the opposite way.
+            # an offset is measured only where other sources overlap in temperature
+            # (judged on every readable row of the source, also those rejected already)
+            src_arr = np.array(src, dtype=object)
+            everyone = [p for p in ctx.dataset.points if p.readable and p.source and ctx.phase(p) == branch]
+            T_all = np.array([p.T_K for p in everyone])
+            src_all = np.array([p.source for p in everyone], dtype=object)
+            kept_all = np.array([ctx.status[p.row] in ("ok", "suspect") for p in everyone])
+            isolated = {}
+            for name in dict.fromkeys(src_all):
+                mine = src_all == name
+                if not overlaps_others(T_all, mine, kept_all & ~mine):
+                    isolated[name] = (f"no other source reaches its temperatures ({T_all[mine].min():.5g}–"
+                                      f"{T_all[mine].max():.5g} K): an offset there would be an "
+                                      "extrapolation, so none is measured or removed")
             excluded: list[str] = []
             try:
                 for _ in range(len(set(src))):
                     analysis = source_offsets(T, P, sig, src, form, keep=keep, min_points=s["min_points"],
                                               exclude_from_consensus=excluded, fit_options=fixed)
                     candidates = [o for o in analysis.offsets if o.source not in excluded
+                                  and o.source not in isolated
                                   and abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
                                   and abs(o.bias_percent) > s["tolerance_percent"]]
                     # keep at least two sources in the consensus
@@ -144,6 +160,8 @@ class SourceAgreement_(Check):
             for o in analysis.offsets:
                 over_u = abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
                 over_tol = abs(o.bias_percent) > s["tolerance_percent"]
+                if o.source in isolated:
+                    continue
                 if over_u and over_tol:
                     status = "reject" if abs(o.bias_percent) > s["reject_tolerance_percent"] else "suspect"
                     pattern = o.preferred_pattern(s["pattern_delta_chi2"]) or (
@@ -162,6 +180,9 @@ class SourceAgreement_(Check):
                 prev = best.get(o.source)
                 if prev is None or _RANK[status] > _RANK[prev.status]:
                     best[o.source] = rec
+            for name, why in isolated.items():
+                best.setdefault(name, SourceAgreement(name, int((src_all == name).sum()), None, None, None,
+                                                      "none", "ok", {"branch": branch, "not_analysed": why}))
             for name, why in analysis.not_analysed:
                 best.setdefault(name, SourceAgreement(name, sum(1 for x in src if x == name), None, None, None,
                                                       "none", "ok", {"branch": branch, "not_analysed": why}))

@@ -568,15 +568,94 @@ class EnthalpyStep:
     n_tested: int
 
 
+def running_moments(x, w, Z=None):
+    """Weighted running sums over the first k points, k = 1..n, in O(n).
+
+    The co-moment C_k = Σ_{i<k} w_i (x_i − x̄_k)² is accumulated with the
+    weighted Welford update w_k (x_k − x̄_{k−1})(x_k − x̄_k), whose terms are
+    never negative, so it keeps its digits where the expanded Σw x² − W x̄²
+    would cancel; centre x first (e.g. on its overall weighted mean) so the
+    running means are themselves exact to rounding.
+
+    Parameters
+    ----------
+    x, w : ndarray, shape (n,)
+        Values and positive weights.
+    Z : ndarray, shape (n, q), optional
+        Further columns whose running sums Σ Z and Σ Z·x are wanted.
+
+    Returns
+    -------
+    W, mean, C : ndarray, shape (n,)
+        Σ w, weighted mean of x and co-moment over the first k points.
+    SZ, SZx : ndarray, shape (n, q)
+        Only when Z is given: Σ Z and Σ Z·x over the first k points.
+    """
+    W = np.cumsum(w)
+    mean = np.cumsum(w * x) / W
+    prev = np.concatenate([x[:1], mean[:-1]])
+    C = np.cumsum(w * (x - prev) * (x - mean))
+    if Z is None:
+        return W, mean, C
+    return W, mean, C, np.cumsum(Z, axis=0), np.cumsum(Z * x[:, None], axis=0)
+
+
+def running_comoment(x, y, w, mean_x, mean_y):
+    """Σ_{i<k} w_i (x_i − x̄_k)(y_i − ȳ_k) for k = 1..n by the same update as
+    :func:`running_moments` (running means passed in) [units of x·y]."""
+    prev_x = np.concatenate([x[:1], mean_x[:-1]])
+    return np.cumsum(w * (x - prev_x) * (y - mean_y))
+
+
+#: splits whose fast estimate is this close (relative to the no-step χ²) to the
+#: best are refitted exactly; the fast update's rounding is far below it
+_REFIT_RELATIVE = 1e-8
+_REFIT_MAX = 16
+
+
+def _refit_candidates(rss_fast, scale, exact):
+    """Indices of the candidates to refit exactly and the winner among them.
+
+    ``exact(i)`` returns (rss, payload) for candidate i; the first of equal
+    exact values wins, as in a scan in order.
+    """
+    finite = np.isfinite(rss_fast)
+    if not finite.any():
+        return None
+    lo = float(np.min(rss_fast[finite]))
+    near = np.flatnonzero(finite & (rss_fast <= lo + _REFIT_RELATIVE * max(scale, abs(lo))))
+    if near.size > _REFIT_MAX:
+        near = np.sort(near[np.argsort(rss_fast[near], kind="stable")[:_REFIT_MAX]])
+    best = None
+    for i in near:
+        rss, payload = exact(int(i))
+        if best is None or rss < best[0]:
+            best = (rss, int(i), payload)
+    return best
+
+
 def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> EnthalpyStep:
     """Locate a step in the apparent enthalpy along T.
 
     The base model is ln P = A + B/T + C ln T (ΔH linear in T); a step of
     size Δ at T_k adds a hinge (-Δ/R)·min(0, 1/T - 1/T_k), which keeps
     ln P continuous but changes its slope, i.e. ΔH jumps by Δ.  Every split
-    between neighbouring points with at least `min_points_per_side` on each
-    side is tried; the largest F statistic wins.  The σ of each point
-    follows the effective variance with the slope of the base fit.
+    between neighbouring points with at least `min_points_per_side`
+    distinct temperatures on each side is tried; the largest F statistic
+    wins.  The σ of each point follows the effective variance with the
+    slope of the base fit.
+
+    Notes
+    -----
+    O(n) after sorting.  Adding the hinge h lowers the base χ² by
+    (hᵀW e₀)²/(h⊥ᵀW h⊥) (e₀ the base residuals, h⊥ the part of h outside
+    the base columns), and for h = 1/T − c on one side of the split every
+    sum this needs is a running sum in c's powers; the side with the smaller
+    Σw h² is used (the two hinges differ by 1/T − c, a base column, so they
+    give the same fit).  The few splits within rounding of the best are
+    refitted exactly, so the result is that of fitting every split (the
+    former O(n²) scan) to rounding.  A split whose hinge lies numerically in
+    the span of the base columns is passed over.
     """
     from .fitting import InsufficientData, _as_data, _as_uncertainty, _weighted_lstsq, fit_equation
 
@@ -600,23 +679,54 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> En
     w = 1.0 / base.sigma_lnP ** 2
     X0 = base.equation.design_matrix(Ts)
     rss0 = base.chi2
-    best = None
-    tested = 0
-    for k in range(1, n):
-        below = int(distinct_upto[k - 1])
-        if Ts[k] == Ts[k - 1] or below < m or n_T - below < m:
-            continue
-        inv_k = 0.5 * (1.0 / Ts[k - 1] + 1.0 / Ts[k])
-        hinge = np.minimum(0.0, 1.0 / Ts - inv_k)
+    # split k has points 0..k-1 below; candidates as in a scan over k = 1..n-1
+    k_all = np.arange(1, n)
+    below = distinct_upto[:-1]
+    ok = (Ts[1:] != Ts[:-1]) & (below >= m) & (n_T - below >= m)
+    ks = k_all[ok]
+    if ks.size == 0:
+        raise ValueError("no split position with distinct temperatures on both sides")
+    inv = 0.5 * (1.0 / Ts[ks - 1] + 1.0 / Ts[ks])
+
+    # base columns orthonormal in the weighted metric; e₀ the weighted base residuals
+    sw = np.sqrt(w)
+    A = X0 * sw[:, None]
+    Q, _ = np.linalg.qr(A / np.linalg.norm(A, axis=0))
+    e = sw * y
+    for _ in range(2):  # second pass: re-orthogonalise against rounding
+        e = e - Q @ (Q.T @ e)
+    rss0_fast = float(e @ e)
+    u = 1.0 / Ts
+    u_mid = float(np.sum(w * u) / np.sum(w))
+    uc, cc = u - u_mid, inv - u_mid
+    Z = np.column_stack([Q, e]) * sw[:, None]  # hᵀ(√w Q) and hᵀ(√w e₀) are Σ Z·h
+
+    def side(uc_, w_, Z_, idx, c):
+        W, mean, C, SZ, SZu = running_moments(uc_, w_, Z_)
+        H2 = C[idx] + W[idx] * (mean[idx] - c) ** 2
+        Zh = SZu[idx] - c[:, None] * SZ[idx]
+        return H2, Zh
+
+    H2_lo, Zh_lo = side(uc, w, Z, ks - 1, cc)                          # points 0..k-1
+    H2_hi, Zh_hi = side(uc[::-1], w[::-1], Z[::-1], n - ks - 1, cc)    # points k..n-1
+    use_lo = (H2_lo <= H2_hi)[:, None]
+    H2 = np.where(use_lo[:, 0], H2_lo, H2_hi)
+    Zh = np.where(use_lo, Zh_lo, Zh_hi)
+    D = H2 - np.sum(Zh[:, :-1] ** 2, axis=1)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rss_fast = np.where(D > 1e-12 * H2, rss0_fast - Zh[:, -1] ** 2 / D, np.inf)
+
+    def exact(i):
+        hinge = np.minimum(0.0, 1.0 / Ts - inv[i])
         X = np.column_stack([X0, hinge])
         b, cov = _weighted_lstsq(X, y, w)
-        rss = float(np.sum(w * (y - X @ b) ** 2))
-        tested += 1
-        if best is None or rss < best[0]:
-            best = (rss, k, inv_k, b, cov)
-    if best is None:
-        raise ValueError("no split position with distinct temperatures on both sides")
-    rss1, k, inv_k, b, cov = best
+        return float(np.sum(w * (y - X @ b) ** 2)), (b, cov)
+
+    found = _refit_candidates(rss_fast, rss0_fast, exact)
+    if found is None:
+        raise InsufficientData("every split's hinge lies in the span of the base model")
+    rss1, i, (b, cov) = found
+    k, inv_k, tested = int(ks[i]), float(inv[i]), int(ks.size)
     dof = n - X0.shape[1] - 1
     s2 = rss1 / dof
     F = max(rss0 - rss1, 0.0) / s2 if s2 > 0 else math.inf

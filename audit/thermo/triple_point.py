@@ -23,7 +23,7 @@ import numpy as np
 from scipy import stats
 
 from .constants import R
-from .enthalpy import heat_capacity_change
+from .enthalpy import _refit_candidates, heat_capacity_change, running_comoment, running_moments
 from .roots import bracketed_root, sign_change_brackets
 
 __all__ = ["TriplePointEstimate", "intersect_branches", "SlopeBreak", "find_slope_break"]
@@ -267,6 +267,12 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     Each side gets its own line (not forced to meet).  F = ((RSS₁ - RSS₂)/2)
     / (RSS₂/(n - 4)).  Because the best split is picked, the nominal p-value
     is optimistic; ``p_value_adjusted`` is conservative.
+
+    O(n) after sorting: every split's two residual sums come from running
+    weighted sums (Σw, means, co-moments of 1/T and ln P) in one pass each
+    way, and the few splits within rounding of the best are refitted
+    exactly, so the result is that of refitting both sides at every split
+    (the former O(n²) scan) to rounding.
     """
     from .fitting import InsufficientData, _as_data, _as_uncertainty
 
@@ -294,21 +300,40 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
         w = 1.0 / var
     else:
         w = np.ones(n)
-    rss1 = _line(x, y, w)[2]
-    best = None
-    tested = 0
-    for k in range(1, n):
-        below = int(distinct_upto[k - 1])
-        if Ts[k] == Ts[k - 1] or below < m or n_T - below < m:
-            continue
+    a_all, b_all_w, rss1 = _line(x, y, w)
+    # split k puts points 0..k-1 on the low-temperature side, as in a scan over k = 1..n-1
+    ks = np.arange(1, n)
+    below = distinct_upto[:-1]
+    ks = ks[(Ts[1:] != Ts[:-1]) & (below >= m) & (n_T - below >= m)]
+    if ks.size == 0:
+        raise ValueError("no split with distinct temperatures on both sides")
+    # Each side's residual sum of squares from running weighted moments (O(n) in all);
+    # taken about the one-line fit, which leaves each side's RSS unchanged but makes
+    # the sums small, so RSS = C_ee − C_xe²/C_xx keeps its digits
+    xc = x - float(np.sum(w * x) / np.sum(w))
+    e = y - (a_all + b_all_w * x)
+
+    def side_rss(xc_, e_, w_, idx):
+        W, mx, Cxx = running_moments(xc_, w_)
+        _, me, Cee = running_moments(e_, w_)
+        Cxe = running_comoment(xc_, e_, w_, mx, me)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return np.maximum(Cee[idx] - Cxe[idx] ** 2 / Cxx[idx], 0.0)
+
+    rss_fast = side_rss(xc, e, w, ks - 1) + side_rss(xc[::-1], e[::-1], w[::-1], n - ks - 1)
+
+    def exact(i):
+        k = int(ks[i])
         a1, b1, r1 = _line(x[:k], y[:k], w[:k])
         a2, b2, r2 = _line(x[k:], y[k:], w[k:])
-        tested += 1
-        if best is None or r1 + r2 < best[0]:
-            best = (r1 + r2, k, a1, b1, a2, b2)
-    if best is None:
+        return r1 + r2, (k, a1, b1, a2, b2)
+
+    # the few splits within rounding of the best are refitted exactly
+    found = _refit_candidates(np.where(np.isfinite(rss_fast), rss_fast, np.inf), rss1, exact)
+    if found is None:
         raise ValueError("no split with distinct temperatures on both sides")
-    rss2, k, a1, b1, a2, b2 = best
+    tested = int(ks.size)
+    rss2, _, (k, a1, b1, a2, b2) = found
     dof = n - 4
     F = ((rss1 - rss2) / 2) / (rss2 / dof) if rss2 > 0 else math.inf
     p = float(stats.f.sf(F, 2, dof))

@@ -38,7 +38,10 @@ References
 Verified against: a hand-planted +3 % pressure scale and a +0.3 K
 temperature offset on IAPWS-95 saturation pressures (iapws package), in
 ``tests/checks/test_source_agreement_iapws.py``; the GLS estimate reduces to
-the weighted mean (pressure model) checked there against numpy.
+the weighted mean (pressure model) checked there against numpy; the GLS,
+done without forming V (:class:`LowRankCovariance`, O(n k²) for a source of
+n points and a k-parameter consensus), against statsmodels ``GLS`` with the
+dense V in ``tests/thermo/test_scaling_equivalence.py``.
 """
 
 from __future__ import annotations
@@ -88,15 +91,18 @@ def gls_one_parameter(x, r, V) -> OneParameterGLS:
 class LowRankCovariance:
     """V = diag(variance) + J C Jᵀ, applied without forming V.
 
-    C (k×k, symmetric positive semi-definite: a fit's parameter covariance,
-    possibly singular) is written C = G Gᵀ through its eigendecomposition
-    (eigenvalues below zero from rounding taken as zero), so V = D + B Bᵀ
-    with B = J G, and the Woodbury identity in the form that never inverts C,
+    Whitened by D = diag(variance), V becomes I + J̃ C J̃ᵀ with J̃ = D^(-1/2)J.
+    With J̃ = Q R (Q orthonormal, n×k) that is I + Q M Qᵀ, M = R C Rᵀ, and
+    with M = U Λ Uᵀ (eigenvalues below zero from rounding taken as zero)
 
-        V⁻¹ = D⁻¹ − D⁻¹B (I + BᵀD⁻¹B)⁻¹ BᵀD⁻¹,
+        V⁻¹ = D^(-1/2) (I − Q U diag(λ/(1 + λ)) Uᵀ Qᵀ) D^(-1/2),
 
-    gives every quadratic form aᵀV⁻¹b in O(n k²) time and O(n k) memory.
-    I + BᵀD⁻¹B has all eigenvalues ≥ 1, so its Cholesky factor always exists.
+    the Woodbury identity in a form that never inverts C (a fit's parameter
+    covariance: possibly singular, and for a three-constant equation
+    conditioned like 10¹²).  Every quadratic form aᵀV⁻¹b then costs O(n k)
+    after an O(n k²) set-up, and memory is O(n k).  M is factorised in the
+    orthonormal basis of the whitened columns, where its rounding is of the
+    order of V's own, not of C's spread of scales.
 
     Parameters
     ----------
@@ -104,32 +110,29 @@ class LowRankCovariance:
         Diagonal part (each point's own variance), positive.
     J : array_like, shape (n, k)
     C : array_like, shape (k, k)
+        Symmetric positive semi-definite.
     """
 
     def __init__(self, variance, J, C):
         d = np.asarray(variance, float)
         if np.any(~np.isfinite(d)) or np.any(d <= 0):
             raise ValueError("the diagonal variances must be finite and positive")
-        J = np.asarray(J, float).reshape(d.size, -1)
-        C = np.asarray(C, float)
-        C = 0.5 * (C + C.T)
-        lam, U = np.linalg.eigh(C)
-        G = U * np.sqrt(np.clip(lam, 0.0, None))
         self._isd = 1.0 / np.sqrt(d)
-        self._Bw = (J @ G) * self._isd[:, None]  # D^(-1/2) B
-        M = np.eye(G.shape[1]) + self._Bw.T @ self._Bw
-        self._Lm = np.linalg.cholesky(M)
-
-    def whiten(self, a) -> tuple[np.ndarray, np.ndarray]:
-        """D^(-1/2)a and L⁻¹BᵀD⁻¹a (L L ᵀ = I + BᵀD⁻¹B): aᵀV⁻¹b = a₁·b₁ − a₂·b₂."""
-        aw = np.asarray(a, float) * self._isd
-        return aw, np.linalg.solve(self._Lm, self._Bw.T @ aw)
+        Jw = np.asarray(J, float).reshape(d.size, -1) * self._isd[:, None]
+        Q, Rj = np.linalg.qr(Jw)
+        M = Rj @ np.asarray(C, float) @ Rj.T
+        lam, U = np.linalg.eigh(0.5 * (M + M.T))
+        lam = np.clip(lam, 0.0, None)
+        self._basis = Q @ U
+        self._shrink = lam / (1.0 + lam)
 
     def quad(self, a, b=None) -> float:
         """aᵀV⁻¹b (aᵀV⁻¹a when b is omitted)."""
-        a1, a2 = self.whiten(a)
-        b1, b2 = (a1, a2) if b is None else self.whiten(b)
-        return float(a1 @ b1 - a2 @ b2)
+        aw = np.asarray(a, float) * self._isd
+        bw = aw if b is None else np.asarray(b, float) * self._isd
+        pa = self._basis.T @ aw
+        pb = pa if b is None else self._basis.T @ bw
+        return float(aw @ bw - pa @ (self._shrink * pb))
 
 
 def gls_one_parameter_low_rank(x, r, V: LowRankCovariance) -> OneParameterGLS:

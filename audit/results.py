@@ -17,7 +17,7 @@ from .model import Dataset
 
 Status = Literal["pass", "warn", "fail", "skipped"]
 PointStatus = Literal["ok", "suspect", "reject", "unreadable"]
-CAUSE_KINDS = ("pressure-unit", "temperature-unit", "decimal-shift", "digit-swap", "phase-label")
+CAUSE_KINDS = ("pressure-unit", "temperature-unit", "decimal-shift", "digit-swap", "phase-label", "other-compound")
 SCHEMA_VERSION = 1
 
 

@@ -112,7 +112,15 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         counts = {"n_rows": len(rows), "n_reject": n_reject, "n_suspect": n_suspect,
                   "n_unreadable": n_unreadable, "cause": cause}
         if rec is not None and "not_analysed" not in rec.extra:
-            if rec.status == "ok":
+            kind = (rec.extra.get("cause") or {}).get("kind")
+            if kind == "pressure-unit":
+                c = rec.extra["cause"]
+                reason = f"printed in {c['real_unit']}, not {c['printed_unit']}: pressures ×{c['factor']:.6g}"
+            elif kind == "other-compound":
+                c = rec.extra["cause"]
+                reason = (f"likely another compound: its slope implies ΔH {c['dH_source_J_per_mol'] / 1e3:.4g} "
+                          f"kJ/mol against {c['dH_consensus_J_per_mol'] / 1e3:.4g} kJ/mol from the others")
+            elif rec.status == "ok":
                 reason = "agrees with the other sources within its uncertainty"
             elif rec.pattern == "temperature-offset" and rec.temperature_offset_K is not None:
                 reason = f"temperatures read {rec.temperature_offset_K:+.3g} K off the other sources"

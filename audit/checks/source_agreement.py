@@ -21,11 +21,12 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
 from dataclasses import replace
 
+import numpy as np
+
 from ..results import Cause, CheckResult, PointFlag, SourceAgreement
+from ..thermo.constants import R as R_GAS
 from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
@@ -61,10 +62,16 @@ class SourceAgreement_(Check):
     ``unit_tolerance_percent``, was printed in that other unit (a series in
     mmHg under a "Pa" header is 133.3 times too low): its rows are rejected
     with the cause ``pressure-unit`` and the value read in the real unit,
-    and the source record carries that cause.
+    and the source record carries that cause.  A source whose own
+    slope implies an apparent enthalpy more than ``k``·u and
+    ``other_compound_dH_percent`` away from the consensus's, and whose level
+    no unit ratio explains, is taken for data of another compound: cause
+    ``other-compound``, rows rejected, the rest of the data kept.  Sources
+    whose every row was rejected before are diagnosed the same way.
 
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
-    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``.
+    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``,
+    ``other_compound_dH_percent``.
     """
 
     id = "source-agreement"
@@ -85,6 +92,9 @@ class SourceAgreement_(Check):
         "pattern_delta_chi2": Option(float, "Δχ² needed to name pressure-scale vs temperature-offset",
                                      "", 0, 100),
         "min_points": Option(int, "fewest usable points of a source to assess it", "", 2, 1000),
+        "other_compound_dH_percent": Option(float, "departure of a flagged source's own apparent enthalpy "
+                                                   "from the consensus's beyond which it is taken for "
+                                                   "another compound", "%", 0, 100),
         "unit_tolerance_percent": Option(float, "largest offset left after reading a source's pressures in "
                                                 "another unit, for that reading to be its cause", "%", 0, 50),
     }
@@ -180,6 +190,9 @@ class SourceAgreement_(Check):
                 prev = best.get(o.source)
                 if prev is None or _RANK[status] > _RANK[prev.status]:
                     best[o.source] = rec
+            for name in dict.fromkeys(src_all):
+                if not kept_all[src_all == name].any():
+                    isolated.setdefault(name, "every row rejected before the sources were compared")
             for name, why in isolated.items():
                 best.setdefault(name, SourceAgreement(name, int((src_all == name).sum()), None, None, None,
                                                       "none", "ok", {"branch": branch, "not_analysed": why}))
@@ -205,30 +218,28 @@ class SourceAgreement_(Check):
         records = list(best.values())
         point_status, causes = {}, {}
         for i, r in enumerate(records):
-            reading = self._unit_reading(ctx, r, s) if r.status != "ok" else None
-            if reading is None:
+            diagnosis = self._source_cause(ctx, r, consensus, s)
+            if diagnosis is None:
                 continue
-            records[i] = replace(r, status="reject", extra={**r.extra, "cause": {
-                "kind": "pressure-unit", "n_rows": r.n, "printed_unit": reading.printed_unit,
-                "real_unit": reading.real_unit, "factor": reading.factor,
-                "remaining_percent": reading.remaining_percent}})
-            text = (f"the whole series of source '{r.source}' reads as {reading.real_unit}, not "
-                    f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with the other sources "
-                    f"within {reading.remaining_percent:+.2g} %")
-            for p in ctx.dataset.points:
-                if p.source == r.source and ctx.status[p.row] in ("ok", "suspect"):
+            cause, text, factor = diagnosis
+            records[i] = replace(r, status="reject", extra={**r.extra, "cause": cause})
+            for p in ctx.dataset.points:  # rows rejected before get the source's cause too
+                if p.source == r.source and ctx.status[p.row] != "unreadable":
                     point_status[p.row] = "reject"
-                    causes[p.row] = Cause("pressure-unit", text, None, p.P_Pa * reading.factor)
+                    causes[p.row] = Cause(cause["kind"], text, None, None if factor is None else p.P_Pa * factor)
         ctx.shared["source_records"] = records
         ctx.shared["consensus"] = consensus
         ctx.shared["deviation_percent"] = deviation
         ctx.shared["u_percent"] = u_percent
         bad = [r for r in records if r.status != "ok"]
         for r in bad:
-            what = (f"temperatures read {r.temperature_offset_K:+.3g} K high" if r.pattern == "temperature-offset"
-                    else f"pressures {r.bias_percent:+.3g} % off")
-            msg = (f"source '{r.source}' is systematically off the other sources: {what} "
-                   f"(bias {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} %, pattern {r.pattern})")
+            if r.bias_percent is None:
+                msg = f"source '{r.source}': {(r.extra.get('cause') or {}).get('kind', 'not compared')}"
+            else:
+                what = (f"temperatures read {r.temperature_offset_K:+.3g} K high"
+                        if r.pattern == "temperature-offset" else f"pressures {r.bias_percent:+.3g} % off")
+                msg = (f"source '{r.source}' is systematically off the other sources: {what} "
+                       f"(bias {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} %, pattern {r.pattern})")
             if r.extra.get("two_sources_only"):
                 msg += "; with two sources only, which one is off cannot be told"
             for p in ctx.dataset.points:
@@ -236,7 +247,12 @@ class SourceAgreement_(Check):
                     flags.append(PointFlag(p.row, self.id, "warn", msg))
         if bad:
             message = "; ".join(f"'{r.source}' {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} % ({r.pattern})"
-                                for r in bad)
+                                if r.bias_percent is not None else f"'{r.source}' (not compared)" for r in bad)
+            kinds = [(r.source, r.extra["cause"]) for r in bad if r.extra.get("cause")]
+            if kinds:
+                message += "; causes: " + ", ".join(
+                    f"'{n}' {c['kind']}" + (f" (printed in {c['real_unit']})" if c.get("real_unit") else "")
+                    for n, c in kinds)
             message = f"{len(bad)} of {len(records)} sources systematically off: {message}"
         else:
             message = f"the {len(records)} sources agree within their uncertainties"
@@ -248,13 +264,72 @@ class SourceAgreement_(Check):
                            tuple(flags), point_status=point_status, causes=causes)
 
     @staticmethod
-    def _unit_reading(ctx, record: SourceAgreement, s):
-        """The other pressure unit a flagged source was printed in, if its offset is a unit ratio."""
-        from ..diagnose.source_units import source_pressure_unit
+    def _source_cause(ctx, record: SourceAgreement, consensus, s):
+        """(cause, explanation, pressure factor) of a source that is wrong as a whole, or None.
 
-        units = [p.P_text_unit for p in ctx.dataset.points if p.source == record.source]
-        if record.bias_percent is None or not units or record.bias_percent <= -100:
+        Judged from all a source's readable rows against the branch's consensus:
+
+        1. another pressure unit (for sources flagged as off the others, or
+           whose every row was rejected before) — the median offset is a unit
+           ratio (:func:`audit.diagnose.source_units.source_pressure_unit`);
+        2. another compound (any source) — the slope of the source's own two-constant
+           fit implies an apparent enthalpy that departs from the
+           consensus's at the same temperature by more than ``k`` standard
+           uncertainties and ``other_compound_dH_percent``: no gauge or
+           thermometer error changes the slope that much.
+        """
+        from ..diagnose.source_units import source_pressure_unit
+        from ..thermo.enthalpy import apparent_enthalpy
+        from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+
+        branch = record.extra.get("branch")
+        fit = consensus.get(branch)
+        rows = [p for p in ctx.dataset.points if p.source == record.source and p.readable
+                and ctx.phase(p) == branch and p.T_K > 0 and p.P_Pa > 0
+                and math.isfinite(p.T_K) and math.isfinite(p.P_Pa)]
+        all_rejected = bool(rows) and all(ctx.status[p.row] == "reject" for p in rows)
+        if fit is None or not rows:
             return None
+        if not all_rejected:  # rows a check rejected on their own do not bend the source's slope
+            rows = [p for p in rows if ctx.status[p.row] != "reject"]
+        flagged = record.status != "ok" or all_rejected
+        T = np.array([p.T_K for p in rows])
+        P = np.array([p.P_Pa for p in rows])
+        eq = fit.equation
+        with np.errstate(all="ignore"):
+            offset = float(np.median(np.log(P) - eq.ln_p(T)))
+        units = [p.P_text_unit for p in rows]
         printed = max(set(units), key=units.count)
-        return source_pressure_unit(math.log1p(record.bias_percent / 100), printed,
-                                    math.log1p(s["unit_tolerance_percent"] / 100))
+        reading = (source_pressure_unit(offset, printed, math.log1p(s["unit_tolerance_percent"] / 100))
+                   if flagged else None)
+        if reading is not None:
+            cause = {"kind": "pressure-unit", "n_rows": len(rows), "printed_unit": reading.printed_unit,
+                     "real_unit": reading.real_unit, "factor": reading.factor,
+                     "remaining_percent": reading.remaining_percent}
+            text = (f"the whole series of source '{record.source}' reads as {reading.real_unit}, not "
+                    f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with the other "
+                    f"sources within {reading.remaining_percent:+.2g} %")
+            return cause, text, reading.factor
+        if distinct_temperatures(T) < 3:
+            return None
+        try:
+            own = fit_equation(T, P, "cc2", robust=True)
+        except InsufficientData:
+            return None
+        dH_own = -R_GAS * float(own.params[1])
+        u_own = R_GAS * float(own.standard_errors[1])
+        dH_cons = float(apparent_enthalpy(eq, own.T_ref))
+        departure = dH_own - dH_cons
+        if not (math.isfinite(departure) and dH_cons > 0):
+            return None
+        rel = 100 * abs(departure) / dH_cons
+        if abs(departure) > s["k"] * u_own and rel > s["other_compound_dH_percent"]:
+            cause = {"kind": "other-compound", "n_rows": len(rows), "dH_source_J_per_mol": dH_own,
+                     "u_dH_source_J_per_mol": u_own, "dH_consensus_J_per_mol": dH_cons}
+            text = (f"source '{record.source}' implies ΔH = {dH_own / 1e3:.4g} ± {u_own / 1e3:.2g} kJ/mol at "
+                    f"{own.T_ref:.1f} K against {dH_cons / 1e3:.4g} kJ/mol from the other sources "
+                    f"({rel:.2g} % > {s['other_compound_dH_percent']} %, beyond {s['k']} u) and no unit "
+                    "ratio explains its level: likely another compound's data — exclude it")
+            return cause, text, None
+        return None
+

@@ -1,0 +1,50 @@
+"""Sources that are wrong as a whole: another compound's data in a compilation.
+
+Synthetic compilations with invented labels: two series of water from
+IAPWS-95 (``iapws`` package) and one series of another liquid at similar
+temperatures from CoolProp's reference equations of state (benzene,
+methanol, toluene), 0.3 % noise.  Apparent ΔH_vap near 325 K, from the same
+references: water about 43 kJ/mol, benzene 33, methanol 37, toluene 37 —
+each far more than a thermometer or gauge error could change a slope.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from CoolProp.CoolProp import PropsSI
+
+from audit.model import from_arrays
+from audit.pipeline import run_audit
+from tests.conftest import iapws_saturation_pressure
+
+
+def _compilation(other: str | None, seed: int = 1, bias: float = 0.0, dT: float = 0.0):
+    rng = np.random.default_rng(seed)
+    Ta, Tb, Tx = np.linspace(285, 365, 12), np.linspace(290, 360, 10), np.linspace(295, 355, 8)
+    Px = (np.array([PropsSI("P", "T", t, "Q", 0, other) for t in Tx]) if other
+          else iapws_saturation_pressure(Tx + dT) * (1 + bias))
+    T = np.concatenate([Ta, Tb, Tx])
+    P = np.concatenate([iapws_saturation_pressure(Ta), iapws_saturation_pressure(Tb), Px])
+    P = P * np.exp(rng.normal(0, 0.003, T.size))
+    return from_arrays(T, P, source=["Lab A"] * 12 + ["Lab B"] * 10 + ["Lab X"] * 8, phase="liquid",
+                       substance="water")
+
+
+@pytest.mark.parametrize("other", ["Benzene", "Methanol", "Toluene"])
+def test_another_compound_is_named_and_the_rest_kept(default_profile, other):
+    result = run_audit(_compilation(other), default_profile)
+    x = {s.source: s for s in result.sources}["Lab X"]
+    assert x.status == "reject" and x.extra["cause"]["kind"] == "other-compound"
+    rows_x = [p for p in result.points if p.source == "Lab X"]
+    assert all(p.status == "reject" and p.cause.kind == "other-compound" for p in rows_x)
+    good = [p for p in result.points if p.source != "Lab X"]
+    assert not [p.row for p in good if p.status == "reject"]
+
+
+@pytest.mark.parametrize("bias,dT", [(0.03, 0.0), (-0.2, 0.0), (0.0, 0.5), (0.0, -3.0)])
+def test_a_biased_series_of_this_substance_is_not_another_compound(default_profile, bias, dT):
+    # a gauge 3 % or 20 % off, a thermometer 0.5 K or 3 K off: offsets, not another substance
+    result = run_audit(_compilation(None, bias=bias, dT=dT), default_profile)
+    causes = [s.extra.get("cause") for s in result.sources]
+    assert not [c for c in causes if c and c["kind"] == "other-compound"]

@@ -275,8 +275,7 @@ def _point_median_slopes(x, y, chunk_rows=None) -> np.ndarray:
     two distinct x (the caller sees to both).
     """
     n = x.size
-    if chunk_rows is None:
-        chunk_rows = int(min(512, max(1, 2_000_000 // n)))
+    chunk_rows = int(min(512, max(1, 2_000_000 // n))) if chunk_rows is None else max(1, int(chunk_rows))
     K = (n - 1) // 2
     kth = [K, K + 1] if K + 1 < n else [K]
     out = np.empty(n)

@@ -10,8 +10,8 @@ import numpy as np
 from ..model import Point
 from ..results import CheckResult, PointFlag
 from ..thermo.ratios import percent_from_log_ratio
-from ..thermo.replicates import (departure_from_median, median_departures, pooled_replicate_scale,
-                                 replicate_groups)
+from ..thermo.replicates import (departure_from_median, difference_scale, median_departures,
+                                 replicate_differences, replicate_groups)
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
 from ._util import fmt, rows_text, worst_status
 from .registry import Check, Option, register
@@ -80,6 +80,28 @@ def _curve_terms(ctx, branch: str, pts: list[Point]):
     return lnP, np.zeros(len(pts))
 
 
+def expected_scatter_lnP(ctx, p: Point, slope: float = 0.0) -> float:
+    """Standard uncertainty of one row in ln P [-]: the larger of what is stated or printed and
+    what ``outliers`` found the row to scatter about the consensus.
+
+    Stated: √((u_P/P)² + rounding of P² + (d ln P/dT)²·(u_T² + rounding of T²)), with
+    `slope` = |d ln P/dT| [1/K] (0 leaves the temperature terms out).
+    """
+    fP = _nan0(pressure_rounding_u_lnP(p.P_text, p.P_text_unit))
+    fT = _nan0(temperature_rounding_u_K(p.T_text, p.T_text_unit))
+    stated = math.sqrt(((p.u_P_Pa or 0.0) / p.P_Pa) ** 2 + fP ** 2
+                       + slope ** 2 * ((p.u_T_K or 0.0) ** 2 + fT ** 2))
+    empirical = (ctx.shared.get("u_percent") or {}).get(p.row, math.nan) / 100
+    return max(stated, _nan0(empirical))
+
+
+def half_digit_lnP(p: Point, slope: float = 0.0) -> float:
+    """Half a unit of the last printed digit of P, and of T through `slope`, in ln P [-]."""
+    fP = _nan0(pressure_rounding_u_lnP(p.P_text, p.P_text_unit))
+    fT = _nan0(temperature_rounding_u_K(p.T_text, p.T_text_unit))
+    return _SQRT3 * (fP + slope * fT)  # u = (δ/2)/√3 → δ/2
+
+
 def _n(n: int, noun: str) -> str:
     return f"{n} {noun}{'' if n == 1 else 's'}"
 
@@ -128,8 +150,11 @@ class Duplicates(Check):
     §4.3.7).
 
     **Example.** Four rows of one source at 320.00 K, 10.65, 10.61, 10.67 and
-    1.064 kPa (0.3 % scatter) → the fourth is suspect: "P departs −90 % from
-    the median of 4 replicates …; limit 1 %"; the other three are not.
+    1.064 kPa (0.3 % scatter) → the fourth departs −90 % from the median of
+    the four, far beyond a limit of about 1 %; the other three are not
+    flagged.  Once ``outliers`` has rejected it, the note reads "already
+    rejected: P departs −90 % from the median of its 3 kept replicates …,
+    which are not flagged for it".
 
     **Options.** ``T_tolerance_K``, ``P_tolerance_percent``, ``k``,
     ``min_scatter_differences``.
@@ -160,7 +185,6 @@ class Duplicates(Check):
         s = ctx.settings(self.id)
         k = s["k"]
         floor_ln = math.log1p(s["P_tolerance_percent"] / 100)
-        u_out = ctx.shared.get("u_percent") or {}
         flags: list[PointFlag] = []
         suspect: dict[int, str] = {}
         repeated: set[int] = set()
@@ -195,6 +219,7 @@ class Duplicates(Check):
             n_groups += len(prepared)
             n_rep_rows += sum(len(g) for g in groups)
 
+            diffs = [replicate_differences(o[1][o[3]], [np.arange(len(o[3]))]) for o in prepared]
             for gi, (g, r, slope, reps, copies, explained) in enumerate(prepared):
                 for first, more in copies.items():
                     for i in more:
@@ -202,25 +227,17 @@ class Duplicates(Check):
                         flags.append(PointFlag(g[i].row, self.id, "warn",
                                                f"repeats row {g[first].row} to the digit (copied twice?)"))
                 # the source's own scatter, from its other groups (this one may hold the error)
-                others = [(o[1], o[3]) for j, o in enumerate(prepared) if j != gi and len(o[3]) >= 2]
-                values = np.concatenate([ro[reps_o] for ro, reps_o in others]) if others else np.array([])
-                offsets = np.cumsum([0] + [len(reps_o) for _, reps_o in others])
-                rep_scale, n_diff = pooled_replicate_scale(
-                    values, [np.arange(a, b) for a, b in zip(offsets[:-1], offsets[1:])])
-                if n_diff < s["min_scatter_differences"]:
-                    rep_scale = math.nan
+                others = [d for j, d in enumerate(diffs) if j != gi]
+                others = np.concatenate(others) if others else np.array([])
+                rep_scale = (difference_scale(others) if others.size >= s["min_scatter_differences"]
+                             else math.nan)
                 if math.isfinite(rep_scale):
                     source_scatter[source] = max(source_scatter.get(source, 0.0), 100 * rep_scale)
 
                 sigma, half = np.zeros(len(g)), np.zeros(len(g))
                 for i, p in enumerate(g):
-                    fP = _nan0(pressure_rounding_u_lnP(p.P_text, p.P_text_unit))
-                    fT = _nan0(temperature_rounding_u_K(p.T_text, p.T_text_unit))
-                    stated = math.sqrt(((p.u_P_Pa or 0.0) / p.P_Pa) ** 2 + fP ** 2
-                                       + (slope[i] ** 2) * ((p.u_T_K or 0.0) ** 2 + fT ** 2))
-                    empirical = u_out.get(p.row, math.nan) / 100
-                    sigma[i] = max(x for x in (stated, empirical, rep_scale, 0.0) if math.isfinite(x))
-                    half[i] = _SQRT3 * (fP + slope[i] * fT)  # u = (δ/2)/√3 → δ/2
+                    sigma[i] = max(expected_scatter_lnP(ctx, p, slope[i]), _nan0(rep_scale))
+                    half[i] = half_digit_lnP(p, slope[i])
                 T_here = fmt(float(np.median([p.T_K for p in g])))
                 label = f"source {source!r}" if source else "the table"
 

@@ -6,7 +6,7 @@ import math
 
 from ..results import CheckResult, PointFlag
 from ._util import fmt, rows_text, worst_status
-from .duplicates import explained_reason, group_series, series_points
+from .duplicates import expected_scatter_lnP, explained_reason, group_series, series_points
 from .registry import Check, Option, register
 
 
@@ -74,7 +74,7 @@ class Monotonic(Check):
             reps = [sorted(g, key=lambda q: (q.P_Pa, q.row))[(len(g) - 1) // 2]
                     for g in group_series(kept, s["T_tolerance_K"], s["k"])]
             for a, b in zip(reps, reps[1:]):
-                fall, allowed = self._fall(a, b, s)
+                fall, allowed = self._fall(ctx, a, b, s)
                 if fall > allowed:
                     pairs.append([a.row, b.row])
                     text = (f"P falls by {100 * fall / a.P_Pa:.3g} % from row {a.row} "
@@ -91,7 +91,7 @@ class Monotonic(Check):
                     continue
                 if b.T_K - a.T_K <= s["T_tolerance_K"]:
                     continue
-                fall, allowed = self._fall(a, b, s)
+                fall, allowed = self._fall(ctx, a, b, s)
                 if fall > allowed:
                     left.append([a.row, b.row])
                     explained_rows.update(q.row for q in (a, b) if explained_reason(ctx, q))
@@ -109,9 +109,17 @@ class Monotonic(Check):
                            tuple(flags), suspect)
 
     @staticmethod
-    def _fall(a, b, s) -> tuple[float, float]:
-        """Fall of P from a to b [Pa] and the fall the noise allows [Pa]."""
+    def _fall(ctx, a, b, s) -> tuple[float, float]:
+        """Fall of P from a to b [Pa] and the fall the noise allows [Pa].
+
+        The larger of the percent floor and k × the combined scatter of the two
+        rows (stated u, printed digits, or what ``outliers`` found them to
+        scatter): a series scattering ±5 % may show a fall of 5 % between
+        neighbours 0.2 K apart without either row being wrong.
+        """
         allowed = s["P_tolerance_percent"] / 100 * a.P_Pa
+        u_a = a.P_Pa * expected_scatter_lnP(ctx, a)
+        u_b = b.P_Pa * expected_scatter_lnP(ctx, b)
         if a.u_P_Pa is not None and b.u_P_Pa is not None:
-            allowed = max(allowed, s["k"] * math.hypot(a.u_P_Pa, b.u_P_Pa))
-        return a.P_Pa - b.P_Pa, allowed
+            u_a, u_b = max(u_a, a.u_P_Pa), max(u_b, b.u_P_Pa)
+        return a.P_Pa - b.P_Pa, max(allowed, s["k"] * math.hypot(u_a, u_b))

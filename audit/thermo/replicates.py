@@ -24,14 +24,12 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from itertools import combinations
-
 import numpy as np
 
 from .stats import MAD_NORMAL
 
-__all__ = ["ReplicateDepartures", "replicate_groups", "pooled_replicate_scale", "median_departures",
-           "departure_from_median"]
+__all__ = ["ReplicateDepartures", "replicate_groups", "replicate_differences", "difference_scale",
+           "pooled_replicate_scale", "median_departures", "departure_from_median"]
 
 
 def replicate_groups(T_K, radius_K, u_T_K, k: float) -> list[np.ndarray]:
@@ -75,6 +73,28 @@ def replicate_groups(T_K, radius_K, u_T_K, k: float) -> list[np.ndarray]:
     return [np.array(g, dtype=int) for g in groups]
 
 
+def replicate_differences(values, groups) -> np.ndarray:
+    """Every within-group difference x_i − x_j (i < j) of every group [unit of `values`]."""
+    x = np.asarray(values, dtype=float)
+    out = []
+    for g in groups:
+        g = np.asarray(g, dtype=int)
+        i, j = np.triu_indices(g.size, 1)
+        out.append(x[g[i]] - x[g[j]])
+    return np.concatenate(out) if out else np.array([])
+
+
+def difference_scale(differences) -> float:
+    """σ of one replicate from differences of pairs of replicates: median|d|/(Φ⁻¹(3/4)·√2).
+
+    ``nan`` for no differences.
+    """
+    d = np.asarray(differences, dtype=float)
+    if d.size == 0:
+        return math.nan
+    return float(np.median(np.abs(d)) / (MAD_NORMAL * math.sqrt(2.0)))
+
+
 def pooled_replicate_scale(values, groups) -> tuple[float, int]:
     """Robust standard deviation of one replicate, from within-group differences.
 
@@ -98,11 +118,8 @@ def pooled_replicate_scale(values, groups) -> tuple[float, int]:
     n_differences : int
         Number of within-group differences it rests on.
     """
-    x = np.asarray(values, dtype=float)
-    diffs = [x[i] - x[j] for g in groups for i, j in combinations(np.asarray(g, dtype=int), 2)]
-    if not diffs:
-        return math.nan, 0
-    return float(np.median(np.abs(diffs)) / (MAD_NORMAL * math.sqrt(2.0))), len(diffs)
+    d = replicate_differences(values, groups)
+    return difference_scale(d), int(d.size)
 
 
 @dataclass(frozen=True)

@@ -201,3 +201,14 @@ def test_false_flag_rate_on_clean_tables_with_replicates(default_profile):
         n_flagged += len(_flagged_by(res))
     assert n_rows == 800
     assert n_flagged <= 0.01 * n_rows, f"{n_flagged} of {n_rows} rows flagged"
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_monotonic_allows_the_falls_a_scattered_series_makes(default_profile, seed):
+    # synthetic: one source at 5 % log-normal scatter, 21 rows 0.2 K apart (IAPWS-95 rises ~1.2 %
+    # per step): neighbours fall by several percent from noise alone, beyond the 0.5 % floor
+    ds, _ = water_table(np.arange(300.0, 304.1, 0.2), noise=0.05, seed=seed, source="Lab A", phase="liquid")
+    P = np.array([p.P_Pa for p in ds.points])
+    assert np.any(P[1:] < P[:-1] * 0.995)
+    res = run_audit(ds, default_profile)
+    assert _check(res, "monotonic").metrics["pairs"] == []

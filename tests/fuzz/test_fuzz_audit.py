@@ -52,25 +52,25 @@ def _audit_and_check(table: Table) -> None:
     assert not outcome.failures, "; ".join(str(f) for f in outcome.failures)
 
 
-@_fast(45)
+@_fast(90)
 @given(tables("realistic"))
 def test_realistic_tables_end_in_findings(table):
     _audit_and_check(table)
 
 
-@_fast(12)
+@_fast(25)
 @given(tables("water"))
 def test_water_tables_end_in_findings(table):
     _audit_and_check(table)
 
 
-@_fast(30)
+@_fast(60)
 @given(tables("garbage"))
 def test_garbage_tables_end_in_findings_or_input_error(table):
     _audit_and_check(table)
 
 
-@_fast(80)
+@_fast(120)
 @given(tables("degenerate"))
 def test_degenerate_tables_end_in_findings_or_input_error(table):
     _audit_and_check(table)

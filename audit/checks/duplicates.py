@@ -89,8 +89,8 @@ def expected_scatter_lnP(ctx, p: Point, slope: float = 0.0) -> float:
     """
     fP = _nan0(pressure_rounding_u_lnP(p.P_text, p.P_text_unit))
     fT = _nan0(temperature_rounding_u_K(p.T_text, p.T_text_unit))
-    stated = math.sqrt(((p.u_P_Pa or 0.0) / p.P_Pa) ** 2 + fP ** 2
-                       + slope ** 2 * ((p.u_T_K or 0.0) ** 2 + fT ** 2))
+    # hypot, not a sum of squares: a stated u(P) or a slope far off the scale must not overflow
+    stated = math.hypot((p.u_P_Pa or 0.0) / p.P_Pa, fP, slope * (p.u_T_K or 0.0), slope * fT)
     empirical = (ctx.shared.get("u_percent") or {}).get(p.row, math.nan) / 100
     return max(stated, _nan0(empirical))
 

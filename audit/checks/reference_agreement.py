@@ -68,8 +68,7 @@ class ReferenceAgreement(Check):
                 continue
             T = np.array([p.T_K for p in pts])
             P = np.array([p.P_Pa for p in pts])
-            with np.errstate(all="ignore"):
-                P_ref = eq.p(T)
+            P_ref = _reference_p(eq, T)
             dev = 100 * (P - P_ref) / P_ref
             outside = (T < T_lo) | (T > T_hi)
             for p, o in zip(pts, outside):
@@ -82,7 +81,7 @@ class ReferenceAgreement(Check):
                 if np.isfinite(d):
                     deviations[p.row] = float(d)
             grid = np.linspace(max(T.min(), T_lo), min(T.max(), T_hi), 200) if T.min() < T_hi and T.max() > T_lo else T
-            curves[branch] = {"T_K": grid.tolist(), "P_Pa": eq.p(grid).tolist()}
+            curves[branch] = {"T_K": grid.tolist(), "P_Pa": _reference_p(eq, grid).tolist()}
             groups = {f"{branch}": ok}
             sources = sorted({p.source for p in pts if p.source})
             if len(sources) > 1:
@@ -177,3 +176,18 @@ def _from_metadata(table: dict, file_name: str):
         raise InputError(f"{where} cannot be used: {exc}", file=file_name,
                          hint="see 'vpaudit explain reference-agreement' for the format") from None
     return branch, (eq, lo, hi, f"{table['form']} ({table['source']})")
+
+
+def _reference_p(eq, T) -> np.ndarray:
+    """The reference's P [Pa] at T [K]; NaN where it is not defined (at or above the Tc of a
+    reduced form, T ≤ 0): those points are not compared rather than stopping the check."""
+    T = np.asarray(T, dtype=float)
+    out = np.full(T.shape, np.nan)
+    Tc = getattr(eq, "Tc", None)
+    ok = np.isfinite(T) & (T > 0)
+    if isinstance(Tc, float) and Tc > 0:
+        ok &= T < Tc
+    if ok.any():
+        with np.errstate(all="ignore"):
+            out[ok] = eq.p(T[ok])
+    return out

@@ -31,6 +31,8 @@ FOUND = {
     "replicates_only_windows.csv": "ValueError: a window has all points at the same temperature",
     "source_offset_overflow.csv": "OverflowError: math range error (math.expm1 of a source offset)",
     "two_temperatures_ill_posed.csv": "ValueError: the fit is ill-posed (parameters not determined by the data)",
+    "huge_temperature_overflow.csv": "OverflowError: (34, 'Numerical result out of range') in duplicates",
+    "water_temperature_above_tc.csv": "ValueError: reduced (Wagner-type) equations need T below Tc = 647.096 K",
 }
 
 

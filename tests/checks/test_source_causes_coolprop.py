@@ -31,7 +31,9 @@ def _compilation(other: str | None, seed: int = 1, bias: float = 0.0, dT: float 
                        substance="water")
 
 
-@pytest.mark.parametrize("other", ["Benzene", "Methanol", "Toluene"])
+# toluene, whose pressures near 325 K lie within a few percent of water's, is not flagged
+# as off the others and so not tested for its slope (see source-agreement's Method)
+@pytest.mark.parametrize("other", ["Benzene", "Methanol"])
 def test_another_compound_is_named_and_the_rest_kept(default_profile, other):
     result = run_audit(_compilation(other), default_profile)
     x = {s.source: s for s in result.sources}["Lab X"]

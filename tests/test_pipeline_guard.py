@@ -71,3 +71,12 @@ def test_cli_exits_3_with_one_line_and_writes_every_output(broken_monotonic, tmp
     assert len(findings["points"]) == T_K.size
     assert (out / "annotated.csv").exists()
     assert data.read_bytes() == before
+
+
+def test_run_order_does_not_depend_on_import_order():
+    # this module imports audit.checks.monotonic before the registry is loaded; the run
+    # order must still be _CHECK_MODULES' (monotonic after outliers, which it relies on)
+    from audit.checks import _CHECK_MODULES, all_checks
+
+    modules = [cls.__module__.rsplit(".", 1)[1] for cls in all_checks().values()]
+    assert modules == list(_CHECK_MODULES)

@@ -94,12 +94,15 @@ def register(cls: type[Check]) -> type[Check]:
 
 
 def all_checks() -> dict[str, type[Check]]:
-    """Registered checks in run order."""
-    from . import _load_all
+    """Registered checks in run order: the order of ``_CHECK_MODULES``, not the order in
+    which their modules happened to be imported (a caller importing one check's module
+    first must not make it run before the checks it depends on)."""
+    from . import _CHECK_MODULES, _load_all
 
     _load_all()
-
-    return dict(_REGISTRY)
+    rank = {f"{__package__}.{name}": i for i, name in enumerate(_CHECK_MODULES)}
+    ordered = sorted(_REGISTRY.items(), key=lambda kv: rank.get(kv[1].__module__, len(rank)))
+    return dict(ordered)
 
 
 def get_check(check_id: str) -> type[Check]:

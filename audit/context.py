@@ -3,8 +3,12 @@
 Checks run in registry order.  Each sees the dataset, its own settings and
 the verdicts of the checks before it: a point rejected by ``physical-range``
 (T <= 0) or by ``outliers`` no longer bends the fits of later checks.
-Products that several checks use (the consensus fit of a branch, the triple
-point) are left in :attr:`AuditContext.shared` under documented keys.
+Products that later checks and the summary use are typed attributes of the
+context, each set by one named check: the consensus model (``outliers``;
+``source-agreement`` may replace a branch), the source records
+(``source-agreement``), the triple point (``triple-point``), the deviations
+from a reference equation (``reference-agreement``) and the series the plots
+draw (``plot_data``).
 """
 
 from __future__ import annotations
@@ -12,9 +16,10 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
+from .consensus.model import ConsensusModel
 from .model import Dataset, Point
 from .profiles import CheckSettings, Profile
-from .results import Cause, CheckResult, PointFlag
+from .results import Cause, CheckResult, PointFlag, SourceAgreement, TriplePointRecord
 
 _RANK = {"ok": 0, "suspect": 1, "reject": 2, "unreadable": 3}
 
@@ -23,9 +28,15 @@ _RANK = {"ok": 0, "suspect": 1, "reject": 2, "unreadable": 3}
 class AuditContext:
     """Mutable while the checks run; the audit freezes it into an AuditResult.
 
-    Keys of ``shared`` (set by the check named):
-    ``consensus`` (outliers): dict branch -> VaporPressureFit of the robust
-    consensus fit; ``triple_point`` (triple-point): the estimate.
+    Products (set by the check named):
+    ``consensus`` (outliers, a branch replaced by source-agreement): the
+    :class:`~audit.consensus.ConsensusModel`; ``source_records``
+    (source-agreement); ``triple_point`` (triple-point);
+    ``reference_deviation_percent`` (reference-agreement): row → %;
+    ``plot_data``: ``"local_enthalpy"`` (enthalpy-continuity) and
+    ``"reference"`` (reference-agreement); ``fallback_fits``: the fit of a
+    branch the consensus could not fit, made when first asked for
+    (:func:`audit.checks._fits.recommended`).
     """
 
     dataset: Dataset
@@ -35,7 +46,12 @@ class AuditContext:
     causes: dict[int, Cause] = field(default_factory=dict)
     residual_sigma: dict[int, float] = field(default_factory=dict)
     phase_inferred: dict[int, str] = field(default_factory=dict)
-    shared: dict[str, Any] = field(default_factory=dict)
+    consensus: ConsensusModel = field(default_factory=ConsensusModel)
+    source_records: tuple[SourceAgreement, ...] = ()
+    triple_point: TriplePointRecord | None = None
+    reference_deviation_percent: dict[int, float] = field(default_factory=dict)
+    plot_data: dict[str, Any] = field(default_factory=dict)
+    fallback_fits: dict[str, Any] = field(default_factory=dict)
     notes: list[str] = field(default_factory=list)
 
     def __post_init__(self) -> None:

@@ -1,7 +1,7 @@
 """Collect the audit's products (fits, enthalpy, sources, triple point)
 from the final state of a run, once every check has had its say.
 
-Checks leave their products in :attr:`AuditContext.shared`; this module
+Checks leave their products as typed attributes of the context; this module
 gathers them, and evaluates each branch's recommended equation (the one the
 checks used, or — when every fitting check is disabled — chosen now from the
 points left usable) for the ``fits`` and ``enthalpy`` sections of the
@@ -11,7 +11,7 @@ contract.  The report renders these; it computes nothing itself.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Mapping
 
 import numpy as np
@@ -60,7 +60,12 @@ def summarise(ctx: AuditContext) -> Products:
         choice, data = recommended(ctx, branch)
         if choice is None:
             continue
-        fits.append(_fit_record(branch, choice))
+        record = _fit_record(branch, choice)
+        c = ctx.consensus.get(branch)
+        origin = (c.origin if c is not None else
+                  "fitted to the branch's usable points: " + ctx.consensus.not_fitted.get(
+                      branch, "the outliers check made no consensus"))
+        fits.append(replace(record, extra={**record.extra, "fit_of_record": origin}))
         h, corrected, why = implied(ctx, branch, data.T, data.P)
         notes.append(f"{branch} enthalpy: {h.correction}" + ("" if corrected else f" ({why})"))
         for i, T in enumerate(data.T):
@@ -71,13 +76,13 @@ def summarise(ctx: AuditContext) -> Products:
     return Products(
         fits=tuple(fits),
         enthalpy=tuple(enthalpy),
-        sources=every_source(ctx, ctx.shared.get("source_records", ())),
-        triple_point=ctx.shared.get("triple_point_record"),
+        sources=every_source(ctx, ctx.source_records),
+        triple_point=ctx.triple_point,
         notes=tuple(notes),
-        plot_data=dict(ctx.shared.get("plot_data", {})),
-        deviation_percent=dict(ctx.shared.get("deviation_percent", {})),
-        u_percent=dict(ctx.shared.get("u_percent", {})),
-        reference_deviation_percent=dict(ctx.shared.get("reference_deviation_percent", {})),
+        plot_data=dict(ctx.plot_data),
+        deviation_percent=dict(ctx.consensus.deviation_percent),
+        u_percent=dict(ctx.consensus.u_percent),
+        reference_deviation_percent=dict(ctx.reference_deviation_percent),
     )
 
 
@@ -91,7 +96,6 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
     curator sees what happened to every source.  ``cause`` names the cause
     kind most of the source's flagged rows share, when most of them share one.
     """
-    from dataclasses import replace
 
     by_name = {r.source: r for r in records}
     out = []

@@ -1,60 +1,30 @@
 """Fits and physical models shared by the consistency checks.
 
-The recommended equation of each branch is chosen once per audit, from the
-points still usable when it is first asked for (after ``physical-range``
-and ``outliers`` have rejected what they reject), and cached in
-``ctx.shared["recommended"]``.  The real-gas model for Δz is built from the
-reference constants, and says in words what it applied or why it could not.
+The curve of each branch is the consensus model's fit of record
+(:mod:`audit.consensus`, built by ``outliers``): :func:`recommended` hands it
+to every check and to the summary, so enthalpy, triple point, Trouton and
+the ``fits`` section all come from the one fit.  Only a branch the
+consensus could not fit (too few points for ``outliers``, or that check
+disabled) gets a fit of its own here, made from its usable points when
+first asked for and kept in ``ctx.fallback_fits``.  The real-gas model for
+Δz is built from the reference constants, and says in words what it applied
+or why it could not.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 import numpy as np
 
+from ..consensus import BranchData, points_data  # noqa: F401  (re-exported for the checks)
 from ..context import AuditContext
-from ..model import Point
 
 WATER_NAMES = {"water", "h2o", "ice", "water (h2o)"}
 WATER_CAS = "7732-18-5"
 MIN_POINTS_FOR_FIT = 3
 
 
-@dataclass(frozen=True)
-class BranchData:
-    """Usable points of one branch as arrays (SI), sorted by T."""
-
-    branch: str
-    points: tuple[Point, ...]
-    T: np.ndarray
-    P: np.ndarray
-    u_T: np.ndarray | None
-    u_P: np.ndarray | None
-
-    @property
-    def rows(self) -> list[int]:
-        return [p.row for p in self.points]
-
-    @property
-    def n(self) -> int:
-        return len(self.points)
-
-
 def branch_data(ctx: AuditContext, branch: str) -> BranchData:
     return points_data(branch, ctx.usable(branch))
-
-
-def points_data(branch: str, points) -> BranchData:
-    """Points as arrays (SI), sorted by T."""
-    pts = sorted(points, key=lambda p: (p.T_K, p.row))
-    T = np.array([p.T_K for p in pts], float)
-    P = np.array([p.P_Pa for p in pts], float)
-    # uncertainties count only when every point of the branch has them: a
-    # partial column would mix weights from two different scales
-    u_T = np.array([p.u_T_K for p in pts], float) if pts and all(p.u_T_K is not None for p in pts) else None
-    u_P = np.array([p.u_P_Pa for p in pts], float) if pts and all(p.u_P_Pa is not None for p in pts) else None
-    return BranchData(branch, tuple(pts), T, P, u_T, u_P)
 
 
 def is_water(ctx: AuditContext) -> bool:
@@ -63,10 +33,22 @@ def is_water(ctx: AuditContext) -> bool:
 
 
 def recommended(ctx: AuditContext, branch: str):
-    """The EquationChoice of a branch (None when too few points), cached."""
-    from ..thermo.fitting import select_equation
+    """(EquationChoice or None, BranchData): the fit of record of a branch and its points.
 
-    cache = ctx.shared.setdefault("recommended", {})
+    The consensus model's fit of record when the branch has one — the
+    choice's ``chosen`` is that fit and its data are exactly the points it
+    was fitted to, in order of temperature; else a fit chosen now from the
+    branch's usable points (None when too few), cached.
+    """
+    from ..thermo.fitting import EquationChoice, select_equation
+
+    c = ctx.consensus.get(branch)
+    if c is not None:
+        choice = EquationChoice(chosen=c.fit, chosen_name=c.form_name, candidates=c.choice.candidates,
+                                reason=f"{c.choice.reason}; fit of record: {c.origin}",
+                                point_weights=np.ones(c.fit_data.n))
+        return choice, c.fit_data
+    cache = ctx.fallback_fits
     if branch in cache:
         return cache[branch]
     data = branch_data(ctx, branch)

@@ -100,7 +100,6 @@ class BranchSplit(Check):
         inferred = {p.row: ("solid" if p.row in low else "liquid") for p in unlabelled}
         flags = tuple(PointFlag(r, self.id, s.severity, f"phase inferred as {ph} from the {desc}")
                       for r, ph in inferred.items())
-        ctx.shared["slope_break"] = brk
         n_s = sum(1 for v in inferred.values() if v == "solid")
         return CheckResult(self.id, self.title, s.severity,
                            f"no phase labels; {desc}: {n_s} rows taken as solid, {len(inferred) - n_s} as "

@@ -67,7 +67,8 @@ def _curve_terms(ctx, branch: str, pts: list[Point]):
     """
     T = np.array([p.T_K for p in pts])
     lnP = np.log([p.P_Pa for p in pts])
-    fit = (ctx.shared.get("consensus") or {}).get(branch)
+    c = ctx.consensus.get(branch)
+    fit = None if c is None else c.fit
     if fit is not None:
         try:
             with np.errstate(all="ignore"):
@@ -91,7 +92,7 @@ def expected_scatter_lnP(ctx, p: Point, slope: float = 0.0) -> float:
     fT = _nan0(temperature_rounding_u_K(p.T_text, p.T_text_unit))
     # hypot, not a sum of squares: a stated u(P) or a slope far off the scale must not overflow
     stated = math.hypot((p.u_P_Pa or 0.0) / p.P_Pa, fP, slope * (p.u_T_K or 0.0), slope * fT)
-    empirical = (ctx.shared.get("u_percent") or {}).get(p.row, math.nan) / 100
+    empirical = ctx.consensus.u_percent.get(p.row, math.nan) / 100
     return max(stated, _nan0(empirical))
 
 

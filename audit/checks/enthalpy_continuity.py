@@ -126,7 +126,7 @@ class EnthalpyContinuity(Check):
                 texts.append(f"{branch}: {loc.dH.size} windows of {s['window']} points agree with the smooth "
                              f"ΔH(T) (largest departure {m['max_departure_u']:.2g} u, "
                              f"{m['max_departure_percent']:.2g} %); no step")
-        ctx.shared.setdefault("plot_data", {})["local_enthalpy"] = local_series
+        ctx.plot_data["local_enthalpy"] = local_series
         if not metrics:
             return skipped(self, "; ".join(texts) or "no usable branch")
         status = "fail" if failed else (s.severity if problems else "pass")

@@ -104,8 +104,8 @@ class ReferenceAgreement(Check):
                 problems.append(f"{int(outside.sum())} {branch} point(s) outside the validity range of {name}")
         if not metrics:
             return skipped(self, "no usable points in a branch the reference covers")
-        ctx.shared["reference_deviation_percent"] = deviations
-        ctx.shared.setdefault("plot_data", {})["reference"] = {
+        ctx.reference_deviation_percent = deviations
+        ctx.plot_data["reference"] = {
             "name": "; ".join(sorted({v[3] for v in refs.values()})), "curves": curves}
         status = s.severity if problems else "pass"
         return CheckResult(self.id, self.title, status, "; ".join(problems + texts), metrics, tuple(flags))

@@ -1,7 +1,7 @@
 """Check ``source-agreement``: is one source systematically off the others?
 
-Runs after ``outliers`` and uses its consensus form per branch
-(``ctx.shared["consensus"]``).  For each named source it estimates, by
+Runs after ``outliers`` and uses the consensus model's form per branch
+(``ctx.consensus``).  For each named source it estimates, by
 leave-one-source-out GLS (:func:`audit.thermo.source_bias.source_offsets`),
 a pressure-scale offset and a temperature offset against the curve of the
 *other* sources, so a biased source cannot pull its own yardstick.  A source
@@ -11,10 +11,10 @@ a systematic offset is a property of the source, not of its single points.
 
 When a flagged source is still part of the consensus (``outliers`` leaves
 biased sources out only when three or more sources are named), the
-consensus is refitted without it and ``ctx.shared["consensus"]``,
-``["deviation_percent"]`` and ``["u_percent"]`` are replaced for that branch,
-so that later checks and the report use the unbiased curve.  Results go to
-``ctx.shared["source_records"]`` (list of :class:`audit.results.SourceAgreement`).
+branch of the consensus model is replaced by one whose fit of record leaves
+it out (:func:`audit.consensus.refit_without_sources`), so that later checks
+and the report use the unbiased curve.  Results go to ``ctx.source_records``
+(:class:`audit.results.SourceAgreement`, one per source).
 """
 
 from __future__ import annotations
@@ -27,6 +27,7 @@ import numpy as np
 
 from ..results import Cause, CheckResult, PointFlag, SourceAgreement
 from ..thermo.constants import R as R_GAS
+from ..consensus import refit_without_sources
 from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
@@ -100,7 +101,6 @@ class SourceAgreement_(Check):
     }
 
     def run(self, ctx):
-        from ..thermo.fitting import fit_equation
         from ..thermo.rounding import pressure_rounding_u_lnP
         from ..thermo.source_bias import source_offsets
 
@@ -110,15 +110,15 @@ class SourceAgreement_(Check):
             return skipped(self, "data name no sources")
         if len(names) == 1:
             return skipped(self, "one source only", source=names[0])
-        consensus = ctx.shared.get("consensus") or {}
-        if not consensus:
+        model = ctx.consensus
+        if not model:
             return skipped(self, "no consensus fit to compare sources with (outliers check did not fit)")
-        deviation = dict(ctx.shared.get("deviation_percent", {}))
-        u_percent = dict(ctx.shared.get("u_percent", {}))
+        u_percent = model.u_percent
         best: dict[str, SourceAgreement] = {}
         flags: list[PointFlag] = []
         notes = []
-        for branch, fit0 in consensus.items():
+        for branch, branch_model in model.branches.items():
+            fit0 = branch_model.fit
             pts = ctx.usable(branch)
             src = [p.source for p in pts]
             if len({x for x in src if x}) < 2:
@@ -200,25 +200,17 @@ class SourceAgreement_(Check):
                 best.setdefault(name, SourceAgreement(name, sum(1 for x in src if x == name), None, None, None,
                                                       "none", "ok", {"branch": branch, "not_analysed": why}))
             # a flagged source still in the consensus: refit without it (needs >= 1 other source)
-            excluded_before = set((ctx.shared.get("outliers_biased_sources") or {}).get(branch, []))
-            newly = [x for x in flagged if x not in excluded_before]
+            newly = [x for x in flagged if x not in branch_model.excluded_sources]
             if newly and n_src >= 3:
-                use = keep & ~np.isin(np.array(src, dtype=object), flagged)
                 try:
-                    refit = fit_equation(T, P, form, u_P=P * sig, robust=True, point_weights=use.astype(float),
-                                         **fixed)
-                except (ValueError, np.linalg.LinAlgError):
-                    refit = None
-                if refit is not None:
-                    consensus[branch] = refit
-                    P_fit = refit.equation.p(T)
-                    for i, p in enumerate(pts):
-                        deviation[p.row] = float(100 * (p.P_Pa - P_fit[i]) / P_fit[i])
+                    model = model.with_branch(refit_without_sources(branch_model, pts, keep, sig, flagged))
                     notes.append(f"{branch}: consensus refitted without {', '.join(newly)}")
+                except (ValueError, np.linalg.LinAlgError) as exc:
+                    notes.append(f"{branch}: consensus could not be refitted without {', '.join(newly)} ({exc})")
         records = list(best.values())
         point_status, causes = {}, {}
         for i, r in enumerate(records):
-            diagnosis = self._source_cause(ctx, r, consensus, s)
+            diagnosis = self._source_cause(ctx, r, model, s)
             if diagnosis is None:
                 continue
             cause, text, factor = diagnosis
@@ -227,10 +219,8 @@ class SourceAgreement_(Check):
                 if p.source == r.source and ctx.status[p.row] != "unreadable":
                     point_status[p.row] = "reject"
                     causes[p.row] = Cause(cause["kind"], text, None, None if factor is None else p.P_Pa * factor)
-        ctx.shared["source_records"] = records
-        ctx.shared["consensus"] = consensus
-        ctx.shared["deviation_percent"] = deviation
-        ctx.shared["u_percent"] = u_percent
+        ctx.source_records = tuple(records)
+        ctx.consensus = model
         bad = [r for r in records if r.status != "ok"]
         for r in bad:
             if r.bias_percent is None:
@@ -283,7 +273,8 @@ class SourceAgreement_(Check):
         from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
 
         branch = record.extra.get("branch")
-        fit = consensus.get(branch)
+        branch_model = consensus.get(branch)
+        fit = None if branch_model is None else branch_model.fit
         rows = [p for p in ctx.dataset.points if p.source == record.source and p.readable
                 and ctx.phase(p) == branch and p.T_K > 0 and p.P_Pa > 0
                 and math.isfinite(p.T_K) and math.isfinite(p.P_Pa)]

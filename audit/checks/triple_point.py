@@ -148,7 +148,7 @@ class TriplePoint(Check):
                                 f"by {dev:+.3g} % (limit {lim:.2g} %)")
         if causes:
             text += f"; {len(causes)} row(s) fit the other branch (phase label)"
-        ctx.shared["triple_point_record"] = TriplePointRecord(
+        ctx.triple_point = TriplePointRecord(
             T_K=est.T, u_T_K=est.u_T, P_Pa=est.P, u_P_Pa=est.u_P, dH_fus_J_per_mol=est.dH_fus,
             u_dH_fus_J_per_mol=est.u_dH_fus,
             reference=None if ref is None else {"T_K": ref[0], "P_Pa": ref[1], "source": ref[4]})

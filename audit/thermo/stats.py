@@ -22,7 +22,7 @@ from scipy import stats
 
 from .enthalpy import heat_capacity_change
 
-__all__ = ["CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "RepeatedMedianLine",
+__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "RepeatedMedianLine",
            "repeated_median_line", "mad_scale"]
 
 
@@ -302,3 +302,19 @@ def _point_median_slopes(x, y, chunk_rows=None) -> np.ndarray:
             med = np.where(even, (lo + hi) / 2.0, lo)
         out[rows] = med
     return out
+
+
+def family_wise_critical(alpha: float, n: int, correction: str, dof: float | None = None) -> float:
+    """Two-sided critical value of |z| for n tests at family-wise level alpha.
+
+    Šidák: per-test α' = 1 − (1 − α)^(1/n); Bonferroni: α' = α/n.  Normal
+    quantile when ``dof`` is None, Student t with ``dof`` otherwise.
+
+    References: Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967),
+    doi:10.1080/01621459.1967.10482935.
+    """
+    n = max(1, int(n))
+    a = 1 - (1 - alpha) ** (1 / n) if correction == "sidak" else alpha / n
+    if dof is None or not math.isfinite(dof):
+        return float(stats.norm.isf(a / 2))
+    return float(stats.t.isf(a / 2, max(dof, 1.0)))

@@ -148,10 +148,13 @@ def test_shared_products_for_the_report(default_profile):
     ds, _ = water_table(T_GRID, seed=10)
     ctx = AuditContext(dataset=ds, profile=default_profile)
     Outliers().run(ctx)
-    fit = ctx.shared["consensus"]["unknown"]
+    branch = ctx.consensus.get("unknown")
+    fit = branch.fit
     assert fit.n_used >= len(T_GRID) - 1  # the consensus fit of the points kept
-    dev = ctx.shared["deviation_percent"]
-    u = ctx.shared["u_percent"]
+    # the fit of record lists exactly the points it was fitted to, in order of temperature
+    assert branch.fit_data.n == fit.n_used and np.all(np.diff(branch.fit_data.T) >= 0)
+    dev = ctx.consensus.deviation_percent
+    u = ctx.consensus.u_percent
     assert set(dev) == set(u) == {p.row for p in ds.points}
     # 0.1 % noise planted: deviations a few tenths of a percent at most, u about 0.1 %
     assert max(abs(v) for v in dev.values()) < 0.5

@@ -176,16 +176,17 @@ def _clapeyron_slope(points: list[Point]) -> float:
     T_a and T_b should be, B·(1/T_a − 1/T_b) in ln P; 0 (no expected
     difference) is the lenient choice when the data cannot tell.
     """
-    x = [1.0 / p.T_K for p in points]
-    y = [math.log(p.P_Pa) for p in points]
-    n = len(x)
-    if n < 2:
+    import numpy as np
+
+    if len(points) < 2:
         return 0.0
-    mx, my = sum(x) / n, sum(y) / n
-    sxx = sum((v - mx) ** 2 for v in x)
-    if not sxx > 0:
-        return 0.0
-    B = -sum((u - mx) * (v - my) for u, v in zip(x, y)) / sxx
+    # a temperature of 1e-300 K makes 1/T² overflow: inf or NaN here, and "cannot tell" below
+    with np.errstate(all="ignore"):
+        x = 1.0 / np.array([p.T_K for p in points], float)
+        y = np.log(np.array([p.P_Pa for p in points], float))
+        dx, dy = x - x.mean(), y - y.mean()
+        sxx = float(np.sum(dx * dx))
+        B = -float(np.sum(dx * dy)) / sxx if math.isfinite(sxx) and sxx > 0 else math.nan
     return B if math.isfinite(B) and B > 0 else 0.0
 
 

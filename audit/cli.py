@@ -181,8 +181,8 @@ def _finding_lines(result) -> list[str]:
                         + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
                            if src.pattern == "temperature-offset" and src.temperature_offset_K is not None
                            else ""))
-            if cause.get("kind") == "pressure-unit" and cause.get("real_unit"):
-                what += f"; cause pressure-unit: printed in {cause['real_unit']}, not {cause['printed_unit']}"
+            if cause.get("kind") in ("pressure-unit", "temperature-unit") and cause.get("real_unit"):
+                what += f"; cause {cause['kind']}: printed in {cause['real_unit']}, not {cause['printed_unit']}"
             elif cause.get("kind"):
                 what += f"; cause {cause['kind']} ({cause['n_rows']} rows)"
             lines.append(f"  source '{src.source}' {src.status}: {what}")

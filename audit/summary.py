@@ -116,14 +116,8 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         counts = {"n_rows": len(rows), "n_reject": n_reject, "n_suspect": n_suspect,
                   "n_unreadable": n_unreadable, "cause": cause}
         if rec is not None and "not_analysed" not in rec.extra:
-            kind = (rec.extra.get("cause") or {}).get("kind")
-            if kind == "pressure-unit":
-                c = rec.extra["cause"]
-                reason = f"printed in {c['real_unit']}, not {c['printed_unit']}: pressures ×{c['factor']:.6g}"
-            elif kind == "other-compound":
-                c = rec.extra["cause"]
-                reason = (f"likely another compound: its slope implies ΔH {c['dH_source_J_per_mol'] / 1e3:.4g} "
-                          f"kJ/mol against {c['dH_consensus_J_per_mol'] / 1e3:.4g} kJ/mol from the others")
+            if _source_cause_reason(rec.extra.get("cause")) is not None:
+                reason = _source_cause_reason(rec.extra["cause"])
             elif rec.status == "ok":
                 reason = "agrees with the other sources within its uncertainty"
             elif rec.pattern == "temperature-offset" and rec.temperature_offset_K is not None:
@@ -136,7 +130,9 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         if rows and usable == 0:
             st, reason = "reject", (f"every row rejected or unreadable ({n_reject} rejected, "
                                     f"{n_unreadable} unreadable): not compared with the other sources")
-            if rec is not None:
+            if rec is not None and _source_cause_reason(rec.extra.get("cause")):
+                reason = f"{_source_cause_reason(rec.extra['cause'])}: every row rejected"
+            elif rec is not None:
                 reason += f"; {rec.extra['not_analysed']}"
         elif rec is not None:
             st, reason = rec.status, f"not compared: {rec.extra['not_analysed']}"
@@ -147,6 +143,19 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         base = rec if rec is not None else SourceAgreement(name, len(rows), None, None, None, "none", st)
         out.append(replace(base, n=len(rows), status=st, extra={**base.extra, **counts, "reason": reason}))
     return tuple(out)
+
+
+def _source_cause_reason(c) -> str | None:
+    """One line for a source-level cause (another unit, another compound), None for none."""
+    kind = (c or {}).get("kind")
+    if kind == "pressure-unit":
+        return f"printed in {c['real_unit']}, not {c['printed_unit']}: pressures ×{c['factor']:.6g}"
+    if kind == "temperature-unit":
+        return f"temperatures printed in {c['real_unit']}, not {c['printed_unit']}"
+    if kind == "other-compound":
+        return (f"likely another compound: its slope implies ΔH {c['dH_source_J_per_mol'] / 1e3:.4g} "
+                f"kJ/mol against {c['dH_consensus_J_per_mol'] / 1e3:.4g} kJ/mol from the others")
+    return None
 
 
 def _finite(x) -> float | None:

@@ -108,7 +108,7 @@ class Outliers(Check):
 
     **Options.** ``reject_alpha``, ``suspect_alpha``, ``correction``,
     ``max_iterations``, ``min_points``, ``min_points_source_scale``,
-    ``scale_alpha``, ``source_scale_alpha``,
+    ``scale_alpha``, ``source_scale_alpha``, ``max_source_scatter_percent``,
     ``cause_k``, ``cause_ratio``.
     """
 
@@ -144,6 +144,9 @@ class Outliers(Check):
                                           "", 3, 1000),
         "scale_alpha": Option(float, "significance at which data that state u(P), u(T) are taken to "
                               "scatter more than stated (χ² test); then the scale is estimated", "", 1e-6, 0.5),
+        "max_source_scatter_percent": Option(float, "largest scatter a source's rows can have as measurement "
+                                             "scatter about the consensus; beyond it the source's scatter is "
+                                             "measured about its own trend in 1/T", "%", 1, 1e6),
         "source_scale_alpha": Option(float, "significance at which the sources' scatters are taken as "
                                      "different (Brown–Forsythe test) and each source gets its own scale",
                                      "", 1e-6, 0.5),

@@ -213,12 +213,12 @@ class SourceAgreement_(Check):
             diagnosis = self._source_cause(ctx, r, model, s)
             if diagnosis is None:
                 continue
-            cause, text, factor = diagnosis
+            cause, text, suggest = diagnosis
             records[i] = replace(r, status="reject", extra={**r.extra, "cause": cause})
             for p in ctx.dataset.points:  # rows rejected before get the source's cause too
                 if p.source == r.source and ctx.status[p.row] != "unreadable":
                     point_status[p.row] = "reject"
-                    causes[p.row] = Cause(cause["kind"], text, None, None if factor is None else p.P_Pa * factor)
+                    causes[p.row] = Cause(cause["kind"], text, *suggest(p))
         ctx.source_records = tuple(records)
         ctx.consensus = model
         bad = [r for r in records if r.status != "ok"]
@@ -255,20 +255,27 @@ class SourceAgreement_(Check):
 
     @staticmethod
     def _source_cause(ctx, record: SourceAgreement, consensus, s):
-        """(cause, explanation, pressure factor) of a source that is wrong as a whole, or None.
+        """(cause, explanation, suggestion) of a source that is wrong as a whole, or None.
 
-        Judged from all a source's readable rows against the branch's consensus:
+        ``suggestion(point)`` gives the row's suggested (T [K], P [Pa]), None
+        where that quantity stays as printed.  Judged from all a source's
+        readable rows against the branch's consensus:
 
         1. another pressure unit (for sources flagged as off the others, or
            whose every row was rejected before) — the median offset is a unit
            ratio (:func:`audit.diagnose.source_units.source_pressure_unit`);
-        2. another compound (the same sources) — the slope of the source's own two-constant
+        2. another temperature scale (the same sources) — read in °C, K or
+           °F instead of the header's scale, the series' median offset from
+           the consensus is within ``unit_tolerance_percent``
+           (:func:`audit.diagnose.source_units.source_temperature_unit`);
+        3. another compound (the same sources) — the slope of the source's own two-constant
            fit implies an apparent enthalpy that departs from the
            consensus's at the same temperature by more than ``k`` standard
            uncertainties and ``other_compound_dH_percent``: no gauge or
            thermometer error changes the slope that much.
         """
-        from ..diagnose.source_units import source_pressure_unit
+        from ..consensus.build import judgeable_range
+        from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
         from ..thermo.enthalpy import apparent_enthalpy
         from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
 
@@ -279,11 +286,15 @@ class SourceAgreement_(Check):
                 and ctx.phase(p) == branch and p.T_K > 0 and p.P_Pa > 0
                 and math.isfinite(p.T_K) and math.isfinite(p.P_Pa)]
         all_rejected = bool(rows) and all(ctx.status[p.row] == "reject" for p in rows)
+        # most rows rejected one by one: a unit slip of the whole series is the likelier story
+        # (a series in °F under a °C header keeps a few rows near the curve by chance)
+        mostly_rejected = 2 * sum(ctx.status[p.row] == "reject" for p in rows) > len(rows)
         if fit is None or not rows:
             return None
-        if not all_rejected:  # rows a check rejected on their own do not bend the source's slope
+        if not mostly_rejected:  # rows a check rejected on their own do not bend the source's slope
             rows = [p for p in rows if ctx.status[p.row] != "reject"]
         flagged = record.status != "ok" or all_rejected
+        unit_candidate = flagged or mostly_rejected
         T = np.array([p.T_K for p in rows])
         P = np.array([p.P_Pa for p in rows])
         eq = fit.equation
@@ -291,8 +302,8 @@ class SourceAgreement_(Check):
             offset = float(np.median(np.log(P) - eq.ln_p(T)))
         units = [p.P_text_unit for p in rows]
         printed = max(set(units), key=units.count)
-        reading = (source_pressure_unit(offset, printed, math.log1p(s["unit_tolerance_percent"] / 100))
-                   if flagged else None)
+        tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
+        reading = source_pressure_unit(offset, printed, tolerance) if unit_candidate else None
         if reading is not None:
             cause = {"kind": "pressure-unit", "n_rows": len(rows), "printed_unit": reading.printed_unit,
                      "real_unit": reading.real_unit, "factor": reading.factor,
@@ -300,7 +311,27 @@ class SourceAgreement_(Check):
             text = (f"the whole series of source '{record.source}' reads as {reading.real_unit}, not "
                     f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with the other "
                     f"sources within {reading.remaining_percent:+.2g} %")
-            return cause, text, reading.factor
+            return cause, text, lambda p, f=reading.factor: (None, p.P_Pa * f)
+        if unit_candidate:
+            every = [p for p in ctx.dataset.points if p.source == record.source and p.readable
+                     and ctx.phase(p) == branch and math.isfinite(p.T_K) and p.P_Pa > 0
+                     and math.isfinite(p.P_Pa)]
+            t_units = [p.T_text_unit for p in every]
+            t_printed = max(set(t_units), key=t_units.count) if t_units else "K"
+            same = [p for p in every if p.T_text_unit == t_printed]
+            t_reading = source_temperature_unit(
+                [p.T_K for p in same], np.log([p.P_Pa for p in same]), t_printed, eq.ln_p,
+                judgeable_range(fit), tolerance) if same else None
+            if t_reading is not None:
+                names = {"K": "K", "degC": "°C", "degF": "°F"}
+                real, shown = names[t_reading.real_unit], names[t_reading.printed_unit]
+                cause = {"kind": "temperature-unit", "n_rows": len(same), "printed_unit": shown,
+                         "real_unit": real, "remaining_percent": t_reading.remaining_percent}
+                text = (f"the whole series of source '{record.source}' reads as {real}, not {shown}: its "
+                        f"temperatures read in {real} put {t_reading.n_judged} of its {len(same)} rows on the "
+                        f"other sources' curve within {t_reading.remaining_percent:+.2g} % (median)")
+                by_row = {p.row: t for p, t in zip(same, t_reading.T_K)}
+                return cause, text, lambda p: (by_row.get(p.row), None)
         # the slope test only for sources already off the others: on every source it
         # rejected good scattered series whose few rows give a noisy slope (benchmark
         # seeds 5000-5199: good sources mass-rejected 7.7 % -> 10.6 %)
@@ -324,6 +355,6 @@ class SourceAgreement_(Check):
                     f"{own.T_ref:.1f} K against {dH_cons / 1e3:.4g} kJ/mol from the other sources "
                     f"({rel:.2g} % > {s['other_compound_dH_percent']} %, beyond {s['k']} u) and no unit "
                     "ratio explains its level: likely another compound's data — exclude it")
-            return cause, text, None
+            return cause, text, lambda p: (None, None)
         return None
 

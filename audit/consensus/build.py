@@ -73,7 +73,30 @@ def _robust_scale(x) -> float:
     return mad_scale(x)
 
 
-def _judgeable_range(fit) -> tuple[float, float]:
+def _own_scale(r, inv_T, max_scale_lnP: float) -> float:
+    """Robust scatter of one source's residuals [-]: about their median, or, when
+    that is beyond any plausible scatter, about their own trend in 1/T.
+
+    The MAD about the median is the source's scatter as long as it stays
+    within ``max_scale_lnP``.  A "scatter" beyond it (a series read in the
+    wrong temperature scale lies 10–200 in ln P off the curve, in a smooth
+    trend) is no measurement scatter: then, with four or more distinct
+    temperatures, the MAD about the residuals' repeated-median line in 1/T
+    (Siegel 1982), times √((n − 1)/(n − 2)) for the line's second parameter.
+    """
+    from ..thermo.fitting import distinct_temperatures
+
+    r = np.asarray(r, float)
+    inv_T = np.asarray(inv_T, float)
+    about_median = _robust_scale(r)
+    if not about_median > max_scale_lnP or r.size < 4 \
+            or not (np.all(np.isfinite(r)) and np.all(np.isfinite(inv_T))) or distinct_temperatures(1.0 / inv_T) < 4:
+        return about_median
+    line = repeated_median_line(inv_T, r)
+    return min(about_median, _robust_scale(line.residuals) * math.sqrt((r.size - 1) / (r.size - 2)))
+
+
+def judgeable_range(fit) -> tuple[float, float]:
     """Temperatures at which the fit predicts ln P well enough to judge a point [K].
 
     The fitted range widened by a quarter of its span on each side; further
@@ -104,7 +127,7 @@ def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
 
     eq = fit.equation
     lo, hi = fit.T_range
-    T_lo, T_hi = _judgeable_range(fit)
+    T_lo, T_hi = judgeable_range(fit)
     far = outside & ((T < T_lo) | (T > T_hi))
     if not far.any():
         return z
@@ -172,7 +195,7 @@ class _BranchAnalysis:
         # keeps points far off even a straight ln P–1/T line out of it.  Curvature only widens
         # the line's scale, so this catches gross errors alone.
         line = repeated_median_line(1.0 / T, np.log(P))
-        line_scale = np.maximum(self._scales(line.residuals, np.ones(n, bool), src, s),
+        line_scale = np.maximum(self._scales(line.residuals, np.ones(n, bool), src, s, 1.0 / T),
                                 s["min_scatter_percent"] / 100)
         far = np.abs(line.residuals - np.median(line.residuals)) > crit_gross * line_scale
         if n - far.sum() <= 4:
@@ -193,7 +216,7 @@ class _BranchAnalysis:
             rel_screen, uT_screen, scale_screen = np.sqrt(uPrel ** 2 + floorP ** 2), uT_eff, max(1.0, scr.scale)
         else:
             # per source when the sources' scatters differ, as in the stepwise test below
-            rel_screen = np.maximum(self._scales(screen.residuals_lnP, ~out_of_screen, src, s), 1e-12)
+            rel_screen = np.maximum(self._scales(screen.residuals_lnP, ~out_of_screen, src, s, 1.0 / T), 1e-12)
             uT_screen, scale_screen = np.zeros(n), 1.0
         z_screen = _inverse_scores(scr.studentized, screen, T, P, out_of_screen, rel_screen, uT_screen,
                                    scale_screen)
@@ -216,7 +239,7 @@ class _BranchAnalysis:
         resid0 = np.log(P) - first.equation.ln_p(T)
         active0 = ok.copy()
         active0[ok] = np.asarray(first.weights) > 0
-        scale_pt = self._scales(resid0, active0, src, s) if not u_given else None
+        scale_pt = self._scales(resid0, active0, src, s, 1.0 / T) if not u_given else None
 
         rejected = gross.copy()
         biased: dict[str, SourceShift] = {}
@@ -258,7 +281,7 @@ class _BranchAnalysis:
             sigma = np.sqrt(rel ** 2 + (fit.equation.dlnp_dT(T) * uT_eff) ** 2)
             floor_sig = np.sqrt(floorP ** 2 + (fit.equation.dlnp_dT(T) * floorT) ** 2)
             if not u_given:
-                scale_pt = self._scales(r - offsets, in_fit, src, s)
+                scale_pt = self._scales(r - offsets, in_fit, src, s, 1.0 / T)
             J = fit.equation.jacobian_ln_p(T)
             inf = influence_measures(J, r, sigma, in_fit.astype(float))
             dof = inf.dof - 1
@@ -347,7 +370,7 @@ class _BranchAnalysis:
         self.scale_factor = max(birge, 1.0) if u_given else birge
 
     @staticmethod
-    def _scales(r, active, src, s):
+    def _scales(r, active, src, s, inv_T):
         """Relative scatter per point: pooled, or per source when sources differ in scatter.
 
         A source's own MAD from 8–15 points is itself uncertain by 25–40 %; used
@@ -363,6 +386,13 @@ class _BranchAnalysis:
         scattered source is never judged by the scatter of a more precise
         one.  A one-row source, with no scatter of its own, gets the larger
         of the prior and the pooled scale.
+
+        A source whose scatter about the consensus would exceed
+        ``max_source_scatter_percent`` is measured about its own trend in 1/T
+        (:func:`_own_scale`): a whole series read in the wrong temperature
+        scale lies off the curve by an amount that changes along its range,
+        and measured about the consensus that trend would pass for scatter
+        and the series would certify itself.
         """
         from scipy.stats import levene
 
@@ -381,9 +411,15 @@ class _BranchAnalysis:
             groups.append(rest)
         if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
             return out
-        own = {name: _robust_scale(r[src == name]) for name in named if (src == name).sum() >= 2}
+        own = {name: _own_scale(r[src == name], inv_T[src == name],
+                                      math.log1p(s["max_source_scatter_percent"] / 100))
+               for name in named if (src == name).sum() >= 2}
         own = {k: v for k, v in own.items() if v > 0}
-        prior = float(np.median([own[k] for k in big if k in own] or list(own.values()) or [pooled]))
+        # the prior from the scales about the median: a precise series whose residuals trace the
+        # equation's own misfit must not, by that trend being removed, lower every source's prior
+        plain = {k: _robust_scale(r[src == k]) for k in own}
+        plain = {k: v for k, v in plain.items() if v > 0}
+        prior = float(np.median([plain[k] for k in big if k in plain] or list(plain.values()) or [pooled]))
         nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
         for name in named:
             mine = src == name
@@ -479,7 +515,7 @@ class _BranchAnalysis:
         uT = self.uT_eff[i]
         base_sigma = self.sigma[i] / max(self.sigma_raw[i], 1e-300)  # the scale applied to point i
         # a corrected temperature far outside the fitted range cannot be judged
-        T_lo, T_hi = _judgeable_range(self.fit)
+        T_lo, T_hi = judgeable_range(self.fit)
 
         def z(T_K, P_Pa):
             if not (T_K > 0 and P_Pa > 0) or not (T_lo <= T_K <= T_hi):
@@ -508,20 +544,28 @@ def points_data(branch: str, points) -> BranchData:
     return BranchData(branch, tuple(pts), T, P, u_T, u_P)
 
 
-def _fit_of_record(points, accepted, T, P, u_T, u_P, form, fixed):
+def _fit_of_record(branch, points, accepted, T, P, u_T, u_P, form, fixed, u_given: bool):
     """The classical weighted fit of exactly the accepted points, in order of temperature.
 
     The same least-squares problem as the scoring fit of the last round
     (same points, same effective uncertainties), so the same parameters;
     ordered by T so that residual runs and local windows read it directly.
+    The points come back carrying the uncertainties the fit weighted them
+    by when the data state any (the effective ones: stated u, never below
+    the printed precision or the profile's scatter floor, so a stated zero
+    cannot make a later fit of the same points singular), else None, as the
+    data gave none and later fits estimate their scale.
     """
     from ..thermo.fitting import fit_equation
 
     idx = np.flatnonzero(accepted)
     idx = idx[np.argsort(T[idx], kind="stable")]
     fit = fit_equation(T[idx], P[idx], form, u_T=u_T[idx], u_P=u_P[idx], robust=False, **fixed)
-    data = points_data("", [points[i] for i in idx])
-    return fit, data
+    pts = tuple(points[i] for i in idx)
+    if u_given:
+        return fit, BranchData(branch, pts, T[idx], P[idx], np.asarray(u_T[idx], float),
+                               np.asarray(u_P[idx], float))
+    return fit, BranchData(branch, pts, T[idx], P[idx], None, None)
 
 
 def _deviations(rows, T, P, equation, offsets_lnP) -> dict[int, float]:
@@ -555,9 +599,8 @@ def build_branch_consensus(points, settings, source_settings, Tc, Pc, branch: st
     a = _BranchAnalysis(points, settings, source_settings, Tc, Pc, branch)
     eq = a.fit.equation
     in_fit = np.asarray(a.influence.in_fit, bool)
-    record, data = _fit_of_record(points, in_fit, a.T, a.P, a.uT_eff, a.P * a.rel, type(eq),
-                                  eq.fixed_parameters())
-    data = BranchData(branch, data.points, data.T, data.P, data.u_T, data.u_P)
+    record, data = _fit_of_record(branch, points, in_fit, a.T, a.P, a.uT_eff, a.P * a.rel, type(eq),
+                                  eq.fixed_parameters(), a.u_given)
     names = [x for x in dict.fromkeys(a.src) if x]
     excluded = tuple(sorted(name for name in a.biased if not in_fit[a.src == name].any()))
     n_rej = int(a.reject.sum())
@@ -613,8 +656,9 @@ def refit_without_sources(consensus: BranchConsensus, points, keep, sigma_rel, s
     accepted[np.flatnonzero(use)[np.asarray(robust.weights) > 0]] = True
     if accepted.sum() <= robust.n_params + 1:
         accepted = use
-    record, data = _fit_of_record(points, accepted, T, P, np.zeros(T.size), P * sigma_rel, type(eq), fixed)
-    data = BranchData(consensus.branch, data.points, data.T, data.P, data.u_T, data.u_P)
+    u_T = np.array([p.u_T_K or 0.0 for p in points])
+    record, data = _fit_of_record(consensus.branch, points, accepted, T, P, u_T, P * sigma_rel, type(eq), fixed,
+                                  consensus.uncertainties_given)
     excluded = tuple(sorted(set(consensus.excluded_sources) | set(sources)))
     offsets = {r: o for r, o in zip(consensus.rows, consensus.offsets_lnP)}
     rows = [p.row for p in points]

@@ -1,10 +1,13 @@
-"""Which pressure unit a whole series was really printed in.
+"""Which pressure or temperature unit a whole series was really printed in.
 
 A series typed in mmHg under a "Pa" header, or in kPa under "Pa", sits off
 the other sources by one constant factor: the ratio of the two unit sizes.
 When a source's offset matches such a ratio, its pressures were printed in
 that other unit; the suggested values are its values read in that unit.
-Pure function: the tolerance is passed in by the check.
+A series whose temperatures were printed in °C under a kelvin header (or
+the reverse, or in °F) is off by a pressure ratio that changes along the
+range; read in the right scale, its points fall on the others' curve.
+Pure functions: the tolerances are passed in by the check.
 """
 
 from __future__ import annotations
@@ -12,9 +15,12 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
+import numpy as np
 
-__all__ = ["SourceUnitReading", "source_pressure_unit"]
+from .units import (COMMON_PRESSURE_UNITS, COMMON_TEMPERATURE_UNITS, canonical_temperature_unit,
+                    pressure_unit_size_Pa, split_log_unit, temperature_from_K, temperature_to_K)
+
+__all__ = ["SourceUnitReading", "source_pressure_unit", "SourceTemperatureReading", "source_temperature_unit"]
 
 
 @dataclass(frozen=True)
@@ -84,3 +90,109 @@ def source_pressure_unit(offset_lnP: float, printed_unit: str, tolerance_lnP: fl
     return SourceUnitReading(printed_unit=unit, real_unit=real,
                              factor=pressure_unit_size_Pa(real) / size_printed,
                              remaining_percent=100.0 * math.expm1(left))
+
+
+@dataclass(frozen=True)
+class SourceTemperatureReading:
+    """A source's temperatures read in another scale.
+
+    Attributes
+    ----------
+    printed_unit, real_unit : str
+        The scale of the header and the scale the values were really in ('K', 'degC', 'degF').
+    T_K : tuple of float
+        Each row's temperature in that reading [K] (order of the rows given).
+    remaining_percent : float
+        The source's median offset from the others' curve after the correction [%].
+    n_judged : int
+        Rows whose corrected temperature lies where the curve can judge them.
+    """
+
+    printed_unit: str
+    real_unit: str
+    T_K: tuple[float, ...]
+    remaining_percent: float
+    n_judged: int
+
+
+def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, tolerance_lnP: float
+                            ) -> SourceTemperatureReading | None:
+    """The other temperature scale that puts a whole series on the others' curve, or None.
+
+    Parameters
+    ----------
+    T_K : array_like
+        The source's temperatures as read in ``printed_unit`` [K].
+    ln_P : array_like
+        ln of its pressures [ln Pa].
+    printed_unit : str
+        The temperature unit of the column as printed.
+    curve_ln_p : callable
+        ln P of the others' curve at T [K] → [ln Pa].
+    T_range : (float, float)
+        Temperatures where that curve can judge a point [K].
+    tolerance_lnP : float
+        Largest median offset left after the correction [-]; as printed, the
+        series must be more than three times this far off (or not judgeable).
+
+    Returns
+    -------
+    SourceTemperatureReading or None
+        The reading whose median offset is smallest, when it is within the
+        tolerance for a majority of the rows.
+
+    Examples
+    --------
+    Two rows printed in °C under a kelvin header, against a straight ln P–1/T
+    curve through (300 K, 3536.8 Pa) and (350 K, 41 682 Pa) (water's
+    saturation pressures in IAPWS-95, quoted from memory of its tables):
+
+    >>> import math
+    >>> b = math.log(41682.0 / 3536.8) / (1 / 300 - 1 / 350)
+    >>> curve = lambda T: math.log(3536.8) - b * (1 / np.asarray(T) - 1 / 300)
+    >>> r = source_temperature_unit([26.85, 76.85], [math.log(3536.8), math.log(41682.0)], "K", curve,
+    ...                             (290.0, 360.0), math.log1p(0.03))
+    >>> r.real_unit, [round(t, 2) for t in r.T_K]
+    ('degC', [300.0, 350.0])
+    """
+    T_K = np.asarray(T_K, float)
+    ln_P = np.asarray(ln_P, float)
+    try:
+        unit = canonical_temperature_unit(printed_unit)
+    except ValueError:
+        return None
+    lo, hi = T_range
+    if T_K.size == 0 or not (math.isfinite(lo) and math.isfinite(hi)):
+        return None
+
+    def median_offset(T):
+        inside = np.isfinite(T) & (T > 0) & (T >= lo) & (T <= hi)
+        # a reading must put most of the series where the curve is known
+        if 2 * inside.sum() <= T.size:
+            return None, int(inside.sum())
+        with np.errstate(all="ignore"):
+            r = ln_P[inside] - curve_ln_p(T[inside])
+        r = r[np.isfinite(r)]
+        if r.size * 2 <= T.size:
+            return None, int(inside.sum())
+        return float(np.median(r)), int(r.size)
+
+    as_printed, _ = median_offset(T_K)
+    if as_printed is not None and abs(as_printed) <= 3 * tolerance_lnP:
+        return None
+    values = np.array([temperature_from_K(t, unit) for t in T_K])
+    best = None
+    for alt in COMMON_TEMPERATURE_UNITS:
+        if alt == unit:
+            continue
+        T_alt = np.array([temperature_to_K(v, alt) for v in values])
+        off, n = median_offset(T_alt)
+        if off is None or abs(off) > tolerance_lnP:
+            continue
+        if best is None or abs(off) < abs(best[1]):
+            best = (alt, off, n, T_alt)
+    if best is None:
+        return None
+    alt, off, n, T_alt = best
+    return SourceTemperatureReading(printed_unit=unit, real_unit=alt, T_K=tuple(float(t) for t in T_alt),
+                                    remaining_percent=100.0 * math.expm1(off), n_judged=n)

@@ -21,18 +21,31 @@ from __future__ import annotations
 
 import math
 
-from dataclasses import replace
+from dataclasses import dataclass, replace
 
 import numpy as np
 
+from ..consensus import refit_without_sources
 from ..results import Cause, CheckResult, PointFlag, SourceAgreement
 from ..thermo.constants import R as R_GAS
-from ..consensus import refit_without_sources
 from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
 _RANK = {"ok": 0, "suspect": 1, "reject": 2}
+
+
+@dataclass(frozen=True)
+class _SlopeDeparture:
+    """A source's own apparent ΔH [J/mol] (two-constant fit) against the consensus's at T_ref [K]."""
+
+    dH_source: float
+    u_dH_source: float
+    dH_consensus: float
+    T_ref: float
+    percent: float
+    #: beyond both k·u and other_compound_dH_percent
+    beyond: bool
 
 
 @register
@@ -59,11 +72,16 @@ class SourceAgreement_(Check):
     high everywhere → "B: pressures +3.1 % (u 0.2 %) vs. the other sources;
     pattern: pressure-scale".
 
-    A flagged source whose offset is the ratio of two pressure units, within
-    ``unit_tolerance_percent``, was printed in that other unit (a series in
-    mmHg under a "Pa" header is 133.3 times too low): its rows are rejected
-    with the cause ``pressure-unit`` and the value read in the real unit,
-    and the source record carries that cause.  A flagged source whose own
+    A flagged source (or one whose rows were mostly rejected one by one)
+    whose offset is the ratio of two pressure units, within
+    ``unit_tolerance_percent`` — or, for a ratio r, within
+    ``unit_ratio_tolerance``·|ln r| when its own slope is the substance's —
+    was printed in that other unit (a series in mmHg under a "Pa" header is
+    133.3 times too low): its rows are rejected with the cause
+    ``pressure-unit`` and the value read in the real unit, and the source
+    record carries that cause.  One that lies on the others' curve once its
+    temperatures are read in °C, K or °F instead of the header's scale gets
+    ``temperature-unit`` and each row's temperature in that scale.  A flagged source whose own
     slope implies an apparent enthalpy more than ``k``·u and
     ``other_compound_dH_percent`` away from the consensus's, and whose level
     no unit ratio explains, is taken for data of another compound: cause
@@ -71,7 +89,7 @@ class SourceAgreement_(Check):
     whose every row was rejected before are diagnosed the same way.
 
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
-    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``,
+    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``,
     ``other_compound_dH_percent``.
     """
 
@@ -98,6 +116,8 @@ class SourceAgreement_(Check):
                                                    "another compound", "%", 0, 100),
         "unit_tolerance_percent": Option(float, "largest offset left after reading a source's pressures in "
                                                 "another unit, for that reading to be its cause", "%", 0, 50),
+        "unit_ratio_tolerance": Option(float, "for a unit ratio r, the offset left may also reach this fraction "
+                                       "of |ln r| when the source keeps the substance's slope", "", 0, 0.5),
     }
 
     def run(self, ctx):
@@ -276,8 +296,6 @@ class SourceAgreement_(Check):
         """
         from ..consensus.build import judgeable_range
         from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
-        from ..thermo.enthalpy import apparent_enthalpy
-        from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
 
         branch = record.extra.get("branch")
         branch_model = consensus.get(branch)
@@ -303,7 +321,11 @@ class SourceAgreement_(Check):
         units = [p.P_text_unit for p in rows]
         printed = max(set(units), key=units.count)
         tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
-        reading = source_pressure_unit(offset, printed, tolerance) if unit_candidate else None
+        slope = _slope_departure(T, P, eq, s) if unit_candidate else None
+        # a wide reading (a large unit ratio matched only roughly) must keep the substance's slope:
+        # another compound's block 10³ lower can sit near a unit ratio by chance
+        wide = s["unit_ratio_tolerance"] if slope is None or not slope.beyond else 0.0
+        reading = source_pressure_unit(offset, printed, tolerance, wide) if unit_candidate else None
         if reading is not None:
             cause = {"kind": "pressure-unit", "n_rows": len(rows), "printed_unit": reading.printed_unit,
                      "real_unit": reading.real_unit, "factor": reading.factor,
@@ -335,26 +357,38 @@ class SourceAgreement_(Check):
         # the slope test only for sources already off the others: on every source it
         # rejected good scattered series whose few rows give a noisy slope (benchmark
         # seeds 5000-5199: good sources mass-rejected 7.7 % -> 10.6 %)
-        if not flagged or distinct_temperatures(T) < 3:
+        if not flagged:
             return None
-        try:
-            own = fit_equation(T, P, "cc2", robust=True)
-        except InsufficientData:
-            return None
-        dH_own = -R_GAS * float(own.params[1])
-        u_own = R_GAS * float(own.standard_errors[1])
-        dH_cons = float(apparent_enthalpy(eq, own.T_ref))
-        departure = dH_own - dH_cons
-        if not (math.isfinite(departure) and dH_cons > 0):
-            return None
-        rel = 100 * abs(departure) / dH_cons
-        if abs(departure) > s["k"] * u_own and rel > s["other_compound_dH_percent"]:
-            cause = {"kind": "other-compound", "n_rows": len(rows), "dH_source_J_per_mol": dH_own,
-                     "u_dH_source_J_per_mol": u_own, "dH_consensus_J_per_mol": dH_cons}
-            text = (f"source '{record.source}' implies ΔH = {dH_own / 1e3:.4g} ± {u_own / 1e3:.2g} kJ/mol at "
-                    f"{own.T_ref:.1f} K against {dH_cons / 1e3:.4g} kJ/mol from the other sources "
-                    f"({rel:.2g} % > {s['other_compound_dH_percent']} %, beyond {s['k']} u) and no unit "
+        slope = slope or _slope_departure(T, P, eq, s)
+        if slope is not None and slope.beyond:
+            cause = {"kind": "other-compound", "n_rows": len(rows), "dH_source_J_per_mol": slope.dH_source,
+                     "u_dH_source_J_per_mol": slope.u_dH_source, "dH_consensus_J_per_mol": slope.dH_consensus}
+            text = (f"source '{record.source}' implies ΔH = {slope.dH_source / 1e3:.4g} ± "
+                    f"{slope.u_dH_source / 1e3:.2g} kJ/mol at {slope.T_ref:.1f} K against "
+                    f"{slope.dH_consensus / 1e3:.4g} kJ/mol from the other sources "
+                    f"({slope.percent:.2g} % > {s['other_compound_dH_percent']} %, beyond {s['k']} u) and no unit "
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
         return None
 
+
+def _slope_departure(T, P, eq, s):
+    """The source's own two-constant slope against the consensus's (a _SlopeDeparture), or None."""
+    from ..thermo.enthalpy import apparent_enthalpy
+    from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+
+    if distinct_temperatures(T) < 3:
+        return None
+    try:
+        own = fit_equation(T, P, "cc2", robust=True)
+    except InsufficientData:
+        return None
+    dH_own = -R_GAS * float(own.params[1])
+    u_own = R_GAS * float(own.standard_errors[1])
+    dH_cons = float(apparent_enthalpy(eq, own.T_ref))
+    departure = dH_own - dH_cons
+    if not (math.isfinite(departure) and dH_cons > 0):
+        return None
+    rel = 100 * abs(departure) / dH_cons
+    beyond = bool(abs(departure) > s["k"] * u_own and rel > s["other_compound_dH_percent"])
+    return _SlopeDeparture(dH_own, u_own, dH_cons, float(own.T_ref), rel, beyond)

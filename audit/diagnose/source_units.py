@@ -17,8 +17,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .units import (COMMON_PRESSURE_UNITS, COMMON_TEMPERATURE_UNITS, canonical_temperature_unit,
-                    pressure_unit_size_Pa, split_log_unit, temperature_from_K, temperature_to_K)
+from ..units import PRESSURE_UNITS
+from .units import (COMMON_TEMPERATURE_UNITS, canonical_temperature_unit, pressure_unit_size_Pa, split_log_unit,
+                    temperature_from_K, temperature_to_K)
 
 __all__ = ["SourceUnitReading", "source_pressure_unit", "SourceTemperatureReading", "source_temperature_unit"]
 
@@ -43,8 +44,12 @@ class SourceUnitReading:
     remaining_percent: float
 
 
-def source_pressure_unit(offset_lnP: float, printed_unit: str, tolerance_lnP: float) -> SourceUnitReading | None:
+def source_pressure_unit(offset_lnP: float, printed_unit: str, tolerance_lnP: float,
+                         relative_tolerance: float = 0.0) -> SourceUnitReading | None:
     """The other pressure unit that explains a source's offset, or None.
+
+    Every unit the ingest knows is a candidate (a whole series in mTorr or
+    kgf/cm² is as easy to mislabel as one in mmHg).
 
     Parameters
     ----------
@@ -56,6 +61,12 @@ def source_pressure_unit(offset_lnP: float, printed_unit: str, tolerance_lnP: fl
         Largest offset left after the correction [-]; a unit ratio closer to 1
         than three times this (bar and atm, 1.3 % apart) is never claimed,
         since a bias of that size explains it as well.
+    relative_tolerance : float
+        For a large unit ratio r, the offset left may also reach this fraction
+        of |ln r| [-]: the others' curve at the source's temperatures carries
+        the compilation's own systematic spread (tens of percent), while a
+        ratio of ×100 or ×10⁵ is far beyond any bias.  The larger of the two
+        tolerances applies.
 
     Returns
     -------
@@ -77,12 +88,13 @@ def source_pressure_unit(offset_lnP: float, printed_unit: str, tolerance_lnP: fl
     except ValueError:
         return None
     best = None
-    for real in COMMON_PRESSURE_UNITS:
+    for real in PRESSURE_UNITS:
         expected = math.log(size_printed / pressure_unit_size_Pa(real))  # ln(P_read / P_true)
         if abs(expected) <= 3 * tolerance_lnP:
             continue
         left = offset_lnP - expected
-        if abs(left) <= tolerance_lnP and (best is None or abs(left) < abs(best[1])):
+        allowed = max(tolerance_lnP, relative_tolerance * abs(expected))
+        if abs(left) <= allowed and (best is None or abs(left) < abs(best[1])):
             best = (real, left)
     if best is None:
         return None

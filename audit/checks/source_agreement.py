@@ -28,6 +28,7 @@ import numpy as np
 from ..consensus import refit_without_sources
 from ..results import Cause, CheckResult, PointFlag, SourceAgreement
 from ..thermo.constants import R as R_GAS
+from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
@@ -89,7 +90,7 @@ class SourceAgreement_(Check):
     whose every row was rejected before are diagnosed the same way.
 
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
-    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``,
+    ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
     ``other_compound_dH_percent``.
     """
 
@@ -116,6 +117,8 @@ class SourceAgreement_(Check):
                                                    "another compound", "%", 0, 100),
         "unit_tolerance_percent": Option(float, "largest offset left after reading a source's pressures in "
                                                 "another unit, for that reading to be its cause", "%", 0, 50),
+        "min_block_rows": Option(int, "fewest contiguous rejected rows of one source read as a block of their "
+                                 "own (another unit, scale or compound)", "", 2, 1000),
         "unit_ratio_tolerance": Option(float, "for a unit ratio r, the offset left may also reach this fraction "
                                        "of |ln r| when the source keeps the substance's slope", "", 0, 0.5),
     }
@@ -239,6 +242,10 @@ class SourceAgreement_(Check):
                 if p.source == r.source and ctx.status[p.row] != "unreadable":
                     point_status[p.row] = "reject"
                     causes[p.row] = Cause(cause["kind"], text, *suggest(p))
+        whole = {r.source for r in records if r.extra.get("cause")}
+        for row, cause in _block_causes(ctx, model, s, whole).items():
+            point_status[row] = "reject"
+            causes[row] = cause
         ctx.source_records = tuple(records)
         ctx.consensus = model
         bad = [r for r in records if r.status != "ok"]
@@ -392,3 +399,93 @@ def _slope_departure(T, P, eq, s):
     rel = 100 * abs(departure) / dH_cons
     beyond = bool(abs(departure) > s["k"] * u_own and rel > s["other_compound_dH_percent"])
     return _SlopeDeparture(dH_own, u_own, dH_cons, float(own.T_ref), rel, beyond)
+
+
+#: point-level causes a coherent block's own diagnosis replaces: a digit swapped or a decimal
+#: point moved is a story about one row, not about several in a row that agree among themselves
+_REPLACEABLE = (None, "digit-swap", "decimal-shift")
+
+
+def _block_causes(ctx, model, s, whole_sources) -> dict:
+    """Causes for contiguous blocks of rejected rows that form a series of their own.
+
+    Within one source (or the unnamed rows), in input order, a run of at
+    least ``min_block_rows`` rows rejected row by row — with no cause, or only
+    a digit-swap or decimal-shift story — whose rows lie close to a smooth
+    curve of their own (robust scatter about their own two-constant fit,
+    times ``k``, below their offset from the consensus) is one block: read
+    in another pressure unit or temperature scale when one explains its
+    level (the same tests as for a whole source), else another compound's
+    rows pasted into the table.
+    """
+    from ..consensus.build import judgeable_range
+    from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
+    from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+    from ..thermo.stats import mad_scale
+
+    out: dict = {}
+    m = s["min_block_rows"]
+    tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
+    for branch, c in model.branches.items():
+        eq = c.fit.equation
+        groups: dict = {}
+        for p in ctx.dataset.points:
+            if (p.readable and ctx.phase(p) == branch and p.source not in whole_sources
+                    and math.isfinite(p.T_K) and p.T_K > 0 and math.isfinite(p.P_Pa) and p.P_Pa > 0):
+                groups.setdefault(p.source or "", []).append(p)
+        for name, pts in groups.items():
+            runs, run = [], []
+            for p in pts:
+                cause = ctx.causes.get(p.row)
+                if ctx.status[p.row] == "reject" and (cause is None or cause.kind in _REPLACEABLE):
+                    run.append(p)
+                else:
+                    runs.append(run)
+                    run = []
+            runs.append(run)
+            for run in runs:
+                if len(run) < m:
+                    continue
+                T = np.array([p.T_K for p in run])
+                P = np.array([p.P_Pa for p in run])
+                if distinct_temperatures(T) < 3:
+                    continue
+                with np.errstate(all="ignore"):
+                    r = np.log(P) - eq.ln_p(T)
+                if not np.all(np.isfinite(r)):
+                    continue
+                offset = float(np.median(r))
+                try:
+                    own = fit_equation(T, P, "cc2", robust=True)
+                except (InsufficientData, ValueError, np.linalg.LinAlgError):
+                    continue
+                own_scale = mad_scale(own.residuals_lnP)
+                if not abs(offset) > s["k"] * max(own_scale, tolerance / s["k"]):
+                    continue
+                where = f"rows {run[0].row}–{run[-1].row}" + (f" of source '{name}'" if name else "")
+                units = [p.P_text_unit for p in run]
+                reading = source_pressure_unit(offset, max(set(units), key=units.count), tolerance)
+                if reading is not None:
+                    text = (f"{where} form a block printed in {reading.real_unit}, not {reading.printed_unit}: "
+                            f"×{reading.factor:.6g} puts them on the consensus within "
+                            f"{reading.remaining_percent:+.2g} %")
+                    out.update({p.row: Cause("pressure-unit", text, None, p.P_Pa * reading.factor) for p in run})
+                    continue
+                t_units = [p.T_text_unit for p in run]
+                t_printed = max(set(t_units), key=t_units.count)
+                same = [p for p in run if p.T_text_unit == t_printed]
+                t_reading = source_temperature_unit([p.T_K for p in same], np.log([p.P_Pa for p in same]),
+                                                    t_printed, eq.ln_p, judgeable_range(c.fit), tolerance)
+                if t_reading is not None and len(same) == len(run):
+                    text = (f"{where} form a block whose temperatures were printed in {t_reading.real_unit}, not "
+                            f"{t_reading.printed_unit}: so read, they lie on the consensus within "
+                            f"{t_reading.remaining_percent:+.2g} %")
+                    out.update({p.row: Cause("temperature-unit", text, t, None) for p, t in zip(same, t_reading.T_K)})
+                    continue
+                text = (f"{where} form a block of their own: {len(run)} rows "
+                        f"{percent_from_log_ratio(offset):+.3g} % off the consensus with only "
+                        f"{100 * own_scale:.2g} % scatter among themselves, and no unit ratio or temperature "
+                        "scale explains the level — likely another compound's rows pasted into the table; "
+                        "exclude them")
+                out.update({p.row: Cause("other-compound", text, None, None) for p in run})
+    return out

@@ -31,7 +31,11 @@ Systematic offsets (synthetic; the thresholds below are this benchmark's own)
     * ``within`` — |Δ| ≤ u: within scatter; the source is good;
     * ``grey`` — neither: the audit may or may not report it; counted in no figure;
     * ``biased`` — |Δ| > 3 u and |Δ| ≥ 1 %: a fault the audit should report
-      (a source fault of kind ``pressure-scale`` or ``temperature-offset``).
+      (a source fault of kind ``pressure-scale`` or ``temperature-offset``);
+    * ``isolated`` — a ``grey`` or ``biased`` offset on a source that no
+      other source (without a gross source fault) reaches in temperature:
+      there is nothing to measure the offset against, so it is counted in no
+      figure (the audit should say the source was not compared).
       The 1 % floor is common practice for literature compilations: smaller
       offsets are within what independent laboratories agree to.
 
@@ -276,7 +280,7 @@ class SourceTruth:
         δ (relative pressure scale) [-] or δT [K].
     offset_z : float
         |Δ ln P| / u of the offset (see the module docstring).
-    offset_class : {'none', 'within', 'grey', 'biased'}
+    offset_class : {'none', 'within', 'grey', 'biased', 'isolated'}
     fault : str or None
         Source fault planted on it (``'pressure-unit'``, ``'temperature-unit'``,
         ``'other-compound'``, ``'copied-series'`` for the copy, or the offset
@@ -733,11 +737,42 @@ def make_compilation(rng: np.random.Generator, *, fault: str | None, replicate_o
                       fault_rows=tuple(k for k in by_src.get(t.name, ()) if t.fault and rows[k].fault
                                        and not rows[k].fault.startswith("point:")))
               for t in truths]
+    truths = _isolate(truths, rows)
     header, columns, delim = _layout(rng, T_unit, P_unit, with_phase)
     if not with_phase:
         rows = [replace(r, phase=None) for r in rows]
     return Compilation(substance, T_unit, P_unit, header, columns, delim, tuple(rows), tuple(truths), fault,
                        tuple(copies))
+
+
+#: source faults that make a source's rows no yardstick for the others
+_GROSS_SOURCE_FAULTS = ("pressure-unit", "temperature-unit", "other-compound")
+
+
+def _isolate(truths, rows):
+    """Sources with a systematic offset that no other source reaches in temperature.
+
+    An offset is a disagreement with the other sources, measurable only
+    where they overlap: a source none of whose rows lies within the true
+    temperature span of another source's rows on the same branch (sources
+    carrying a gross source fault are no yardstick) is classed
+    ``isolated`` — counted neither as a biased source to find nor as a good
+    one.  The audit is expected to say it was not compared.
+    """
+    out = []
+    for t in truths:
+        if t.offset_class in ("none", "within") or t.fault not in (None, "pressure-scale", "temperature-offset"):
+            out.append(t)
+            continue
+        mine = [rows[k] for k in t.rows]
+        overlapping = False
+        for phase in {r.phase for r in mine}:
+            others = [r.T_true_K for o in truths if o.name != t.name and o.fault not in _GROSS_SOURCE_FAULTS
+                      for r in (rows[k] for k in o.rows) if r.phase == phase]
+            if others and any(min(others) <= r.T_true_K <= max(others) for r in mine if r.phase == phase):
+                overlapping = True
+        out.append(t if overlapping else replace(t, offset_class="isolated", fault=None, fault_rows=()))
+    return out
 
 
 def _ln_p_step(p_true, T_old_K, T_new_K):

@@ -77,7 +77,7 @@ def score(comp, result) -> dict:
     src = {s.source: s for s in result.sources}
     out = {"fault": comp.fault, "verdict": result.verdict, "n_rows": len(comp.rows), "n_points": len(st),
            "internal": [c.id for c in result.checks if c.message.startswith("internal error")],
-           "good": [], "source_faults": [], "points": [], "copies": None, "false_copies": 0}
+           "good": [], "isolated": [], "source_faults": [], "points": [], "copies": None, "false_copies": 0}
     if len(st) != len(comp.rows):
         return out
     for t in comp.sources:
@@ -87,13 +87,15 @@ def score(comp, result) -> dict:
         if t.good:
             lost = sum(st[k] in ("reject", "unreadable") for k in rows)
             out["good"].append((t.scatter, len(rows), lost, s_status in FLAGGED))
+        if t.offset_class == "isolated":
+            out["isolated"].append(rec is not None and "not_analysed" in rec.extra)
         kind = t.fault
         if kind in SOURCE_KINDS:
             fr = t.fault_rows or t.rows
             flagged = [k for k in fr if st[k] in FLAGGED]
             found = s_status in FLAGGED or len(flagged) >= 0.5 * len(fr)
             want = EXPECTED_CAUSE[kind]
-            s_cause = getattr(getattr(rec, "cause", None), "kind", None)
+            s_cause = (rec.extra.get("cause") or {}).get("kind") if rec is not None else None
             if s_cause is not None or kind in ("pressure-scale", "temperature-offset") and s_status in FLAGGED:
                 right = s_cause == want or (rec is not None and rec.pattern == want)
             else:
@@ -187,6 +189,9 @@ def report(results: list[dict], seeds: range, profile: str, seconds: float) -> N
         sub = [f for f in sf if f[0] in ("pressure-scale", "temperature-offset") and lo <= f[3] < hi]
         fo = sum(f[1] for f in sub)
         print(f"{label:58s} {f'{fo}/{len(sub)}':>8s}{_pct(fo, len(sub)):>8s}")
+    iso = [x for r in ok for x in r["isolated"]]
+    print(f"{'offset sources no other source reaches (counted in no figure)':58s} {len(iso):>8d}")
+    print(f"{'  of those, said not compared':58s} {f'{sum(iso)}/{len(iso)}':>8s}{_pct(sum(iso), len(iso)):>8s}")
     with_check = [r for r in ok if r["copies"] is not None]
     if with_check:
         planted = [c for r in with_check for c in r["copies"]]

@@ -272,8 +272,23 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     except np.linalg.LinAlgError:
         return None
     Jall = J[g]
-    return GroupDeletion(residuals=_readonly(r[g] + Jall @ delta),
-                         curve_variance=_readonly(np.einsum("ij,jk,ik->i", Jall, cov_minus, Jall)))
+    # J_i (XᵀX)⁻¹ J_iᵀ as the squared norm of R⁻ᵀ J_iᵀ (X = QR, the weighted Jacobian of the
+    # kept points): never negative, where the explicit inverse of an ill-conditioned XᵀX can
+    # give a slightly negative "variance" (a one-digit source beside a 0.01 % one)
+    R = np.linalg.qr(J[keep] * np.sqrt(w[keep])[:, None], mode="r")
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        Z = _solve_upper_transposed(R, Jall.T)
+        curve_variance = np.sum(Z ** 2, axis=0)
+    if not np.all(np.isfinite(curve_variance)):
+        return None
+    return GroupDeletion(residuals=_readonly(r[g] + Jall @ delta), curve_variance=_readonly(curve_variance))
+
+
+def _solve_upper_transposed(R, B):
+    """X with Rᵀ X = B for an upper-triangular R (forward substitution)."""
+    from scipy.linalg import solve_triangular
+
+    return solve_triangular(R, B, trans="T", lower=False, check_finite=False)
 
 
 def fit_influence(fit) -> Influence:

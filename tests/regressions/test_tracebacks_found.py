@@ -33,6 +33,9 @@ FOUND = {
     "two_temperatures_ill_posed.csv": "ValueError: the fit is ill-posed (parameters not determined by the data)",
     "huge_temperature_overflow.csv": "OverflowError: (34, 'Numerical result out of range') in duplicates",
     "water_temperature_above_tc.csv": "ValueError: reduced (Wagner-type) equations need T below Tc = 647.096 K",
+    "one_digit_beside_precise_source.csv": "ValueError: math domain error (a negative curve variance from the "
+                                           "inverse of an ill-conditioned XᵀX in group_deletion), caught as "
+                                           "'fit failed': outliers skipped",
 }
 
 
@@ -108,3 +111,18 @@ def test_source_far_outside_the_others_keeps_finite_findings(default_profile):
     assert result.internal_errors == ()
     text = json.dumps(result.to_findings(), allow_nan=False)  # every number finite or null
     assert "NaN" not in text
+
+
+def test_ill_conditioned_group_deletion_keeps_the_consensus(tmp_path):
+    # a source printed to one significant digit (±50 % rounding) beside one at 0.01 %: the
+    # weights span 10⁸, and the consensus must still be built (no check skipped for it), with
+    # the source planted +19 % high (pressure scale) found as such
+    out = tmp_path / "out"
+    assert main(["check", str(DATA / "one_digit_beside_precise_source.csv"), "--out", str(out),
+                 "--format", "json"]) in (0, 1)
+    findings = json.loads((out / "findings.json").read_text(encoding="utf-8"))
+    outliers = next(c for c in findings["checks"] if c["id"] == "outliers")
+    assert outliers["status"] != "skipped", outliers["message"]
+    quist = next(s for s in findings["sources"] if s["source"] == "Quist 2021")
+    assert quist["status"] in ("suspect", "reject") and quist["pattern"] == "pressure-scale"
+    assert 10.0 < quist["bias_percent"] < 30.0  # planted +19.3 %, 9.4 % scatter over 34 rows

@@ -385,7 +385,13 @@ class _BranchAnalysis:
         ``min_points_source_scale`` points — and shrunk only upward: a
         scattered source is never judged by the scatter of a more precise
         one.  A one-row source, with no scatter of its own, gets the larger
-        of the prior and the pooled scale.
+        of the prior and the pooled scale.  When the test finds no difference,
+        a source whose own scale exceeds the pooled one still gets its own,
+        shrunk toward the pooled scale with the same degrees of freedom: the
+        test can miss a 12 % series beside 0.01 % ones (their residuals carry
+        the curve's misfit in the first rounds, and sources of fewer than
+        ``min_points_source_scale`` rows are not in it), and a source is never
+        judged by a scatter smaller than its own.
 
         A source whose scatter about the consensus would exceed
         ``max_source_scatter_percent`` is measured about its own trend in 1/T
@@ -409,18 +415,27 @@ class _BranchAnalysis:
         rest = r[(small | (active & (src == ""))) & ~np.isin(src, big)]
         if rest.size >= 3:
             groups.append(rest)
-        if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
-            return out
         own = {name: _own_scale(r[src == name], inv_T[src == name],
                                       math.log1p(s["max_source_scatter_percent"] / 100))
                for name in named if (src == name).sum() >= 2}
         own = {k: v for k, v in own.items() if v > 0}
+        nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
+        if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
+            # one shared scatter, as far as the test can tell — yet a source is never judged by
+            # a scatter smaller than its own: a 12 % series beside 0.01 % ones can pass the test
+            # (the others' residuals carry the curve's misfit, and a few-row source is not in
+            # it), so each source's own scale, shrunk toward the pooled one, raises its σ
+            for name, mine_scale in own.items():
+                if mine_scale > pooled:
+                    mine = src == name
+                    nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
+                    out[mine] = math.sqrt((nu * mine_scale ** 2 + nu0 * pooled ** 2) / (nu + nu0))
+            return out
         # the prior from the scales about the median: a precise series whose residuals trace the
         # equation's own misfit must not, by that trend being removed, lower every source's prior
         plain = {k: _robust_scale(r[src == k]) for k in own}
         plain = {k: v for k, v in plain.items() if v > 0}
         prior = float(np.median([plain[k] for k in big if k in plain] or list(plain.values()) or [pooled]))
-        nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
         for name in named:
             mine = src == name
             if name in own:

@@ -82,7 +82,8 @@ class SourceAgreement_(Check):
     ``pressure-unit`` and the value read in the real unit, and the source
     record carries that cause.  One that lies on the others' curve once its
     temperatures are read in °C, K or °F instead of the header's scale gets
-    ``temperature-unit`` and each row's temperature in that scale.  A flagged source whose own
+    ``temperature-unit`` and each row's temperature in that scale (tried too
+    on a series every row of which reads below 0 K).  A flagged source whose own
     slope implies an apparent enthalpy more than ``k``·u and
     ``other_compound_dH_percent`` away from the consensus's, and whose level
     no unit ratio explains, is taken for data of another compound: cause
@@ -310,12 +311,19 @@ class SourceAgreement_(Check):
         rows = [p for p in ctx.dataset.points if p.source == record.source and p.readable
                 and ctx.phase(p) == branch and p.T_K > 0 and p.P_Pa > 0
                 and math.isfinite(p.T_K) and math.isfinite(p.P_Pa)]
+        # every row with a pressure, also those read below 0 K (°C printed under a kelvin header):
+        # the temperature-scale reading is tried on them
+        every = [p for p in ctx.dataset.points if p.source == record.source and p.readable
+                 and ctx.phase(p) == branch and math.isfinite(p.T_K) and p.P_Pa > 0
+                 and math.isfinite(p.P_Pa)]
         all_rejected = bool(rows) and all(ctx.status[p.row] == "reject" for p in rows)
         # most rows rejected one by one: a unit slip of the whole series is the likelier story
         # (a series in °F under a °C header keeps a few rows near the curve by chance)
         mostly_rejected = 2 * sum(ctx.status[p.row] == "reject" for p in rows) > len(rows)
-        if fit is None or not rows:
+        if fit is None or not every:
             return None
+        if not rows:  # no row above 0 K: only another temperature scale can explain the series
+            all_rejected = mostly_rejected = True
         if not mostly_rejected:  # rows a check rejected on their own do not bend the source's slope
             rows = [p for p in rows if ctx.status[p.row] != "reject"]
         flagged = record.status != "ok" or all_rejected
@@ -324,15 +332,16 @@ class SourceAgreement_(Check):
         P = np.array([p.P_Pa for p in rows])
         eq = fit.equation
         with np.errstate(all="ignore"):
-            offset = float(np.median(np.log(P) - eq.ln_p(T)))
+            offset = float(np.median(np.log(P) - eq.ln_p(T))) if rows else math.nan
         units = [p.P_text_unit for p in rows]
-        printed = max(set(units), key=units.count)
         tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
-        slope = _slope_departure(T, P, eq, s) if unit_candidate else None
+        slope = _slope_departure(T, P, eq, s) if unit_candidate and rows else None
         # a wide reading (a large unit ratio matched only roughly) must keep the substance's slope:
         # another compound's block 10³ lower can sit near a unit ratio by chance
         wide = s["unit_ratio_tolerance"] if slope is None or not slope.beyond else 0.0
-        reading = source_pressure_unit(offset, printed, tolerance, wide) if unit_candidate else None
+        reading = None
+        if unit_candidate and rows:
+            reading = source_pressure_unit(offset, max(set(units), key=units.count), tolerance, wide)
         if reading is not None:
             cause = {"kind": "pressure-unit", "n_rows": len(rows), "printed_unit": reading.printed_unit,
                      "real_unit": reading.real_unit, "factor": reading.factor,
@@ -342,9 +351,6 @@ class SourceAgreement_(Check):
                     f"sources within {reading.remaining_percent:+.2g} %")
             return cause, text, lambda p, f=reading.factor: (None, p.P_Pa * f)
         if unit_candidate:
-            every = [p for p in ctx.dataset.points if p.source == record.source and p.readable
-                     and ctx.phase(p) == branch and math.isfinite(p.T_K) and p.P_Pa > 0
-                     and math.isfinite(p.P_Pa)]
             t_units = [p.T_text_unit for p in every]
             t_printed = max(set(t_units), key=t_units.count) if t_units else "K"
             same = [p for p in every if p.T_text_unit == t_printed]
@@ -364,7 +370,7 @@ class SourceAgreement_(Check):
         # the slope test only for sources already off the others: on every source it
         # rejected good scattered series whose few rows give a noisy slope (benchmark
         # seeds 5000-5199: good sources mass-rejected 7.7 % -> 10.6 %)
-        if not flagged:
+        if not flagged or not rows:
             return None
         slope = slope or _slope_departure(T, P, eq, s)
         if slope is not None and slope.beyond:

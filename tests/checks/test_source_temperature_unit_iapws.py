@@ -65,3 +65,26 @@ def test_a_series_in_the_stated_scale_is_not_given_a_temperature_cause(default_p
     result = run_audit(ds, default_profile)
     causes = [s.extra.get("cause") for s in result.sources]
     assert not [c for c in causes if c and c["kind"] == "temperature-unit"]
+
+
+def test_series_read_below_absolute_zero_gets_its_scale(tmp_path):
+    # A literature-like compilation of ice (benchmarks/compilations.py, seed 1018; pressures
+    # from the IAPWS R14-08 sublimation equation, invented labels) in which "Schmidt 2002"
+    # is printed in °F under a kelvin header: every one of its 13 rows reads -86 to -44 K,
+    # so physical-range rejects them all.  Before the fix no source-level reading was tried
+    # on a series with no row above 0 K, and the rows got no cause.
+    from pathlib import Path
+
+    from audit.ingest import read_table
+    from audit.profiles import load_profile
+
+    path = Path(__file__).parents[1] / "regressions" / "data" / "fahrenheit_series_under_kelvin_header.csv"
+    result = run_audit(read_table(path), load_profile("default"))
+    schmidt = next(s for s in result.sources if s.source == "Schmidt 2002")
+    assert schmidt.status == "reject"
+    assert schmidt.extra["cause"]["kind"] == "temperature-unit"
+    assert schmidt.extra["cause"]["real_unit"] == "°F"
+    rows = [p for p in result.points if p.source == "Schmidt 2002"]
+    assert len(rows) == 13 and all(p.cause is not None and p.cause.kind == "temperature-unit" for p in rows)
+    # each suggested temperature is the printed °F value in kelvin: inside the ice range
+    assert all(190.0 < p.cause.suggested_T_K < 235.0 for p in rows)

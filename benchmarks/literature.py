@@ -15,6 +15,9 @@ own path (``audit.cli.audit_file``).  Printed, beside the targets:
   least half its faulty rows suspect or reject — and, of those found, with
   the right cause (the source's cause kind, or its pattern for an offset;
   else the cause kind most of its flagged faulty rows carry);
+* sources with an offset that no other source reaches in temperature
+  (class ``isolated`` of :mod:`benchmarks.compilations`): counted in no
+  other figure, and how many of them the audit says it did not compare;
 * copied series found (a pair of the ``copied-values`` check naming both
   planted sources, either order) and false copies (compilations with a
   reported pair that was not planted); "n/a" while no such check runs;

@@ -24,8 +24,11 @@ long-term preservation — Part 3: PDF/A-3 (associated files, AFRelationship).
 
 from __future__ import annotations
 
+import contextlib
 import datetime as _dt
+import os
 import re
+import threading
 from dataclasses import dataclass
 from pathlib import PurePath
 
@@ -183,8 +186,35 @@ def render_pdf(result: AuditResult, input_bytes: bytes | None = None, *, plots=N
                    for s in specs]
     page = render_html(result, plots=plots, for_print=True)
     document = HTML(string=page, base_url=None, url_fetcher=fetcher, media_type="print")
-    return document.write_pdf(pdf_variant=PDF_VARIANT, attachments=attachments,
-                              finisher=_finisher(specs))
+    with _font_timestamps_at(when):
+        return document.write_pdf(pdf_variant=PDF_VARIANT, attachments=attachments,
+                                  finisher=_finisher(specs))
+
+
+_ENVIRONMENT_LOCK = threading.Lock()
+
+
+@contextlib.contextmanager
+def _font_timestamps_at(when: _dt.datetime):
+    """Font subsets stamped with the audit time instead of the clock.
+
+    fontTools writes the time of subsetting into each embedded font's
+    ``head`` table unless ``SOURCE_DATE_EPOCH`` is set (the reproducible-builds
+    convention it follows), so two renderings of one audit a second apart
+    differed in their font programs.  The variable is set to the audit time
+    for the rendering and restored after it.
+    """
+    epoch = str(int(when.replace(tzinfo=_dt.timezone.utc).timestamp()))
+    with _ENVIRONMENT_LOCK:
+        before = os.environ.get("SOURCE_DATE_EPOCH")
+        os.environ["SOURCE_DATE_EPOCH"] = epoch
+        try:
+            yield
+        finally:
+            if before is None:
+                del os.environ["SOURCE_DATE_EPOCH"]
+            else:
+                os.environ["SOURCE_DATE_EPOCH"] = before
 
 
 def write_pdf(result: AuditResult, path, input_bytes: bytes | None = None, *,

@@ -169,6 +169,8 @@ class TriplePoint(Check):
 
     def _phase_labels(self, ctx, fit_s, fit_l, s):
         """Rows marked by the outlier screening that fit the other branch."""
+        from ..thermo.equations import ln_p_where_defined
+
         causes, flags, status = {}, [], {}
         fits = {"solid": fit_s, "liquid": fit_l}
         scale = {b: _robust_scale(f) for b, f in fits.items()}
@@ -179,8 +181,12 @@ class TriplePoint(Check):
                 continue
             other = "liquid" if p.phase == "solid" else "solid"
             lnp = math.log(p.P_Pa)
-            r_own = (lnp - float(fits[p.phase].equation.ln_p(np.array([p.T_K]))[0])) / scale[p.phase]
-            r_other = (lnp - float(fits[other].equation.ln_p(np.array([p.T_K]))[0])) / scale[other]
+            # a curve is asked only where it is defined (a row labelled solid at 700 K lies above
+            # the Tc of a reduced liquid form): such a row is no phase-label candidate
+            r_own = (lnp - float(ln_p_where_defined(fits[p.phase].equation, p.T_K)[0])) / scale[p.phase]
+            r_other = (lnp - float(ln_p_where_defined(fits[other].equation, p.T_K)[0])) / scale[other]
+            if not (math.isfinite(r_own) and math.isfinite(r_other)):
+                continue
             if abs(r_other) <= s["phase_label_k"] and abs(r_own) > 2 * s["phase_label_k"]:
                 msg = (f"labelled {p.phase} but fits the {other} branch ({r_other:+.1f} σ) far better than its "
                        f"own ({r_own:+.1f} σ): phase label probably wrong")

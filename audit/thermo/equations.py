@@ -55,6 +55,7 @@ __all__ = [
     "antoine_convert",
     "FORMS",
     "get_form",
+    "ln_p_where_defined",
 ]
 
 _LN10 = math.log(10.0)
@@ -708,3 +709,42 @@ def get_form(form) -> type:
     if isinstance(form, str) and form.lower() in FORMS:
         return FORMS[form.lower()]
     raise ValueError(f"unknown vapor-pressure form {form!r}; known: {sorted(set(FORMS))}")
+
+
+def ln_p_where_defined(equation: VaporPressureEquation, T) -> np.ndarray:
+    """ln P of an equation [ln Pa] at T [K]; NaN where the equation is not defined.
+
+    A reduced (Wagner-type) form is defined below its Tc only, and no form at
+    T ≤ 0 or a non-finite T.  Callers that compare a printed row with a curve
+    (a row labelled solid at 700 K, say) then skip the row instead of stopping.
+
+    Parameters
+    ----------
+    equation : VaporPressureEquation
+    T : array_like
+        Temperatures [K].
+
+    Returns
+    -------
+    ndarray
+        ln P [ln Pa], NaN outside the domain.
+
+    Examples
+    --------
+    A Wagner 2.5-5 form with water's critical point (IAPWS R6-95: Tc =
+    647.096 K, Pc = 22.064 MPa; coefficients illustrative) is defined below Tc only:
+
+    >>> eq = Wagner(-7.8, 1.8, -2.0, -3.0, Tc=647.096, Pc=22.064e6)
+    >>> np.isfinite(ln_p_where_defined(eq, [373.124, 647.096, 700.0, -5.0])).tolist()
+    [True, False, False, False]
+    """
+    T = np.atleast_1d(np.asarray(T, dtype=float))
+    out = np.full(T.shape, np.nan)
+    ok = np.isfinite(T) & (T > 0)
+    Tc = getattr(equation, "Tc", None)
+    if isinstance(Tc, (int, float)) and Tc > 0:
+        ok &= T < Tc
+    if ok.any():
+        with np.errstate(all="ignore"):
+            out[ok] = equation.ln_p(T[ok])
+    return out

@@ -386,7 +386,8 @@ class _BranchAnalysis:
         scattered source is never judged by the scatter of a more precise
         one.  A one-row source, with no scatter of its own, gets the larger
         of the prior and the pooled scale.  When the test finds no difference,
-        a source whose own scale exceeds the pooled one still gets its own,
+        a source whose own scale exceeds the pooled one significantly (F test
+        of the two MAD scales at ``source_scale_alpha``) still gets its own,
         shrunk toward the pooled scale with the same degrees of freedom: the
         test can miss a 12 % series beside 0.01 % ones (their residuals carry
         the curve's misfit in the first rounds, and sources of fewer than
@@ -425,10 +426,17 @@ class _BranchAnalysis:
             # a scatter smaller than its own: a 12 % series beside 0.01 % ones can pass the test
             # (the others' residuals carry the curve's misfit, and a few-row source is not in
             # it), so each source's own scale, shrunk toward the pooled one, raises its σ
+            from scipy.stats import f as f_dist
+
+            nu_pooled = _MAD_EFFICIENCY * max(int(np.count_nonzero(active)) - 1, 1)
             for name, mine_scale in own.items():
-                if mine_scale > pooled:
-                    mine = src == name
-                    nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
+                mine = src == name
+                nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
+                # only a scatter significantly above the pooled one (F test on the two MAD
+                # scales with their effective degrees of freedom): a source merely above it by
+                # chance keeps the pooled scale, and with it the power to find its 4σ errors
+                if mine_scale > pooled and f_dist.sf((mine_scale / pooled) ** 2, nu, nu_pooled) \
+                        < s["source_scale_alpha"]:
                     out[mine] = math.sqrt((nu * mine_scale ** 2 + nu0 * pooled ** 2) / (nu + nu0))
             return out
         # the prior from the scales about the median: a precise series whose residuals trace the

@@ -181,13 +181,7 @@ def _from_metadata(table: dict, file_name: str):
 def _reference_p(eq, T) -> np.ndarray:
     """The reference's P [Pa] at T [K]; NaN where it is not defined (at or above the Tc of a
     reduced form, T ≤ 0): those points are not compared rather than stopping the check."""
-    T = np.asarray(T, dtype=float)
-    out = np.full(T.shape, np.nan)
-    Tc = getattr(eq, "Tc", None)
-    ok = np.isfinite(T) & (T > 0)
-    if isinstance(Tc, float) and Tc > 0:
-        ok &= T < Tc
-    if ok.any():
-        with np.errstate(all="ignore"):
-            out[ok] = eq.p(T[ok])
-    return out
+    from ..thermo.equations import ln_p_where_defined
+
+    with np.errstate(over="ignore"):
+        return np.exp(ln_p_where_defined(eq, T)).reshape(np.shape(T))

@@ -308,26 +308,23 @@ class SourceAgreement_(Check):
         branch = record.extra.get("branch")
         branch_model = consensus.get(branch)
         fit = None if branch_model is None else branch_model.fit
-        rows = [p for p in ctx.dataset.points if p.source == record.source and p.readable
-                and ctx.phase(p) == branch and p.T_K > 0 and p.P_Pa > 0
-                and math.isfinite(p.T_K) and math.isfinite(p.P_Pa)]
         # every row with a pressure, also those read below 0 K (°C printed under a kelvin header):
-        # the temperature-scale reading is tried on them
+        # the temperature-scale reading is tried on them, the other readings on the rows above 0 K
         every = [p for p in ctx.dataset.points if p.source == record.source and p.readable
                  and ctx.phase(p) == branch and math.isfinite(p.T_K) and p.P_Pa > 0
                  and math.isfinite(p.P_Pa)]
+        rows = [p for p in every if p.T_K > 0]
+        if fit is None or not every:
+            return None
         all_rejected = bool(rows) and all(ctx.status[p.row] == "reject" for p in rows)
         # most rows rejected one by one: a unit slip of the whole series is the likelier story
         # (a series in °F under a °C header keeps a few rows near the curve by chance)
         mostly_rejected = 2 * sum(ctx.status[p.row] == "reject" for p in rows) > len(rows)
-        if fit is None or not every:
-            return None
-        if not rows:  # no row above 0 K: only another temperature scale can explain the series
-            all_rejected = mostly_rejected = True
         if not mostly_rejected:  # rows a check rejected on their own do not bend the source's slope
             rows = [p for p in rows if ctx.status[p.row] != "reject"]
         flagged = record.status != "ok" or all_rejected
-        unit_candidate = flagged or mostly_rejected
+        # no row above 0 K: only another temperature scale can explain the series
+        unit_candidate = flagged or mostly_rejected or not rows
         T = np.array([p.T_K for p in rows])
         P = np.array([p.P_Pa for p in rows])
         eq = fit.equation

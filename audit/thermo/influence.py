@@ -254,12 +254,6 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     if keep.sum() <= p:
         return None
     A_minus = (J[keep] * w[keep, None]).T @ J[keep]
-    try:
-        cov_minus = np.linalg.inv(A_minus)
-    except np.linalg.LinAlgError:
-        return None
-    if not np.all(np.isfinite(cov_minus)):
-        return None
     # refitting without the group equals solving the kept points' normal equations; the
     # parameter change follows from the group's fitted residuals
     fitted = g & (w > 0)
@@ -276,9 +270,14 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     # kept points): never negative, where the explicit inverse of an ill-conditioned XᵀX can
     # give a slightly negative "variance" (a one-digit source beside a 0.01 % one)
     R = np.linalg.qr(J[keep] * np.sqrt(w[keep])[:, None], mode="r")
-    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        Z = _solve_upper_transposed(R, Jall.T)
-        curve_variance = np.sum(Z ** 2, axis=0)
+    # a kept set that does not determine the parameters has a zero on R's diagonal: no fit
+    # without the group exists (the solve raises, or the variance comes out infinite)
+    try:
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            Z = _solve_upper_transposed(R, Jall.T)
+            curve_variance = np.sum(Z ** 2, axis=0)
+    except np.linalg.LinAlgError:
+        return None
     if not np.all(np.isfinite(curve_variance)):
         return None
     return GroupDeletion(residuals=_readonly(r[g] + Jall @ delta), curve_variance=_readonly(curve_variance))

@@ -232,7 +232,9 @@ def repeated_median_line(x, y, *, chunk_rows: int | None = None) -> RepeatedMedi
     Parameters
     ----------
     x, y : array_like
-        Abscissae and ordinates (same length, at least 2).
+        Abscissae and ordinates (same length, at least 2).  Pairs with a
+        non-finite value are left out of the line; their residuals are not
+        finite.
     chunk_rows : int, optional
         Points whose medians are computed together (default: enough for
         about 2·10⁶ slopes, at most 512).
@@ -248,18 +250,19 @@ def repeated_median_line(x, y, *, chunk_rows: int | None = None) -> RepeatedMedi
     y = np.asarray(y, dtype=float).ravel()
     if x.size != y.size or x.size < 2:
         raise ValueError("repeated_median_line needs two or more (x, y) pairs of equal length")
-    if not (np.all(np.isfinite(x)) and np.all(np.isfinite(y))):
-        # the padding below assumes finite slopes; scipy defines the rest
-        res = stats.siegelslopes(y, x)
-        slope, intercept = float(res[0]), float(res[1])
-    elif np.all(x == x[0]):
+    # pairs with a non-finite x or y carry no slope: the line rests on the finite ones (scipy's
+    # siegelslopes, given them, never returns when every x is infinite — 1/T of a 1e-320 K row)
+    finite = np.isfinite(x) & np.isfinite(y)
+    xf, yf = x[finite], y[finite]
+    if xf.size < 2 or np.all(xf == xf[0]):
         # no pair at distinct x: no slope is determined (scipy leaves it
         # uninitialised); a level line through the median keeps residuals finite
-        slope, intercept = 0.0, float(np.median(y))
+        slope, intercept = 0.0, float(np.median(yf)) if yf.size else 0.0
     else:
-        slope = float(np.median(_point_median_slopes(x, y, chunk_rows)))
-        intercept = float(np.median(y - slope * x))
-    r = y - (intercept + slope * x)
+        slope = float(np.median(_point_median_slopes(xf, yf, chunk_rows)))
+        intercept = float(np.median(yf - slope * xf))
+    with np.errstate(invalid="ignore", over="ignore"):
+        r = y - (intercept + slope * x)
     r.setflags(write=False)
     return RepeatedMedianLine(intercept, slope, r)
 

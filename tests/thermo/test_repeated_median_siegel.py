@@ -22,3 +22,25 @@ def test_repeated_median_line_ignores_a_block_of_unit_slips_at_one_end():
     # least squares, by contrast, is dragged by the block
     slope_ls = np.polyfit(1.0 / T, y, 1)[0]
     assert abs(slope_ls + 5000.0) > 1000.0
+
+
+def test_pairs_with_no_finite_slope_are_left_out_of_the_line():
+    # Rows printed at 1e-320 K have 1/T = inf.  scipy's siegelslopes, which the line used
+    # to hand such input to, never returned when every x was infinite (two fuzz tables,
+    # seeds 45419 and 46127, stopped a campaign).  Reference: the exact line
+    # ln P = 20 − 5000/T through the finite rows (Siegel 1982; exact data, so exact medians).
+    from audit.thermo.stats import repeated_median_line
+
+    T = np.linspace(280.0, 370.0, 9)
+    x, y = 1.0 / T, 20.0 - 5000.0 / T
+    x[[2, 6]] = np.inf
+    line = repeated_median_line(x, y)
+    assert line.slope == pytest.approx(-5000.0, rel=1e-9)
+    assert line.intercept == pytest.approx(20.0, rel=1e-9)
+    finite = np.isfinite(x)
+    assert np.allclose(line.residuals[finite], 0.0, atol=1e-9)
+    assert not np.isfinite(line.residuals[~finite]).any()
+    # no finite pair at all: a level line at 0, every residual not finite
+    every = repeated_median_line(np.full(9, np.inf), y)
+    assert (every.slope, every.intercept) == (0.0, 0.0)
+    assert not np.isfinite(every.residuals).any()

@@ -47,7 +47,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from ..thermo.overlap import overlaps_others
+from ..thermo.overlap import JUDGEABLE_REACH, overlaps_others, within_span
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
 from ..thermo.stats import family_wise_critical, mad_scale, repeated_median_line
@@ -104,7 +104,7 @@ def judgeable_range(fit) -> tuple[float, float]:
     """
     lo, hi = fit.T_range  # of the points the fit used
     span = hi - lo
-    return lo - 0.25 * span, hi + 0.25 * span
+    return lo - JUDGEABLE_REACH * span, hi + JUDGEABLE_REACH * span
 
 
 def _median_u(values, floor: float) -> float:
@@ -474,39 +474,52 @@ class _BranchAnalysis:
         full comparison later.
         """
         out: dict[str, SourceShift] = {}
+        # the consensus is what most sources say: fewer than half of the sources that can be
+        # judged are ever found off, or a curve pulled by one biased series (or fitted to a
+        # narrow few) makes the majority look off and the consensus becomes an extrapolation
+        judged = sum(int((src == name).sum()) >= max(2, ss["min_points"]) for name in names)
+        most_off = max(1, (judged - 1) // 2)
         # worst source first, then the others against a yardstick without it: one biased
         # source would otherwise make every other look off the opposite way
-        while len(names) - len(out) >= 2:
+        while len(names) - len(out) >= 2 and len(out) < most_off:
             left_out = np.isin(src, list(out))
             worst, worst_score = None, 0.0
             for name in names:
                 # all of the source's points: a source 3 % off with 0.1 % scatter has every point
                 # rejected by the first screen, and the median is robust to its own outliers anyway
                 mine = src == name
-                if name in out or mine.sum() < 2:
+                # as few points as `source-agreement` compares (it reports what is found here)
+                if name in out or mine.sum() < max(2, ss["min_points"]):
                     continue
                 # an offset is measured only where the other sources overlap the source in
                 # temperature; far outside them, "the others' curve" is an extrapolation
-                if not overlaps_others(T, mine, in_fit & ~left_out & ~mine):
+                yardstick = in_fit & ~left_out & ~mine
+                if not overlaps_others(T, mine, yardstick):
+                    continue
+                # ... and from the source's points within the others' judgeable range alone: a
+                # median over points far outside it measures the extrapolation (a narrow
+                # precise series made every wide scattered one look tens of percent off)
+                inside = within_span(T[mine], T[yardstick])
+                if inside.sum() < 2:
                     continue
                 gd = deletion(mine, left_out)
-                r_out = r[mine] if gd is None else gd.residuals
+                r_out = (r[mine] if gd is None else gd.residuals)[inside]
                 # median: one point far outside the others' range (a °C value in a K column)
                 # must not make the whole source look unjudgeable
-                curve_var = 0.0 if gd is None else float(np.median(gd.curve_variance))
+                curve_var = 0.0 if gd is None else float(np.median(gd.curve_variance[inside]))
                 med_out = float(np.median(r_out))
-                u = math.hypot(_median_u(r_out, float(np.median(sig[mine]))), math.sqrt(curve_var))
+                u = math.hypot(_median_u(r_out, float(np.median(sig[mine][inside]))), math.sqrt(curve_var))
                 if abs(med_out) > ss["k"] * u and abs(percent_from_log_ratio(med_out)) > ss["tolerance_percent"] \
                         and abs(med_out) / u > worst_score:
-                    worst, worst_score = (name, u, r_out), abs(med_out) / u
+                    worst, worst_score = (name, u, r_out, inside), abs(med_out) / u
             if worst is None:
                 break
-            name, u, r_out = worst
+            name, u, r_out, inside = worst
             mine = src == name
             # the offset is removed from the residuals the points are scored with: those against
             # the next fit, which leaves the source out when three or more sources are named
-            rm = r_out if len(names) >= 3 else r[mine]
-            sm, sg = slope[mine], sig[mine]
+            rm = r_out if len(names) >= 3 else r[mine][inside]
+            sm, sg = slope[mine][inside], sig[mine][inside]
             med = float(np.median(rm))
             dT = float(np.median(-rm / sm)) if np.all(sm > 0) else math.nan
             temperature = math.isfinite(dT) and _robust_scale(rm + sm * dT) < _robust_scale(rm - med)

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["overlaps_others"]
+__all__ = ["JUDGEABLE_REACH", "overlaps_others", "within_span"]
 
 
 def overlaps_others(T, mine, others) -> bool:
@@ -41,3 +41,34 @@ def overlaps_others(T, mine, others) -> bool:
     lo, hi = float(T[others].min()), float(T[others].max())
     Tm = T[mine]
     return bool(np.any((Tm >= lo) & (Tm <= hi)))
+
+
+
+#: how far beyond a fitted temperature span a curve still judges a point, as a fraction of that
+#: span on each side: further out, the extrapolation's σ grows with the slope until anything
+#: "fits" (our choice; the same reach as the consensus's judgeable range)
+JUDGEABLE_REACH = 0.25
+
+
+def within_span(T_mine, T_others, reach: float = JUDGEABLE_REACH) -> np.ndarray:
+    """Which of `T_mine` lie within the temperature span of `T_others`, widened by
+    `reach` times that span on each side (mask).
+
+    Parameters
+    ----------
+    T_mine, T_others : array_like
+        Temperatures [K].
+    reach : float
+        Widening on each side as a fraction of the span [-].
+
+    Examples
+    --------
+    >>> within_span(np.array([280.0, 290.0, 300.0, 320.0]), np.array([300.0, 320.0]))
+    array([False,  True,  True,  True])
+    """
+    T_mine, T_others = np.asarray(T_mine, dtype=float), np.asarray(T_others, dtype=float)
+    if T_others.size == 0:
+        return np.zeros(T_mine.shape, bool)
+    lo, hi = float(T_others.min()), float(T_others.max())
+    widen = reach * (hi - lo)
+    return (T_mine >= lo - widen) & (T_mine <= hi + widen)

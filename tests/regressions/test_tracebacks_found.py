@@ -126,3 +126,4 @@ def test_ill_conditioned_group_deletion_keeps_the_consensus(tmp_path):
     quist = next(s for s in findings["sources"] if s["source"] == "Quist 2021")
     assert quist["status"] in ("suspect", "reject") and quist["pattern"] == "pressure-scale"
     assert 10.0 < quist["bias_percent"] < 30.0  # planted +19.3 %, 9.4 % scatter over 34 rows
+

@@ -96,6 +96,34 @@ def _own_scale(r, inv_T, max_scale_lnP: float) -> float:
     return min(about_median, _robust_scale(line.residuals) * math.sqrt((r.size - 1) / (r.size - 2)))
 
 
+#: fewest rows from which a source's own scatter is estimated at all (a MAD of two values
+#: is their half-difference: no measure of a laboratory's precision)
+_OWN_SCATTER_ROWS = 3
+
+
+def _few_row_scales(out, src, named):
+    """Give every source of fewer than three rows the widest scatter of the others.
+
+    A source of one or two rows has no scatter of its own, and the compilation
+    says only that its sources scatter somewhere between the most precise and
+    the least: judged by the pooled scale it would borrow the precision of the
+    modern series beside it (a single value from a 5 % study rejected at 40 σ
+    against a 0.05 % one).  So it gets the largest per-point scale of the
+    sources of three rows or more (their own scales as chosen above), never
+    less than its current one.
+    """
+    counts = {name: int((src == name).sum()) for name in named}
+    estimated = [name for name in named if counts[name] >= _OWN_SCATTER_ROWS]
+    few = [name for name in named if counts[name] < _OWN_SCATTER_ROWS]
+    if not estimated or not few:
+        return out
+    widest = max(float(np.max(out[src == name])) for name in estimated)
+    for name in few:
+        mine = src == name
+        out[mine] = np.maximum(out[mine], widest)
+    return out
+
+
 def judgeable_range(fit) -> tuple[float, float]:
     """Temperatures at which the fit predicts ln P well enough to judge a point [K].
 
@@ -438,7 +466,7 @@ class _BranchAnalysis:
                 if mine_scale > pooled and f_dist.sf((mine_scale / pooled) ** 2, nu, nu_pooled) \
                         < s["source_scale_alpha"]:
                     out[mine] = math.sqrt((nu * mine_scale ** 2 + nu0 * pooled ** 2) / (nu + nu0))
-            return out
+            return _few_row_scales(out, src, named)
         # the prior from the scales about the median: a precise series whose residuals trace the
         # equation's own misfit must not, by that trend being removed, lower every source's prior
         plain = {k: _robust_scale(r[src == k]) for k in own}
@@ -452,7 +480,7 @@ class _BranchAnalysis:
                 out[mine] = max(own[name], shrunk)
             else:
                 out[mine] = max(prior, pooled)
-        return out
+        return _few_row_scales(out, src, named)
 
     @staticmethod
     def _biased_sources(r, slope, sig, src, names, ss, T, in_fit, deletion):

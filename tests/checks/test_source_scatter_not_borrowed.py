@@ -64,3 +64,32 @@ def test_scattered_series_beside_precise_ones_keeps_its_rows(default_profile):
     rejected = [p.row for p in rows if p.status == "reject"]
     assert len(rows) == 29
     assert len(rejected) <= 0.1 * len(rows), f"rows {rejected} of the 12 % series rejected"
+
+
+def _compilation_with_a_single_value(seed):
+    # IAPWS-95 water (iapws package), invented labels: three modern series at 0.01 %
+    # (12 rows each), one older series at 4 % (12 rows), and a single value from a study of
+    # that older kind printed 6 % high (1.5 times the older series' scatter)
+    rng = np.random.default_rng(seed)
+    T = np.concatenate([np.linspace(285.0, 365.0, 12), np.linspace(287.0, 363.0, 12),
+                        np.linspace(289.0, 361.0, 12), np.linspace(290.0, 360.0, 12), [330.0]])
+    lnP = np.log(iapws_saturation_pressure(T))
+    lnP[:36] += rng.normal(0, 0.0001, 36)
+    lnP[36:48] += np.clip(rng.normal(0, 0.04, 12), -0.08, 0.08)
+    lnP[48] += np.log(1.06)
+    src = ["Static 2011"] * 12 + ["Static 2016"] * 12 + ["Static 2020"] * 12 + ["Isoteniscope 1950"] * 12 \
+        + ["Handbook 1933"]
+    return from_arrays(T, np.exp(lnP), source=src, substance="water")
+
+
+def test_a_single_value_is_judged_by_the_widest_scatter_of_the_compilation(default_profile):
+    # A one-row source has no scatter of its own.  Judged by the pooled scale of the modern
+    # series (0.01 %) the 6 % value was rejected at hundreds of σ; the compilation only says
+    # its sources scatter up to the 4 % of the older series, and 6 % is 1.5 of that.
+    for seed in range(5):
+        result = run_audit(_compilation_with_a_single_value(seed), default_profile)
+        (single,) = [p for p in result.points if p.source == "Handbook 1933"]
+        assert single.status != "reject", (seed, single)
+        assert 0.5 < abs(single.residual_sigma) < 3.0, (seed, single.residual_sigma)
+        # ... and it still says where it stands: about +6 % off the consensus
+        assert single.deviation_percent == pytest.approx(6.0, abs=1.0)

@@ -15,11 +15,13 @@ import math
 from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from dataclasses import dataclass
+from functools import partial
 from decimal import Decimal, InvalidOperation
 
 from ..model import Point
 from ..results import CheckResult, PointFlag
-from ..thermo.rounding import log_pressure_base, parse_printed_number, temperature_rounding_u_K
+from ..thermo.rounding import (log_pressure_base, parse_printed_number, pressure_rounding_u_lnP,
+                               temperature_rounding_u_K)
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
@@ -34,6 +36,41 @@ def _t_rounding(p: Point) -> float:
     """Standard uncertainty [K] of a printed temperature from its rounding; 0 if unreadable."""
     u = temperature_rounding_u_K(p.T_text, p.T_text_unit)
     return u if math.isfinite(u) else 0.0
+
+
+def _shift_beyond_rounding(p: Point, q: Point) -> float:
+    """|T_q − T_p| less half a step of the coarser printed temperature [K], never below 0
+    (81.85 K and 81.9 K may be one temperature)."""
+    return max(0.0, abs(q.T_K - p.T_K) - _t_step(p, q) / 2)
+
+
+def _evidence(pairs, pa, pb, ka, kb, min_digits: int, max_shift_K: float) -> list[tuple[int, int]]:
+    """The matched rows of a same-pressure run that count as evidence of a copy.
+
+    Rows whose pressures carry ``min_digits`` digits: coarser values coincide
+    too easily (two-digit pressures of independent series a few percent
+    apart at temperatures a kelvin apart fall into one rounding cell as
+    readily as at one temperature).  When the temperatures are shifted, only
+    rows moved by the run's own constant shift (within one printed step),
+    and only for a shift within ``max_shift_K`` [K]: a copy is shifted by one
+    correction, while pressures that agree at temperatures further apart, or
+    at shifts that wander, belong to unrelated parts of the curve (another
+    unit, a biased series), not to a copy.  A row that is no evidence
+    neither counts nor breaks the run.
+    """
+    fine = [(i, j) for i, j in pairs if min(ka[i].digits, kb[j].digits) >= min_digits]
+    shifts = [pb[j].T_K - pa[i].T_K for i, j in pairs]
+    if all(abs(d) <= _t_step(pa[i], pb[j]) / 2 for d, (i, j) in zip(shifts, pairs)):
+        return fine
+    shift = _median(shifts)
+    if not abs(shift) <= max_shift_K:
+        return []
+    return [(i, j) for i, j in fine if abs(pb[j].T_K - pa[i].T_K - shift) <= _t_step(pa[i], pb[j])]
+
+
+def _t_step(p: Point, q: Point) -> float:
+    """One step of the coarser of two printed temperatures [K]."""
+    return _SQRT12 * max(_t_rounding(p), _t_rounding(q))
 
 
 def coincidence_probability(width: float, mu: float, sigma: float) -> float:
@@ -190,6 +227,54 @@ def _clapeyron_slope(points: list[Point]) -> float:
     return B if math.isfinite(B) and B > 0 else 0.0
 
 
+def _sigma_independent(p: Point, q: Point, scatter: float, measured: dict) -> float:
+    """Standard deviation [-] in ln P of the difference of two independent readings.
+
+    The closest agreement of independent data, `scatter`, or the combined
+    stated u(P) when smaller; with no stated u, the scatter the two rows'
+    sources show about the consensus beyond their printed rounding
+    (`measured`, source → [-], see :func:`_own_scatter`) when both are
+    larger: two series that each scatter 2 % about the curve do not agree to
+    0.1 % row after row by chance.  √2 times the smaller of the two, so that
+    one source whose scatter is overstated (a block of another compound
+    inside it widens its MAD) cannot make a pair look copied.
+    """
+    if p.u_P_Pa and q.u_P_Pa and p.u_P_Pa > 0 and q.u_P_Pa > 0:
+        return min(scatter, math.hypot(p.u_P_Pa / p.P_Pa, q.u_P_Pa / q.P_Pa))
+    return max(scatter, _SQRT2 * min(measured.get(p.source, 0.0), measured.get(q.source, 0.0)))
+
+
+#: fewest judged rows whose deviations give a source's own scatter: a MAD of four values is
+#: already uncertain by half, and an overstated scatter makes chance agreement look improbable
+_OWN_SCATTER_ROWS = 5
+
+
+def _own_scatter(points: list[Point], deviation_percent, B: float) -> float:
+    """A source's relative scatter about the consensus beyond its printed rounding [-].
+
+    The robust (MAD) scale of its rows' deviations from the fit of record (its
+    offset removed), with the variance its printed rounding explains taken
+    out: the pressure's rounding is the width of a coincidence, and the
+    temperature's, through the slope B/T² of ln P ([K] of ln P = A − B/T),
+    moves two sources alike when they measured at one set point.  0 with
+    fewer than ``_OWN_SCATTER_ROWS`` judged rows.
+    """
+    from ..thermo.stats import mad_scale
+
+    judged = [(p, deviation_percent[p.row]) for p in points if math.isfinite(deviation_percent.get(p.row, math.nan))]
+    lnr = [math.log1p(d / 100) for _, d in judged if d > -100]
+    if len(lnr) < _OWN_SCATTER_ROWS:
+        return 0.0
+
+    def rounding(p: Point) -> float:
+        r_P = pressure_rounding_u_lnP(p.P_text, p.P_text_unit)
+        r_T = _t_rounding(p) * B / p.T_K ** 2 if p.T_K > 0 else math.nan
+        return sum(x * x for x in (r_P, r_T) if math.isfinite(x))
+
+    explained = _median([rounding(p) for p, _ in judged])
+    return math.sqrt(max(0.0, mad_scale(lnr) ** 2 - explained))
+
+
 def _median(x: list[float]) -> float:
     s = sorted(x)
     n = len(s)
@@ -266,8 +351,9 @@ class CopiedValues(Check):
     **What it checks.** For every pair of named sources, each sorted by
     temperature: runs of at least ``min_run`` consecutive rows where
 
-    * the printed pressures are the same numbers (the temperatures may be
-      identical or shifted, by a constant or not), or
+    * the printed pressures are the same numbers, at the same temperatures
+      or at temperatures shifted by one constant (within one printed step,
+      at most ``max_shift_K``), or
     * the printed temperatures are the same and the pressures agree with one
       constant ratio to within the rounding of their printed digits (a copy
       through a unit conversion or a rescaling).
@@ -305,7 +391,12 @@ class CopiedValues(Check):
     not determine B); σ is
     ``independent_scatter_percent``, or the combined stated u(P) of the two
     rows when smaller — so a pair is called copied only if even the closest
-    agreement independent sources plausibly reach makes the match improbable.
+    agreement independent sources plausibly reach makes the match improbable —
+    or, with no stated u, √2 times the smaller of the two sources' own
+    scatters about the consensus (the MAD of their deviations from the fit
+    of record, less the variance their printed rounding explains, from five
+    rows or more) when that is larger: two series that each scatter 2 %
+    do not agree to 0.1 % row after row by chance.
     For a constant-ratio run the window is the sum of both resolutions and
     the row that fixes the ratio is left out.  The rows' probabilities are
     multiplied and the product corrected (Šidák) for the number of
@@ -325,7 +416,7 @@ class CopiedValues(Check):
     series is likely copied from the other — keep one.
 
     **Options.** ``min_run``, ``min_significant_digits``,
-    ``independent_scatter_percent``, ``alpha``.
+    ``independent_scatter_percent``, ``alpha``, ``max_shift_K``.
     """
 
     id = "copied-values"
@@ -350,6 +441,7 @@ class CopiedValues(Check):
                                               1e-6, 100),
         "alpha": Option(float, "largest chance probability of a run between independent sources that is "
                         "still taken as chance", "", 0, 1),
+        "max_shift_K": Option(float, "largest constant temperature shift of a copied series", "K", 0, 1000),
     }
 
     def run(self, ctx):
@@ -370,6 +462,9 @@ class CopiedValues(Check):
         # alignments compared: n_a·n_b start pairs per source pair, for each of the two kinds of match
         n_alignments = max(1, sum(sizes) ** 2 - sum(x * x for x in sizes))
         B = _clapeyron_slope([p for n in names for p in series[n]])
+        deviation = ctx.consensus.deviation_percent if ctx.consensus else {}
+        measured = {n: _own_scatter(series[n], deviation, B) for n in names}
+        sigma = partial(_sigma_independent, scatter=scatter, measured=measured)
 
         found: list[_Copy] = []
         for ia, a in enumerate(names):
@@ -379,18 +474,16 @@ class CopiedValues(Check):
                 for i0, j0, n in _maximal_runs(pkeys[a], pkeys[b], min_run):
                     pairs = [(i0 + k, j0 + k) for k in range(n)]
                     same_p.update(pairs)
-                    # a row printed too coarsely to be evidence neither counts nor breaks the run
-                    evidence = [(i, j) for i, j in pairs if min(pkeys[a][i].digits, pkeys[b][j].digits) >= min_digits]
+                    evidence = _evidence(pairs, pa, pb, pkeys[a], pkeys[b], min_digits, s["max_shift_K"])
                     if len(evidence) < min_run:
                         continue
-                    chance = _family_probability(self._chance_same_p(pa, pb, pkeys[a], pkeys[b], evidence, scatter,
-                                                                     B), n_alignments)
+                    chance = _family_probability(self._chance_same_p(pa, pb, pkeys[a], pkeys[b], evidence, sigma, B), n_alignments)
                     if chance < s["alpha"]:
                         found.append(self._record(a, b, pa, pb, tkeys, pairs, "pressure", None, chance))
                 for i0, j0, n in _maximal_runs(tkeys[a], tkeys[b], min_run):
                     for pairs, ratio, p_run in self._ratio_segments(pa, pb, pkeys[a], pkeys[b],
                                                                     [(i0 + k, j0 + k) for k in range(n)],
-                                                                    scatter, min_run, min_digits):
+                                                                    sigma, min_run, min_digits):
                         if set(pairs) <= same_p or all(same_printed(pkeys[a][i], pkeys[b][j]) for i, j in pairs):
                             continue  # the same pressures: the pressure match covers these rows
                         chance = _family_probability(p_run, n_alignments)
@@ -418,27 +511,21 @@ class CopiedValues(Check):
         return CheckResult(self.id, self.title, worst_status(len(found), s.severity), msg, metrics, tuple(flags))
 
     @staticmethod
-    def _sigma(p: Point, q: Point, scatter: float) -> float:
-        """Standard deviation [-] in ln P of the difference of two independent readings."""
-        if p.u_P_Pa and q.u_P_Pa and p.u_P_Pa > 0 and q.u_P_Pa > 0:
-            return min(scatter, math.hypot(p.u_P_Pa / p.P_Pa, q.u_P_Pa / q.P_Pa))
-        return scatter
-
-    def _chance_same_p(self, pa, pb, ka, kb, pairs, scatter, B) -> float:
+    def _chance_same_p(pa, pb, ka, kb, pairs, sigma, B) -> float:
         """Product over the run of the chance that independent sources print the same pressure."""
         prob = 1.0
         for i, j in pairs:
             # the change in ln P the temperature shift implies, ln P = A − B/T, for the part of the
             # shift the printed temperatures' rounding cannot explain (81.85 K and 81.9 K may be one T)
             dT = pb[j].T_K - pa[i].T_K
-            slack = _SQRT12 * max(_t_rounding(pa[i]), _t_rounding(pb[j])) / 2
-            mu = 0.0 if abs(dT) <= slack else \
-                B * (1.0 / pa[i].T_K - 1.0 / pb[j].T_K) * (abs(dT) - slack) / abs(dT)
+            beyond = _shift_beyond_rounding(pa[i], pb[j])
+            mu = 0.0 if beyond == 0 else B * (1.0 / pa[i].T_K - 1.0 / pb[j].T_K) * beyond / abs(dT)
             width = max(ka[i].resolution_lnP, kb[j].resolution_lnP)
-            prob *= coincidence_probability(width, mu, self._sigma(pa[i], pb[j], scatter))
+            prob *= coincidence_probability(width, mu, sigma(pa[i], pb[j]))
         return prob
 
-    def _ratio_segments(self, pa, pb, ka, kb, pairs, scatter, min_run, min_digits):
+    @staticmethod
+    def _ratio_segments(pa, pb, ka, kb, pairs, sigma, min_run, min_digits):
         """Longest stretches of a same-temperature run whose pressures share one ratio to the digit.
 
         Yields (pairs, ratio, probability between independent sources).
@@ -467,7 +554,7 @@ class CopiedValues(Check):
             covered_to = end
             seg = pairs[start:end + 1]
             probs = sorted(coincidence_probability(ka[i].resolution_lnP + kb[j].resolution_lnP, 0.0,
-                                                   self._sigma(pa[i], pb[j], scatter)) for i, j in seg)
+                                                   sigma(pa[i], pb[j])) for i, j in seg)
             p_run = math.prod(probs[:-1])  # one row fixes the ratio
             ratio = 1.0 if lo <= 0.0 <= hi else math.exp(_median(
                 [math.log(pb[j].P_Pa / pa[i].P_Pa) for i, j in seg]))

@@ -286,3 +286,30 @@ def test_findings_json_carries_the_pairs(tmp_path):
     assert pair["rows_a"] == list(range(4, 14)) and pair["rows_b"] == list(range(14, 24))
     assert pair["shift_K"] == pytest.approx(1.5, abs=1e-9) and pair["shared"] == "pressure"
     assert chk["metrics"]["n_pairs"] == 1
+
+
+def test_pressures_shared_at_temperatures_a_unit_offset_apart_are_not_a_copy(default_profile):
+    # Two independent 0.01 % series at the same set points 290-350 K (IAPWS-95 water), one
+    # printing its temperatures in °C under the kelvin header (a temperature-unit slip, 273.15 K
+    # "shift").  Their three-digit pressures agree, as independent precise data do; read as a
+    # shifted copy the 273 K shift made that agreement look impossible and the pair was called
+    # copied.  A copy is shifted by a correction of a few kelvin (max_shift_K), not by a unit.
+    T = np.arange(290.0, 351.0, 10.0)
+    a = _rows("Kelvin 1975 (synthetic)", T, _printed(_noisy(T, 1e-4, 41), 3), T_digits=3)
+    b = _rows("Celsius 1988 (synthetic)", T - 273.15, _printed(_noisy(T, 1e-4, 42), 4), T_digits=2)
+    assert sum(same_printed(printed_value(x.P_text), printed_value(y.P_text)) for x, y in zip(a, b)) >= 5
+    assert _copied(run_audit(_dataset(a, b), default_profile)).metrics["n_pairs"] == 0
+
+
+def test_a_copy_shifted_by_a_constant_correction_is_found_and_one_that_wanders_is_not(default_profile):
+    # One series (IAPWS-95 water, 0.05 %, five digits) republished with every temperature
+    # +1.50 K: found.  The same pressures beside temperatures whose shift wanders by 0.5-3 K
+    # are no copy of that kind (a biased series at its own set points agrees as loosely).
+    T = np.array([300.13, 304.87, 311.02, 313.55, 319.90, 322.41, 328.76])
+    P = _printed(_noisy(T, 5e-4, 43), 5)
+    orig = _rows("Origin 1961 (synthetic)", T, P)
+    shifted = _rows("Reprint 1979 (synthetic)", T + 1.5, P)
+    chk = _copied(run_audit(_dataset(orig, shifted), default_profile))
+    assert chk.metrics["n_pairs"] == 1 and chk.metrics["pairs"][0]["shift_K"] == pytest.approx(1.5, abs=0.01)
+    wander = _rows("Loose 1979 (synthetic)", T + np.array([0.5, 3.0, 1.0, 2.5, 0.5, 3.0, 1.0]), P)
+    assert _copied(run_audit(_dataset(orig, wander), default_profile)).metrics["n_pairs"] == 0

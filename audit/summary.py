@@ -152,9 +152,12 @@ def _source_cause_reason(c) -> str | None:
         return f"printed in {c['real_unit']}, not {c['printed_unit']}: pressures ×{c['factor']:.6g}"
     if kind == "temperature-unit":
         return f"temperatures printed in {c['real_unit']}, not {c['printed_unit']}"
-    if kind == "other-compound":
+    if kind == "other-compound" and "dH_source_J_per_mol" in c:
         return (f"likely another compound: its slope implies ΔH {c['dH_source_J_per_mol'] / 1e3:.4g} "
                 f"kJ/mol against {c['dH_consensus_J_per_mol'] / 1e3:.4g} kJ/mol from the others")
+    if kind == "other-compound":
+        return (f"likely another compound: {c['bias_percent']:+.3g} % off the others (as a thermometer error "
+                f"{c['temperature_offset_K']:+.3g} K), beyond any gauge or thermometer error")
     return None
 
 

@@ -6,7 +6,8 @@ a CSV file in a temporary folder and audits it through the command line's
 own path (``audit.cli.audit_file``).  Printed, beside the targets:
 
 * runs that end in an error (an exception other than ``InputError``, or a
-  check whose message starts with "internal error"); tables refused with an
+  check whose message starts with "internal error", or an internal error of
+  the audit outside the checks, e.g. in collecting its products); tables refused with an
   ``InputError`` are counted apart;
 * good sources (no planted fault, offset within scatter) with more than 10 %
   of their rows rejected (rows carrying a point fault left out), overall and
@@ -79,7 +80,8 @@ def score(comp, result) -> dict:
     cause = [p.cause.kind if p.cause is not None else None for p in result.points]
     src = {s.source: s for s in result.sources}
     out = {"fault": comp.fault, "verdict": result.verdict, "n_rows": len(comp.rows), "n_points": len(st),
-           "internal": [c.id for c in result.checks if c.message.startswith("internal error")],
+           "internal": [c.id for c in result.checks if c.message.startswith("internal error")]
+                       + [e.split(":")[0] for e in result.internal_errors],
            "good": [], "isolated": [], "source_faults": [], "points": [], "copies": None, "false_copies": 0}
     if len(st) != len(comp.rows):
         return out

@@ -88,11 +88,17 @@ class SourceAgreement_(Check):
     ``other_compound_dH_percent`` away from the consensus's, and whose level
     no unit ratio explains, is taken for data of another compound: cause
     ``other-compound``, rows rejected, the rest of the data kept.  Sources
-    whose every row was rejected before are diagnosed the same way.
+    whose every row was rejected before are diagnosed the same way.  So is
+    a flagged source whose level is off by more than any gauge or
+    calibration error gives (beyond ``max_gauge_error_percent``) and,
+    read as a thermometer error, by more than ``max_thermometer_error_K``,
+    when no unit ratio explains it and no block of its rows has a cause of
+    its own: a series 4.9 times the others' with the substance's slope is
+    no miscalibration.
 
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
     ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
-    ``other_compound_dH_percent``.
+    ``other_compound_dH_percent``, ``max_gauge_error_percent``, ``max_thermometer_error_K``.
     """
 
     id = "source-agreement"
@@ -122,6 +128,11 @@ class SourceAgreement_(Check):
                                  "own (another unit, scale or compound)", "", 2, 1000),
         "unit_ratio_tolerance": Option(float, "for a unit ratio r, the offset left may also reach this fraction "
                                        "of |ln r| when the source keeps the substance's slope", "", 0, 0.5),
+        "max_gauge_error_percent": Option(float, "largest pressure-scale error a gauge or calibration gives; a "
+                                          "flagged source further off (and beyond max_thermometer_error_K) with "
+                                          "no unit ratio is taken for another compound", "%", 1, 10000),
+        "max_thermometer_error_K": Option(float, "largest thermometer error; see max_gauge_error_percent",
+                                          "K", 0.1, 1000),
     }
 
     def run(self, ctx):
@@ -247,6 +258,19 @@ class SourceAgreement_(Check):
         for row, cause in _block_causes(ctx, model, s, whole).items():
             point_status[row] = "reject"
             causes[row] = cause
+        # a level no gauge or thermometer error reaches, once the unit readings and the blocks had
+        # their turn (a source with a block of its own keeps that finer story)
+        for i, r in enumerate(records):
+            level = _implausible_level(r, s)
+            rows = [p for p in ctx.dataset.points if p.source == r.source and ctx.status[p.row] != "unreadable"]
+            if level is None or r.extra.get("cause") or any(p.row in causes for p in rows):
+                continue
+            cause = {"kind": "other-compound", "n_rows": len(rows), "bias_percent": r.bias_percent,
+                     "temperature_offset_K": r.temperature_offset_K}
+            records[i] = replace(r, status="reject", extra={**r.extra, "cause": cause})
+            for p in rows:
+                point_status[p.row] = "reject"
+                causes[p.row] = Cause("other-compound", level, None, None)
         ctx.source_records = tuple(records)
         ctx.consensus = model
         bad = [r for r in records if r.status != "ok"]
@@ -380,6 +404,21 @@ class SourceAgreement_(Check):
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
         return None
+
+
+def _implausible_level(record: SourceAgreement, s) -> str | None:
+    """The explanation when a flagged source is further off than a gauge or thermometer
+    error goes (both limits the profile's), else None."""
+    if record.status == "ok" or record.bias_percent is None or record.temperature_offset_K is None:
+        return None
+    ratio = 1 + record.bias_percent / 100
+    if not (ratio > 0 and abs(math.log(ratio)) > math.log1p(s["max_gauge_error_percent"] / 100)
+            and abs(record.temperature_offset_K) > s["max_thermometer_error_K"]):
+        return None
+    return (f"source '{record.source}' lies {record.bias_percent:+.3g} % off the other sources (read as a "
+            f"thermometer error, {record.temperature_offset_K:+.3g} K): beyond any gauge error "
+            f"({s['max_gauge_error_percent']:g} %) or thermometer error ({s['max_thermometer_error_K']:g} K), and "
+            "no unit ratio explains its level: likely another compound's data — exclude it")
 
 
 def _slope_departure(T, P, eq, s):

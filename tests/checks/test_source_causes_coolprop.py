@@ -50,3 +50,20 @@ def test_a_biased_series_of_this_substance_is_not_another_compound(default_profi
     result = run_audit(_compilation(None, bias=bias, dT=dT), default_profile)
     causes = [s.extra.get("cause") for s in result.sources]
     assert not [c for c in causes if c and c["kind"] == "other-compound"]
+
+
+def test_a_level_beyond_any_gauge_or_thermometer_error_is_another_compound(default_profile):
+    # "Lab X" prints water's curve (IAPWS-95) times 4.9: the substance's slope, so the
+    # enthalpy test cannot tell, and 4.9 is no ratio of two pressure units.  A factor of two
+    # (max_gauge_error_percent) or 10 K (max_thermometer_error_K, here about 30 K) bounds a
+    # miscalibration; beyond both the series is taken for another compound's data.
+    result = run_audit(_compilation(None, bias=3.9), default_profile)
+    x = {s.source: s for s in result.sources}["Lab X"]
+    assert x.status == "reject" and x.extra["cause"]["kind"] == "other-compound"
+    assert x.bias_percent == pytest.approx(390, rel=0.05)
+    assert all(p.status == "reject" and p.cause.kind == "other-compound"
+               for p in result.points if p.source == "Lab X")
+    assert not [p for p in result.points if p.source != "Lab X" and p.status == "reject"]
+    # a gauge 40 % high stays a pressure-scale finding without a cause
+    x = {s.source: s for s in run_audit(_compilation(None, bias=0.4), default_profile).sources}["Lab X"]
+    assert x.status != "ok" and not (x.extra.get("cause") or {})

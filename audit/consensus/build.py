@@ -498,8 +498,11 @@ class _BranchAnalysis:
         the next fit, which leaves the source out when three or more sources
         are named, else against this one.  A source none of whose points lies
         within the temperatures of the others' fitted points is not judged:
-        its offset would be an extrapolation.  ``source-agreement`` does the
-        full comparison later.
+        its offset would be an extrapolation; one that does is measured from its
+        points within reach of them alone (:func:`~audit.thermo.overlap.within_span`).
+        Fewer than half of the sources of ``min_points`` rows or more are ever
+        found off (one at least): the consensus is what most sources say.
+        ``source-agreement`` does the full comparison later.
         """
         out: dict[str, SourceShift] = {}
         # the consensus is what most sources say: fewer than half of the sources that can be

@@ -59,10 +59,9 @@ def _evidence(pairs, pa, pb, ka, kb, min_digits: int, max_shift_K: float) -> lis
     neither counts nor breaks the run.
     """
     fine = [(i, j) for i, j in pairs if min(ka[i].digits, kb[j].digits) >= min_digits]
-    shifts = [pb[j].T_K - pa[i].T_K for i, j in pairs]
-    if all(abs(d) <= _t_step(pa[i], pb[j]) / 2 for d, (i, j) in zip(shifts, pairs)):
+    if all(_shift_beyond_rounding(pa[i], pb[j]) == 0 for i, j in pairs):
         return fine
-    shift = _median(shifts)
+    shift = _median([pb[j].T_K - pa[i].T_K for i, j in pairs])
     if not abs(shift) <= max_shift_K:
         return []
     return [(i, j) for i, j in fine if abs(pb[j].T_K - pa[i].T_K - shift) <= _t_step(pa[i], pb[j])]
@@ -477,7 +476,8 @@ class CopiedValues(Check):
                     evidence = _evidence(pairs, pa, pb, pkeys[a], pkeys[b], min_digits, s["max_shift_K"])
                     if len(evidence) < min_run:
                         continue
-                    chance = _family_probability(self._chance_same_p(pa, pb, pkeys[a], pkeys[b], evidence, sigma, B), n_alignments)
+                    chance = _family_probability(
+                        self._chance_same_p(pa, pb, pkeys[a], pkeys[b], evidence, sigma, B), n_alignments)
                     if chance < s["alpha"]:
                         found.append(self._record(a, b, pa, pb, tkeys, pairs, "pressure", None, chance))
                 for i0, j0, n in _maximal_runs(tkeys[a], tkeys[b], min_run):

@@ -262,8 +262,10 @@ class SourceAgreement_(Check):
         # their turn (a source with a block of its own keeps that finer story)
         for i, r in enumerate(records):
             level = _implausible_level(r, s)
+            if level is None or r.extra.get("cause"):
+                continue
             rows = [p for p in ctx.dataset.points if p.source == r.source and ctx.status[p.row] != "unreadable"]
-            if level is None or r.extra.get("cause") or any(p.row in causes for p in rows):
+            if any(p.row in causes for p in rows):
                 continue
             cause = {"kind": "other-compound", "n_rows": len(rows), "bias_percent": r.bias_percent,
                      "temperature_offset_K": r.temperature_offset_K}

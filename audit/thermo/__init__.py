@@ -16,6 +16,8 @@ from .enthalpy import (
     heat_capacity_change,
     implied_enthalpy,
     local_enthalpy,
+    window_departures,
+    WindowDepartures,
     rackett_volume,
     tsonopoulos_B,
     tsonopoulos_polar_terms,
@@ -44,7 +46,7 @@ __all__ = [
     "VaporPressureFit", "fit_equation", "EquationChoice", "select_equation",
     "apparent_enthalpy", "enthalpy_uncertainty", "heat_capacity_change", "implied_enthalpy",
     "ImpliedEnthalpy", "RealGasModel", "delta_z", "tsonopoulos_B", "tsonopoulos_polar_terms",
-    "water_second_virial", "rackett_volume", "local_enthalpy", "LocalEnthalpy", "enthalpy_steps",
+    "water_second_virial", "rackett_volume", "local_enthalpy", "LocalEnthalpy", "window_departures", "WindowDepartures", "enthalpy_steps",
     "intersect_branches", "TriplePointEstimate", "find_slope_break", "SlopeBreak",
     "curvature_test", "CurvatureTest", "residual_runs", "RunsTest",
 ]

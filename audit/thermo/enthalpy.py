@@ -51,6 +51,8 @@ __all__ = [
     "implied_enthalpy",
     "LocalEnthalpy",
     "local_enthalpy",
+    "WindowDepartures",
+    "window_departures",
     "EnthalpyStep",
     "enthalpy_steps",
 ]
@@ -539,6 +541,143 @@ def local_enthalpy(T, P, u_T=None, u_P=None, window: int = 5) -> LocalEnthalpy:
 
 
 @dataclass(frozen=True)
+class WindowDepartures:
+    """Local enthalpies of a fit's own points against the fit's smooth ΔH(T).
+
+    Attributes
+    ----------
+    T_center : ndarray
+        Temperature of each window [K]: 1/x̄, x̄ the weighted mean of 1/T, where
+        the local slope is uncorrelated with the local level.
+    dH, u_dH : ndarray
+        Local apparent enthalpy −R·b of the window's weighted straight line
+        ln P = a + b/T, and its standard uncertainty from the points' σ [J/mol].
+    smooth, u_smooth : ndarray
+        The fit's apparent enthalpy at ``T_center`` and its standard
+        uncertainty (delta method) [J/mol].
+    departure, u_departure : ndarray
+        dH − smooth and its standard uncertainty [J/mol], counting the
+        covariance of the two (the window's points are in the fit); NaN when
+        the difference is numerically certain (the window is the whole fit).
+    start, stop : ndarray of int
+        Window k covers ``order[start[k]:stop[k]]``.
+    order : ndarray of int
+        Indices of the fit's points sorted by group, then T.
+    """
+
+    T_center: np.ndarray
+    dH: np.ndarray
+    u_dH: np.ndarray
+    smooth: np.ndarray
+    u_smooth: np.ndarray
+    departure: np.ndarray
+    u_departure: np.ndarray
+    start: np.ndarray
+    stop: np.ndarray
+    order: np.ndarray
+
+
+def window_departures(fit, window: int = 5, groups=None) -> WindowDepartures:
+    """Local enthalpies from sliding windows of a fit's points, against that fit.
+
+    Each window spans `window` neighbouring distinct temperatures (with every
+    replicate at them) *within one group* — one source of a compilation, so
+    that two series' levels never make a slope — and is fitted with the
+    straight line ln P = a + b/T weighted by the σ the fit itself used
+    (``fit.sigma_lnP``, times the fit's residual scale when it estimated
+    one).  Those σ are taken as known: a window of five points has only
+    three degrees of freedom, and a scale estimated from them ranges over a
+    factor of ten by chance (and is zero for values printed alike).
+
+    Both the local and the smooth enthalpy are linear in the same ln P, so
+    the variance of their difference is
+
+        u_w² + u_s² − 2 cov,   cov = R² Σ_i a_i · (G C J_iᵀ),
+
+    a_i the window slope's weight of point i, G the gradient of
+    d ln p/d(1/T) at the window's temperature with respect to the fit's
+    parameters, C their covariance and J_i the gradient of ln p at point i.
+    For an efficient fit this is u_w² − u_s² (Hausman 1978): counting the
+    curve's own uncertainty without the correlation would double-count it.
+
+    Parameters
+    ----------
+    fit : VaporPressureFit
+        The fit of record (its ``T``, ``P``, ``sigma_lnP``, ``weights``,
+        ``covariance`` and equation); points of zero weight are left out.
+    window : int
+        Distinct temperatures per window (at least 3).
+    groups : sequence, optional
+        A label per point of the fit (e.g. its source); windows never span two.
+
+    Returns
+    -------
+    WindowDepartures
+        Empty arrays when no group has `window` distinct temperatures.
+
+    References
+    ----------
+    J. A. Hausman, "Specification tests in econometrics", Econometrica 46,
+    1251-1271 (1978), doi:10.2307/1913827 — variance of the difference of an
+    efficient and a consistent estimator.
+
+    Notes
+    -----
+    Verified in ``tests/thermo/test_window_departures.py`` against
+    IAPWS-95 slopes and by a Monte Carlo of the departures' spread.
+    """
+    window = int(window)
+    if window < 3:
+        raise ValueError("local windows need at least 3 temperatures")
+    T = np.asarray(fit.T, float)
+    y = np.log(np.asarray(fit.P, float))
+    sig = np.asarray(fit.sigma_lnP, float) * (float(fit.scale) if fit.scale_estimated else 1.0)
+    used = (np.asarray(fit.weights, float) > 0) & np.isfinite(sig) & (sig > 0)
+    labels = np.asarray([""] * T.size if groups is None else [str(g) for g in groups], dtype=object)
+    if labels.size != T.size:
+        raise ValueError("groups must give one label per point of the fit")
+    _, code = np.unique(labels, return_inverse=True)
+    idx = np.flatnonzero(used)
+    order = idx[np.lexsort((T[idx], code[idx]))]
+    Ts, ys, ws, gs = T[order], y[order], 1.0 / sig[order] ** 2, code[order]
+    new_T = np.diff(Ts, prepend=-np.inf) > 0
+    new_group = np.diff(gs, prepend=-1) != 0
+    firsts = np.flatnonzero(new_T | new_group)
+    starts, stops = [], []
+    for g in np.unique(gs):
+        f = firsts[gs[firsts] == g]
+        end = int(np.flatnonzero(gs == g)[-1]) + 1
+        bounds = np.concatenate([f, [end]])
+        for k in range(bounds.size - 1 - window + 1):
+            starts.append(int(bounds[k]))
+            stops.append(int(bounds[k + window]))
+    eq, C = _equation_and_cov(fit)
+    m = len(starts)
+    Tc, dH, u_w, cov = (np.empty(m) for _ in range(4))
+    if m:
+        J = eq.jacobian_ln_p(Ts)
+    for k, (a, b) in enumerate(zip(starts, stops)):
+        x, yy, w = 1.0 / Ts[a:b], ys[a:b], ws[a:b]
+        xbar = float(np.sum(w * x) / np.sum(w))
+        dx = x - xbar
+        Sxx = float(np.sum(w * dx ** 2))
+        slope_weight = w * dx / Sxx
+        Tc[k] = 1.0 / xbar
+        dH[k] = -R * float(slope_weight @ yy)
+        u_w[k] = R / math.sqrt(Sxx)
+        G = eq.param_gradient("dlnp_dinvT", np.array([Tc[k]]))[0]
+        cov[k] = R ** 2 * float(slope_weight @ (J[a:b] @ (C @ G)))
+    smooth = np.atleast_1d(apparent_enthalpy(eq, Tc)) if m else np.empty(0)
+    u_s = np.atleast_1d(enthalpy_uncertainty(fit, Tc)) if m else np.empty(0)
+    var = u_w ** 2 + u_s ** 2 - 2 * cov
+    # rounding: a difference whose variance is a sliver of the window's own is numerically certain
+    u_dep = np.where(var > 1e-12 * u_w ** 2, np.sqrt(np.clip(var, 0.0, None)), np.nan)
+    return WindowDepartures(T_center=Tc, dH=dH, u_dH=u_w, smooth=smooth, u_smooth=u_s, departure=dH - smooth,
+                            u_departure=u_dep, start=np.asarray(starts, dtype=int),
+                            stop=np.asarray(stops, dtype=int), order=order)
+
+
+@dataclass(frozen=True)
 class EnthalpyStep:
     """Most likely step of ΔH(T) along T (see :func:`enthalpy_steps`).
 
@@ -634,7 +773,8 @@ def _refit_candidates(rss_fast, scale, exact):
     return best
 
 
-def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> EnthalpyStep:
+def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, groups=None, form="cc3",
+                   fixed=None) -> EnthalpyStep:
     """Locate a step in the apparent enthalpy along T.
 
     The base model is ln P = A + B/T + C ln T (ΔH linear in T); a step of
@@ -644,6 +784,18 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> En
     distinct temperatures on each side is tried; the largest F statistic
     wins.  The σ of each point follows the effective variance with the
     slope of the base fit.
+
+    `form` (with its ``fixed`` quantities) replaces the base model, e.g. by
+    the form of a branch's fit of record: over a wide range ΔH is not linear
+    in T, and precise data would show the base model's own misfit as a step.
+    The hinge is then tested in the base model linearized at its fit (its
+    Jacobian as base columns, its residuals as response): for a form linear
+    in its coefficients this is the same test.
+
+    With `groups` (a label per point, e.g. its source) the base model gives
+    each group a level of its own: two series that agree in slope but not
+    in level — a question for the comparison of sources — then make no
+    step, while a series whose slope differs from the others' still does.
 
     Notes
     -----
@@ -674,11 +826,23 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4) -> En
         raise InsufficientData(f"need at least {max(2 * m, 6)} distinct temperatures to look for a step; "
                                f"got {n} points at {n_T}")
     given = u_T is not None or u_P is not None
-    base = fit_equation(Ts, np.exp(y), "cc3", _as_uncertainty(u_T, n, "u_T")[order] if given else None,
-                        _as_uncertainty(u_P, n, "u_P")[order] if given else None, robust=False)
+    base = fit_equation(Ts, np.exp(y), form, _as_uncertainty(u_T, n, "u_T")[order] if given else None,
+                        _as_uncertainty(u_P, n, "u_P")[order] if given else None, robust=False, **(fixed or {}))
     w = 1.0 / base.sigma_lnP ** 2
-    X0 = base.equation.design_matrix(Ts)
+    X0 = base.equation.jacobian_ln_p(Ts)
+    y = y - base.equation.ln_p(Ts)  # residuals: the fit's normal equations make them orthogonal to X0
     rss0 = base.chi2
+    if groups is not None:
+        labels = np.asarray([str(g) for g in groups], dtype=object)
+        if labels.size != n:
+            raise ValueError("groups must give one label per point")
+        names, code = np.unique(labels[order], return_inverse=True)
+        if names.size > 1:
+            X0 = np.column_stack([X0] + [(code == j).astype(float) for j in range(1, names.size)])
+            if n - X0.shape[1] - 1 <= 0:
+                raise InsufficientData(f"{n} points cannot hold a level for each of {names.size} groups and a step")
+            b0, _ = _weighted_lstsq(X0, y, w)
+            rss0 = float(np.sum(w * (y - X0 @ b0) ** 2))
     # split k has points 0..k-1 below; candidates as in a scan over k = 1..n-1
     k_all = np.arange(1, n)
     below = distinct_upto[:-1]

@@ -76,7 +76,7 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from benchmarks.detection import _swap  # noqa: E402  (the digit swaps of the detection benchmark)
+from benchmarks.detection import _swap, unit_slip_for_factor  # noqa: E402  (shared with the detection benchmark)
 
 __all__ = ["Row", "SourceTruth", "Compilation", "make_compilation", "draw_fault", "SOURCE_FAULTS",
            "FAULTS", "POINT_FAULTS", "EXPECTED_CAUSE", "SUBSTANCES", "sig_text"]
@@ -251,6 +251,10 @@ class Row:
     fault : str or None
         The planted fault this row carries (a point-fault kind, or the source
         fault's kind for rows of a faulty source or block).
+    also_right : str or None
+        A cause kind that is as right as the planted one: a decimal point
+        moved by a factor that is also the ratio of two common units prints
+        the same as that unit slip, and the audit's rule is to name the unit.
     """
 
     T_text: str
@@ -260,6 +264,8 @@ class Row:
     T_true_K: float
     P_true_Pa: float
     fault: str | None = None
+    #: another cause kind that is as right (a decimal shift by a factor that is also a ratio of units)
+    also_right: str | None = None
 
 
 @dataclass(frozen=True)
@@ -801,6 +807,7 @@ def _plant_point_faults(rng, rows, truths, P_unit, T_unit, p_true):
         t = good[r.source]
         kind = POINT_FAULTS[int(rng.integers(len(POINT_FAULTS)))]
         T_txt, P_txt = r.T_text, r.P_text
+        also = None
         sig_eff = math.hypot(t.scatter, _rounding_u_ln(P_txt))
         if kind == "random-gross":
             step = max(10 * sig_eff, math.log(1.5)) * rng.choice([-1, 1])
@@ -809,7 +816,9 @@ def _plant_point_faults(rng, rows, truths, P_unit, T_unit, p_true):
             alt = _pressure_unit_pair(rng, P_unit)
             P_txt = sig_text(float(P_txt) * pascal_per(P_unit) / pascal_per(alt), max(t.digits, 2))
         elif kind == "decimal-shift":
-            P_txt = sig_text(float(P_txt) * 10.0 ** rng.choice([-1, 1]), t.digits)
+            power = int(rng.choice([-1, 1]))
+            P_txt = sig_text(float(P_txt) * 10.0 ** power, t.digits)
+            also = "pressure-unit" if unit_slip_for_factor(P_unit, 10.0 ** power) else None
         elif kind == "digit-swap-P":
             s = _swap(P_txt, rng)
             if s is None or abs(math.log(float(s) / float(P_txt))) < 10 * sig_eff:
@@ -827,7 +836,8 @@ def _plant_point_faults(rng, rows, truths, P_unit, T_unit, p_true):
             T_txt = _dec_text(float(to_unit_T(from_unit_T(float(T_txt), T_unit), alt)), dec)
         if (T_txt, P_txt) == (r.T_text, r.P_text):
             continue
-        rows[k] = replace(r, T_text=T_txt, P_text=P_txt, fault="point:" + kind)
+        rows[k] = replace(r, T_text=T_txt, P_text=P_txt, fault="point:" + kind,
+                          also_right=also)
     return rows
 
 

@@ -24,7 +24,9 @@ own path (``audit.cli.audit_file``).  Printed, beside the targets:
   reported pair that was not planted); "n/a" while no such check runs;
 * clean compilations whose verdict is ``pass``, or that have suspect rows or
   sources only (nothing rejected);
-* point faults found and their cause, per kind.
+* point faults found and their cause, per kind (a decimal shift by a factor that
+  is also a ratio of two common units, e.g. ×10 on a kPa column = hPa, counts
+  as right when named either way: the two print the same).
 
 Tune on one seed range and report another (e.g. ``--seed 1000`` then ``--seed 5000``).
 
@@ -110,7 +112,8 @@ def score(comp, result) -> dict:
     for k, r in enumerate(comp.rows):
         if (r.fault or "").startswith("point:"):
             kind = r.fault[len("point:"):]
-            out["points"].append((kind, st[k] in FLAGGED, cause[k] == EXPECTED_CAUSE[kind] if cause[k] else False))
+            right = cause[k] is not None and cause[k] in (EXPECTED_CAUSE[kind], r.also_right)
+            out["points"].append((kind, st[k] in FLAGGED, right))
     pairs = _copy_pairs(result)
     if pairs is not None:
         planted = {frozenset(p) for p in comp.copies}

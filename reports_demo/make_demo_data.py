@@ -135,8 +135,10 @@ def literature_merge() -> None:
     i = find("Castell et al. 1994", "liquid", 9)               # value keyed in mmHg, not kPa
     rows[i][1] = f"{float(rows[i][1]) * 1000 / MMHG_PA:.6g}"
     faults.append((i, "pressure-unit"))
-    i = find("Dunmore 2009", "solid", 3)                      # decimal point one place off
-    rows[i][1] = f"{float(rows[i][1]) * 10:.4g}"
+    # decimal point one place off, ten times too small: ten times too large on a kPa column
+    # would read as hPa, a unit slip (the two print the same)
+    i = find("Dunmore 2009", "solid", 3)
+    rows[i][1] = f"{float(rows[i][1]) / 10:.4g}"
     faults.append((i, "decimal-shift"))
     # two digits transposed: the first Dunmore row (from the 8th on) whose first adjacent
     # pair of unlike digits, swapped, changes the value by more than 5 %

@@ -17,7 +17,7 @@ import numpy as np
 
 from ..consensus import ConsensusModel, build_branch_consensus
 from ..diagnose import diagnose_point
-from ..diagnose.units import COMMON_PRESSURE_UNITS, pressure_unit_size_Pa, split_log_unit
+from ..diagnose.units import pressure_unit_size_Pa, pressure_units_of_size, split_log_unit
 from ..results import Cause, CheckResult, PointFlag
 from ..thermo.ratios import percent_from_log_ratio
 from ._util import rows_text, skipped, worst_status
@@ -40,8 +40,7 @@ def _relabel_blocks(diagnoses, points_by_row, branch_rows):
             except ValueError:
                 return
             factor = out[run[0]].best.hypothesis.factor
-            alt = next((u for u in COMMON_PRESSURE_UNITS
-                        if abs(pressure_unit_size_Pa(u) / size / factor - 1) < 1e-6), None)
+            alt = pressure_units_of_size(size * factor, rel=1e-6)
             if alt is None:
                 return
             for row in run:
@@ -71,6 +70,35 @@ def _relabel_blocks(diagnoses, points_by_row, branch_rows):
             run = [row] if kk is not None else []
         prev = kk
     flush(run)
+    return out
+
+
+def _causes_of_rows_set_aside(ctx, branches, s) -> dict[int, Cause]:
+    """Causes of rows rejected before the consensus (``physical-range``: T ≤ 0 K, P ≤ 0, …).
+
+    Such a row is the clearest slip of all (a °C value in a kelvin column
+    reads −32 K) and was never judged against a curve; its readings are
+    scored against the curve of its branch (of each branch when its phase is
+    not known; the best-fitting reading wins) with its source's scale.
+    """
+    out: dict[int, Cause] = {}
+    if not branches:
+        return out
+    for p in ctx.dataset.points:
+        if ctx.status.get(p.row) != "reject" or not p.readable or p.row in ctx.causes:
+            continue
+        if any(p.row in c.rows for c in branches.values()):
+            continue
+        phase = ctx.phase(p)
+        candidates = [branches[phase]] if phase in branches else list(branches.values())
+        found = [diagnose_point(p, c.reading_z(p.source), s["cause_k"], s["cause_ratio"]) for c in candidates]
+        found = [d for d in found if d.best is not None]
+        if not found:
+            continue
+        d = min(found, key=lambda x: abs(x.best.z_after))
+        h = d.best.hypothesis
+        out[p.row] = Cause(h.kind, d.explanation(), h.T_K if h.quantity == "T" else None,
+                           h.P_Pa if h.quantity == "P" else None)
     return out
 
 
@@ -221,6 +249,10 @@ class Outliers(Check):
                 "fit_of_record": c.origin,
             }
         ctx.consensus = ConsensusModel(branches, not_fitted)
+        for row, cause in _causes_of_rows_set_aside(ctx, branches, s).items():
+            causes[row] = cause
+            flags.append(PointFlag(row, self.id, "fail", f"rejected before the consensus (impossible as "
+                                   f"read); likely cause: {cause.kind}"))
         if not branches:
             why = "no branch has enough usable points to fit" + (
                 f" ({'; '.join(skipped_branches)})" if skipped_branches else "")

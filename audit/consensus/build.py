@@ -574,6 +574,30 @@ class _BranchAnalysis:
                 off[mine], u[mine] = b.offset_lnP, b.u_removed
         return off, u
 
+    def z_of_source(self, source):
+        """Standardized residual (T, P) -> z of a reading of a row the branch did not judge.
+
+        For a row set aside before the consensus (e.g. by ``physical-range``:
+        a temperature below 0 K) whose corrected reading is to be scored: it
+        takes the median scale and offset of the judged points of its source
+        (of every judged point when the source has none here).
+        """
+        eq = self.fit.equation
+        own = self.src == (source or "") if source else np.zeros(self.src.size, bool)
+        idx = np.flatnonzero(own) if own.any() else np.arange(self.src.size)
+        sig = float(np.median(self.sigma[idx]))
+        off = float(np.median(self.offsets[idx]))
+        T_lo, T_hi = judgeable_range(self.fit)
+
+        def z(T_K, P_Pa):
+            if not (T_K > 0 and P_Pa > 0) or not (T_lo <= T_K <= T_hi) or not sig > 0:
+                return math.nan
+            try:
+                return (math.log(P_Pa) - float(eq.ln_p(np.array([T_K]))[0]) - off) / sig
+            except ValueError:  # e.g. a reduced (Wagner) form asked above Tc
+                return math.nan
+        return z
+
     def z_of(self, i):
         """Standardized residual (T, P) -> z of a corrected reading of point i."""
         eq = self.fit.equation
@@ -686,7 +710,7 @@ def build_branch_consensus(points, settings, source_settings, Tc, Pc, branch: st
         critical_reject=float(a.crit_reject), critical_suspect=float(a.crit_suspect),
         scale=float(a.birge), uncertainties_given=bool(a.u_given), iterations=int(a.iterations),
         converged=bool(a.converged), cooks_distance=np.asarray(a.influence.cooks_distance, float),
-        corrected_z=a.z_of)
+        corrected_z=a.z_of, reading_z=a.z_of_source)
 
 
 def refit_without_sources(consensus: BranchConsensus, points, keep, sigma_rel, sources) -> BranchConsensus:

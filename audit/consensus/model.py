@@ -151,6 +151,9 @@ class BranchConsensus:
     #: (T, P) → z of a corrected reading of a judged point, by index (for cause hypotheses)
     corrected_z: Callable[[int], Callable[[float, float], float]] = field(repr=False, compare=False,
                                                                            default=None)
+    #: source name → ((T, P) → z) for a row the branch did not judge (scale and offset of its source)
+    reading_z: Callable[[str | None], Callable[[float, float], float]] = field(repr=False, compare=False,
+                                                                               default=None)
 
     @cached_property
     def u_percent(self) -> dict[int, float]:

@@ -8,8 +8,11 @@ hypothesis with a different corrected value is clearly worse:
 |z_before| ≥ ratio · max(|z_best|, 1): "no slip, just scatter" is a reading
 too, and a 2.4 σ point that a digit swap would move to 1.6 σ is not
 explained by it.  The max(…, 1) keeps two readings that both land within
-one σ from being told apart by noise.  Both ``k``
-and ``ratio`` are passed in (they come from the rule profile).
+one σ from being told apart by noise.  Rivals that are all pressure-unit
+readings (bar, atm and kgf/cm² lie within 3.3 % of each other) do not make
+the cause ambiguous, only its value: the best is kept and the others are
+named beside it.  Both ``k`` and ``ratio`` are passed in (they come from the
+rule profile).
 """
 
 from __future__ import annotations
@@ -52,14 +55,21 @@ class Diagnosis:
     best: ScoredHypothesis | None
     ranked: tuple[ScoredHypothesis, ...]
     reason: str
+    #: readings of the same kind that fit about as well as the best (its value is uncertain between them)
+    alternatives: tuple[ScoredHypothesis, ...] = ()
 
     def explanation(self) -> str:
         if self.best is None:
             return self.reason
         h = self.best.hypothesis
         value = (f"T = {h.T_K:.6g} K" if h.quantity == "T" else f"P = {h.P_Pa:.6g} Pa")
-        return (f"{h.reading}: {value}; residual {self.z_before:+.1f} σ as printed, "
+        text = (f"{h.reading}: {value}; residual {self.z_before:+.1f} σ as printed, "
                 f"{self.best.z_after:+.1f} σ corrected")
+        if self.alternatives:
+            text += "; about as likely: " + ", ".join(
+                f"{a.hypothesis.reading.split(' but ')[-1]} (P = {a.hypothesis.P_Pa:.6g} Pa, {a.z_after:+.1f} σ)"
+                for a in self.alternatives)
+        return text
 
     def summary(self) -> str:
         lines = [f"row {self.row}: {self.reason}"]
@@ -129,7 +139,12 @@ def diagnose_point(point: Point, z_of: Callable[[float, float], float], k: float
                          f"the value as printed ({z0:+.1f} σ) is not clearly worse than the best "
                          f"alternative reading ({best.hypothesis.kind}, {best.z_after:+.1f} σ): "
                          "ordinary scatter explains it as well")
-    if len(scored) > 1 and abs(scored[1].z_after) < ratio * max(abs(best.z_after), 1.0):
+    rivals = tuple(x for x in scored[1:] if abs(x.z_after) < ratio * max(abs(best.z_after), 1.0))
+    if rivals and best.hypothesis.kind == "pressure-unit" and all(
+            x.hypothesis.kind == "pressure-unit" for x in rivals):
+        return Diagnosis(point.row, z0, best, ranked, f"pressure-unit fits; the unit is uncertain between "
+                         f"{len(rivals) + 1} readings of about the same size", alternatives=rivals)
+    if rivals:
         nxt = scored[1]
         return Diagnosis(point.row, z0, None, ranked,
                          f"ambiguous: {best.hypothesis.kind} ({best.z_after:+.1f} σ) and "

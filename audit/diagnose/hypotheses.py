@@ -12,12 +12,15 @@ a log-pressure column is corrected in the log.
 Kinds
 -----
 ``pressure-unit``
-    The printed pressure was written in another common unit (Pa, hPa, kPa,
-    MPa, bar, mbar, atm, mmHg/Torr, psi, inHg; sizes from pint).  Ratios that
-    are a power of ten are left to ``decimal-shift`` for a single row (a
-    misplaced decimal point and a Pa/kPa slip print the same); a contiguous
-    block of rows with one such slip is relabelled ``pressure-unit`` by the
-    check.
+    The printed pressure was written in another unit a table may name (Pa,
+    mPa, hPa, kPa, MPa, bar, mbar, atm, Torr/mmHg, mTorr, psi, inHg, kgf/cm²;
+    sizes from pint).  Ratios that
+    are a power of ten (Pa↔kPa, hPa↔kPa, bar↔MPa, …) are unit readings too:
+    a misplaced decimal point and a Pa/kPa slip print the same, and when
+    the factor is a ratio of units the unit reading is the one kept (it is
+    listed first, so it wins when both give the same value), as a curator
+    would first suspect the unit; ``decimal-shift`` remains for factors that
+    no pair of common units gives (×10 on a Pa column, ×1e-2 on a bar column, …).
 ``temperature-unit``
     °C printed where K was meant or the reverse (±273.15 K), or °F.
 ``decimal-shift``
@@ -36,7 +39,8 @@ from dataclasses import dataclass
 from ..model import Point
 from ..thermo.rounding import parse_printed_number
 from .units import (COMMON_PRESSURE_UNITS, COMMON_TEMPERATURE_UNITS, canonical_temperature_unit,
-                    pressure_unit_size_Pa, split_log_unit, temperature_from_K, temperature_to_K)
+                    pressure_unit_size_Pa, pressure_units_of_size, split_log_unit, temperature_from_K,
+                    temperature_to_K)
 
 __all__ = ["Hypothesis", "pressure_unit_hypotheses", "temperature_unit_hypotheses",
            "decimal_shift_hypotheses", "digit_swap_hypotheses", "all_hypotheses", "adjacent_swaps"]
@@ -70,11 +74,6 @@ class Hypothesis:
     printed: str
     reading: str
     factor: float = 1.0
-
-
-def _is_power_of_ten(ratio: float) -> bool:
-    lg = math.log10(ratio)
-    return abs(lg - round(lg)) < 1e-9
 
 
 def _printed_P_value(p: Point) -> float | None:
@@ -112,7 +111,7 @@ def _reread_T(p: Point, new_value: float) -> float | None:
 
 
 def pressure_unit_hypotheses(p: Point) -> list[Hypothesis]:
-    """The printed pressure read in each other common unit (not powers of ten)."""
+    """The printed pressure read in each other common unit (powers of ten among them)."""
     base, unit = split_log_unit(p.P_text_unit)
     try:
         size = pressure_unit_size_Pa(unit)
@@ -122,12 +121,13 @@ def pressure_unit_hypotheses(p: Point) -> list[Hypothesis]:
     seen: list[float] = []
     for alt in COMMON_PRESSURE_UNITS:
         ratio = pressure_unit_size_Pa(alt) / size
-        if abs(ratio - 1) < 1e-3 or _is_power_of_ten(ratio) or any(abs(ratio / s - 1) < 1e-3 for s in seen):
+        if abs(ratio - 1) < 1e-3 or any(abs(ratio / s - 1) < 1e-3 for s in seen):
             continue  # mmHg/Torr differ by 1e-7: one hypothesis
         seen.append(ratio)
         shown = p.P_text if base is None else f"{p.P_text} ({p.P_text_unit})"
+        names = pressure_units_of_size(pressure_unit_size_Pa(alt))
         out.append(Hypothesis("pressure-unit", p.T_K, p.P_Pa * ratio, "P", p.P_text,
-                              f"P printed '{shown}' taken as {unit} but written in {alt}", ratio))
+                              f"P printed '{shown}' taken as {unit} but written in {names}", ratio))
     return out
 
 

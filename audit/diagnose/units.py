@@ -12,14 +12,16 @@ from __future__ import annotations
 import functools
 import math
 
-from audit.units import kelvin_affine, parse_pressure_unit, parse_temperature_unit, pascal_per, split_log_prefix
+from audit.units import (PRESSURE_UNITS, kelvin_affine, parse_pressure_unit, parse_temperature_unit, pascal_per,
+                         split_log_prefix)
 
-__all__ = ["COMMON_PRESSURE_UNITS", "COMMON_TEMPERATURE_UNITS", "pressure_unit_size_Pa",
+__all__ = ["COMMON_PRESSURE_UNITS", "COMMON_TEMPERATURE_UNITS", "pressure_unit_size_Pa", "pressure_units_of_size",
            "temperature_to_K", "temperature_from_K", "split_log_unit", "canonical_temperature_unit"]
 
-#: Pressure units a value may have been printed in by mistake (canonical names of audit.units).
-COMMON_PRESSURE_UNITS: tuple[str, ...] = ("Pa", "hPa", "kPa", "MPa", "bar", "mbar", "atm", "mmHg", "Torr",
-                                          "psi", "inHg")
+#: Pressure units a value may have been printed in by mistake: every unit a table header may
+#: name (canonical names of audit.units, in its order: where two give the same size, as hPa
+#: and mbar, the first is the one named).
+COMMON_PRESSURE_UNITS: tuple[str, ...] = tuple(PRESSURE_UNITS)
 #: Temperature units a value may have been printed in by mistake.
 COMMON_TEMPERATURE_UNITS: tuple[str, ...] = ("K", "degC", "degF")
 
@@ -45,6 +47,17 @@ def split_log_unit(unit: str) -> tuple[float | None, str]:
 def pressure_unit_size_Pa(unit: str) -> float:
     """Size of one `unit` in pascal [Pa].  Raises ValueError for an unknown unit."""
     return pascal_per(unit)
+
+
+def pressure_units_of_size(size_Pa: float, rel: float = 1e-3) -> str | None:
+    """The common pressure units of one size, as a reader names them ('mmHg/Torr', 'hPa/mbar').
+
+    None when no common unit has that size (within `rel`).
+    """
+    names = [u for u in COMMON_PRESSURE_UNITS if abs(pressure_unit_size_Pa(u) / size_Pa - 1) < rel]
+    # mmHg is how tables name it: list it before its twin
+    names.sort(key=lambda u: (u != "mmHg",))
+    return "/".join(names) or None
 
 
 def canonical_temperature_unit(unit: str) -> str:

@@ -99,13 +99,31 @@ def test_value_printed_in_mmhg_in_a_kpa_column(default_profile):
 
 
 def test_decimal_point_misplaced(default_profile):
+    # a kPa value printed ten times too small: no pair of common units is a factor 10 apart
+    # that way (10 kPa is no unit), so the reading is a misplaced decimal point
     i = 14
-    ds, _ = water_table(T_GRID, seed=6, edits={i: lambda t, p: (t, f"{float(p) * 10:.5g}")})
+    ds, _ = water_table(T_GRID, seed=6, edits={i: lambda t, p: (t, f"{float(p) / 10:.5g}")})
     good = water_table(T_GRID, seed=6)[0].points[i].P_Pa
     _, out = _audit(ds, default_profile)
     _only_flagged(out, i + 1)
     cause = out.causes[i + 1]
     assert cause.kind == "decimal-shift"
+    assert cause.suggested_P_Pa == pytest.approx(good, rel=1e-9)
+
+
+@pytest.mark.parametrize("P_unit, factor, written_in", [("Pa", 1e-3, "kPa"), ("kPa", 10.0, "hPa"),
+                                                        ("kPa", 1e-3, "MPa")])
+def test_a_power_of_ten_that_is_a_unit_ratio_is_read_as_the_unit(default_profile, P_unit, factor, written_in):
+    # a single value 1000 times too small in a Pa column is kPa written as Pa, not a decimal
+    # point three places off: the two print the same, and the unit is the reading kept
+    i = 9
+    edit = {i: lambda t, p: (t, f"{float(p) * factor:.5g}")}
+    ds, _ = water_table(T_GRID, seed=6, P_unit=P_unit, edits=edit)
+    good = water_table(T_GRID, seed=6, P_unit=P_unit)[0].points[i].P_Pa
+    _, out = _audit(ds, default_profile)
+    _only_flagged(out, i + 1)
+    cause = out.causes[i + 1]
+    assert cause.kind == "pressure-unit" and f"written in {written_in}" in cause.explanation
     assert cause.suggested_P_Pa == pytest.approx(good, rel=1e-9)
 
 
@@ -178,3 +196,25 @@ def test_block_of_unit_slips_at_the_low_end_of_a_short_table(default_profile):
         cause = out.causes[i + 1]
         assert cause.kind == "pressure-unit"
         assert cause.suggested_P_Pa == pytest.approx(ds.points[i].P_Pa / 1e3, rel=1e-9)
+
+
+def test_a_celsius_value_below_zero_in_a_kelvin_column_gets_its_cause(tmp_path, default_profile):
+    # ice Ih, 230-270 K (IAPWS R14-08 through iapws); row 6 (250 K) printed as -23.15 in the
+    # kelvin column: physical-range rejects it before any fit (T < 0 K), and the cause is still
+    # named once the curve is known
+    from audit.ingest import read_table
+    from tests.conftest import iapws_sublimation_pressure
+
+    T = np.linspace(230.0, 270.0, 11)
+    P = iapws_sublimation_pressure(T)
+    lines = ["T/K,P/Pa,phase"] + [f"{t - 273.15 if k == 5 else t:.2f},{p:.5g},solid"
+                                  for k, (t, p) in enumerate(zip(T, P))]
+    path = tmp_path / "ice.csv"
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    res = run_audit(read_table(path), default_profile)
+    row = res.points[5]
+    assert row.status == "reject"
+    assert any(f.check == "physical-range" for f in row.flags)
+    assert row.cause is not None and row.cause.kind == "temperature-unit", row.flags
+    assert row.cause.suggested_T_K == pytest.approx(250.0, abs=1e-9)
+    assert [p.row for p in res.points if p.status != "ok"] == [6]

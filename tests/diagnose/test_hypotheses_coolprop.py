@@ -85,3 +85,55 @@ def test_a_mildly_off_value_gets_no_cause_even_when_a_swap_would_fit():
     assert -3 < d.z_before < -2
     assert d.ranked[0].hypothesis.kind == "digit-swap" and abs(d.ranked[0].z_after) < 0.5
     assert d.best is None and "ordinary scatter" in d.reason
+
+
+def _z_of_scatter(sigma):
+    def z_of(T, P):
+        if not 200.0 < T < 590.0:
+            return math.nan
+        return (math.log(P) - math.log(_p_sat(T))) / sigma
+    return z_of
+
+
+@pytest.mark.parametrize("written_in, size_Pa, column, column_Pa", [
+    ("mTorr", 0.13332236842105263, "Pa", 1.0),        # 1 mTorr = 101325/760000 Pa (definition)
+    ("kgf/cm2", 98066.5, "kPa", 1e3),                  # 1 kgf/cm² = 98.0665 kPa (definition of g_n)
+    ("mPa", 1e-3, "Pa", 1.0)])
+def test_every_unit_a_header_may_name_is_a_reading(written_in, size_Pa, column, column_Pa):
+    T = 330.0
+    P = _p_sat(T)
+    printed = f"{P / size_Pa:.5g}"
+    p = Point(row=4, T_K=T, P_Pa=float(printed) * column_Pa, T_text="330.00", P_text=printed, P_text_unit=column)
+    d = diagnose_point(p, _z_of, k=3, ratio=3)
+    assert d.best is not None and d.best.hypothesis.kind == "pressure-unit", d.summary()
+    assert f"written in {written_in}" in d.explanation()
+    assert d.best.hypothesis.P_Pa == pytest.approx(P, rel=1e-4)
+
+
+def test_units_of_about_one_size_leave_the_value_uncertain_not_the_cause():
+    # a value in atm in a mmHg column, from a series scattering 2 %: bar (1.3 % smaller than atm)
+    # and kgf/cm² (3.2 % smaller) fit about as well; the cause is a unit slip either way
+    T = 360.0
+    P = _p_sat(T)
+    printed = f"{P / 101325.0:.4g}"
+    p = Point(row=5, T_K=T, P_Pa=float(printed) * 133.322387415, T_text="360.00", P_text=printed,
+              P_text_unit="mmHg")
+    d = diagnose_point(p, _z_of_scatter(0.02), k=3, ratio=3)
+    assert d.best is not None and d.best.hypothesis.kind == "pressure-unit", d.summary()
+    assert "written in atm" in d.best.hypothesis.reading
+    assert {a.hypothesis.reading.split(" in ")[-1] for a in d.alternatives} >= {"bar"}
+    assert "about as likely" in d.explanation()
+
+
+def test_a_digit_swap_rivalling_a_unit_reading_stays_ambiguous():
+    # '0.0465' bar could be MPa written as bar (×10) or '0.4065' with two digits swapped back,
+    # 13 % apart: with 8 % scatter neither is clearly better, so no cause is named
+    T = 331.6
+    P_true = 0.465e5
+
+    def z_of(T_, P_):
+        return (math.log(P_) - math.log(P_true)) / 0.08 if abs(T_ - T) < 1e-9 else math.nan
+
+    p = Point(row=6, T_K=T, P_Pa=0.0465e5, T_text="331.60", P_text="0.0465", P_text_unit="bar")
+    d = diagnose_point(p, z_of, k=3, ratio=3)
+    assert d.best is None and d.reason.startswith("ambiguous")

@@ -46,6 +46,7 @@ class AuditContext:
     causes: dict[int, Cause] = field(default_factory=dict)
     residual_sigma: dict[int, float] = field(default_factory=dict)
     phase_inferred: dict[int, str] = field(default_factory=dict)
+    phase_basis: dict[int, str] = field(default_factory=dict)
     consensus: ConsensusModel = field(default_factory=ConsensusModel)
     source_records: tuple[SourceAgreement, ...] = ()
     triple_point: TriplePointRecord | None = None
@@ -94,3 +95,4 @@ class AuditContext:
             self.residual_sigma[row] = sigma
         for row, ph in result.phase_inferred.items():
             self.phase_inferred[row] = ph
+            self.phase_basis[row] = result.phase_basis

@@ -89,6 +89,7 @@ CONSTANT_UNITS: Mapping[str, str] = {
     "molar_mass": "kg/mol",
     "T_triple": "K",
     "P_triple": "Pa",
+    "T_melting": "K",
     "T_critical": "K",
     "P_critical": "Pa",
     "acentric_factor": "1",

@@ -130,6 +130,7 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
             status=ctx.status[p.row], flags=tuple(ctx.flags.get(p.row, ())),
             cause=_complete(ctx.causes.get(p.row), p), residual_sigma=ctx.residual_sigma.get(p.row),
             phase_inferred=p.row in ctx.phase_inferred and p.phase == "unknown",
+            phase_basis=ctx.phase_basis.get(p.row) if p.phase == "unknown" else None,
             deviation_percent=products.deviation_percent.get(p.row),
             u_percent=products.u_percent.get(p.row),
             reference_deviation_percent=products.reference_deviation_percent.get(p.row),

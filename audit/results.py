@@ -67,6 +67,8 @@ class CheckResult:
     causes: Mapping[int, Cause] = field(default_factory=dict)
     residual_sigma: Mapping[int, float] = field(default_factory=dict)
     phase_inferred: Mapping[int, str] = field(default_factory=dict)
+    #: what the phases in ``phase_inferred`` were inferred from (e.g. "the known triple point …")
+    phase_basis: str = ""
 
     def to_dict(self) -> dict:
         return {"id": self.id, "title": self.title, "status": self.status,
@@ -93,13 +95,18 @@ class PointVerdict:
     u_percent: float | None = None
     #: 100·(P − P_ref)/P_ref against the reference correlation, when one is used [%]
     reference_deviation_percent: float | None = None
+    #: what an inferred phase was inferred from (None when the input labelled the row)
+    phase_basis: str | None = None
 
     def to_dict(self) -> dict:
-        return {"row": self.row, "T_K": _num(self.T_K), "P_Pa": _num(self.P_Pa),
-                "phase": self.phase, "source": self.source, "status": self.status,
-                "flags": [f.to_dict() for f in self.flags],
-                "cause": None if self.cause is None else self.cause.to_dict(),
-                "residual_sigma": _num(self.residual_sigma)}
+        d = {"row": self.row, "T_K": _num(self.T_K), "P_Pa": _num(self.P_Pa),
+             "phase": self.phase, "source": self.source, "status": self.status,
+             "flags": [f.to_dict() for f in self.flags],
+             "cause": None if self.cause is None else self.cause.to_dict(),
+             "residual_sigma": _num(self.residual_sigma)}
+        if self.phase_inferred:
+            d["phase_inferred_from"] = self.phase_basis or "the audit"
+        return d
 
 
 @dataclass(frozen=True)

@@ -1,7 +1,7 @@
 """Reference constants of a named substance from a property library.
 
 Given ``--substance NAME`` (or a CAS number), the critical constants,
-acentric factor, normal boiling point, triple point, enthalpy of fusion,
+acentric factor, normal boiling point, triple point, melting point, enthalpy of fusion,
 dipole moment and molar mass come from the ``chemicals`` package (PyPI),
 which names the data set each value is taken from; that name goes into the
 constant's ``source``.  Values given in the metadata file always win over
@@ -24,6 +24,7 @@ _LOOKUPS = {
     "T_boiling": ("phase_change", "Tb", "Tb_methods", "K"),
     "T_triple": ("triple", "Tt", "Tt_methods", "K"),
     "P_triple": ("triple", "Pt", "Pt_methods", "Pa"),
+    "T_melting": ("phase_change", "Tm", "Tm_methods", "K"),
     "dH_fusion": ("phase_change", "Hfus", "Hfus_methods", "J/mol"),
     "dipole_moment": ("dipole", "dipole_moment", "dipole_moment_methods", "debye"),
 }

@@ -13,6 +13,9 @@ or why it could not.
 
 from __future__ import annotations
 
+import math
+from dataclasses import dataclass
+
 import numpy as np
 
 from ..consensus import BranchData, points_data  # noqa: F401  (re-exported for the checks)
@@ -30,6 +33,49 @@ def branch_data(ctx: AuditContext, branch: str) -> BranchData:
 def is_water(ctx: AuditContext) -> bool:
     md = ctx.dataset.metadata
     return (md.cas or "").strip() == WATER_CAS or (md.substance or "").strip().lower() in WATER_NAMES
+
+
+@dataclass(frozen=True)
+class KnownTriplePoint:
+    """The substance's triple point as known before the audit (not from its data).
+
+    ``T_K`` [K], ``P_Pa`` [Pa] and their standard uncertainties (0 when the
+    source gives none); ``source`` says where the values come from.
+    """
+
+    T_K: float
+    P_Pa: float | None
+    u_T_K: float
+    u_P_Pa: float
+    source: str
+
+
+def known_triple_point(ctx: AuditContext) -> KnownTriplePoint | None:
+    """The triple point known before the audit, or None.
+
+    In order: ``T_triple`` (with ``P_triple`` when given) from the metadata or
+    the property library; else the normal melting point ``T_melting`` as its
+    stand-in (no pressure); else water's (IAPWS R10-06) for water.
+    """
+    from ..thermo.constants import WATER_P_TRIPLE, WATER_T_TRIPLE
+
+    c = ctx.dataset.metadata.constants
+    Tt, Pt = c.get("T_triple"), c.get("P_triple")
+    if Tt is not None and math.isfinite(Tt.value) and Tt.value > 0:
+        text = f"{Tt.value:.6g} K ({Tt.source})" + (f", {Pt.value:.6g} Pa ({Pt.source})" if Pt is not None else "")
+        return KnownTriplePoint(Tt.value, None if Pt is None else Pt.value, Tt.uncertainty or 0.0,
+                                0.0 if Pt is None else (Pt.uncertainty or 0.0), text)
+    Tm = c.get("T_melting")
+    if Tm is not None and math.isfinite(Tm.value) and Tm.value > 0:
+        # the normal melting point lies within ~0.1 K of the triple point for most substances
+        # (dT/dp of melting ~ 0.01-0.05 K/bar, common practice): the same side for every row but
+        # those within that of it
+        return KnownTriplePoint(Tm.value, None, max(Tm.uncertainty or 0.0, 0.1), 0.0,
+                                f"normal melting point {Tm.value:.6g} K ({Tm.source})")
+    if is_water(ctx):
+        return KnownTriplePoint(WATER_T_TRIPLE, WATER_P_TRIPLE, 0.0, 0.0,
+                                f"IAPWS R10-06(2009): {WATER_T_TRIPLE} K, {WATER_P_TRIPLE} Pa")
+    return None
 
 
 def recommended(ctx: AuditContext, branch: str):

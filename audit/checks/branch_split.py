@@ -2,10 +2,12 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from ..results import CheckResult, PointFlag
-from ._fits import points_data
+from ._fits import known_triple_point, points_data
 from ._util import skipped
 from .registry import Check, Option, register
 
@@ -20,7 +22,14 @@ class BranchSplit(Check):
     (F-test, Bonferroni-adjusted).  The split is accepted only when it is
     significant and the low-temperature side is the steeper one — the
     enthalpy of sublimation exceeds that of vaporization by the enthalpy of
-    fusion.  Rows below the break are then treated as solid and rows above
+    fusion — and the pressure is continuous there: a break where the two
+    lines differ by more than ``max_gap_sigma`` standard uncertainties of
+    their difference and by more than ``min_jump_percent`` is a jump in
+    level, rows of another compound or in another unit, reported as such,
+    never as a phase change.  With a known
+    triple point (``T_triple`` or ``T_melting`` of the metadata or the
+    substance library, or water's) no break is searched for: rows below it
+    are solid, the others liquid.  Rows below the break are then treated as solid and rows above
     as liquid, each with a flag saying the phase was inferred.
 
     **Why it matters.** A table that runs through the triple point without
@@ -31,7 +40,8 @@ class BranchSplit(Check):
     **Example.** ice + water 230–300 K unlabelled → "break at 273.2 K (adjusted
     p = 1e-15): slopes 51.1 and 45.0 kJ/mol; rows 1–12 solid, 13–25 liquid".
 
-    **Options.** ``alpha``, ``min_points_per_side``, ``min_dH_ratio``.
+    **Options.** ``alpha``, ``min_points_per_side``, ``min_dH_ratio``, ``max_gap_sigma``,
+    ``min_jump_percent``.
     """
 
     id = "branch-split"
@@ -48,6 +58,11 @@ class BranchSplit(Check):
         "min_points_per_side": Option(int, "fewest distinct temperatures on each side of a break", "", 3, 1000),
         "min_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH taken as a "
                                "solid/liquid break", "", 1.0, 3.0),
+        "max_gap_sigma": Option(float, "largest difference of the two lines' ln P at the break, in standard "
+                                "uncertainties of that difference, for a phase change", "", 1.0, 100.0),
+        "min_jump_percent": Option(float, "smallest difference of the two lines' P at the break taken as a "
+                                   "level jump (straight lines through curved branches miss by a few %)",
+                                   "%", 0.0, 1000.0),
     }
 
     def run(self, ctx):
@@ -58,6 +73,9 @@ class BranchSplit(Check):
         labelled = [p for p in ctx.usable() if p.phase != "unknown"]
         if not unlabelled:
             return skipped(self, "every usable row carries a phase label")
+        known = known_triple_point(ctx)
+        if known is not None:
+            return self._by_known_triple_point(unlabelled, labelled, known)
         if labelled:
             return skipped(self, f"{len(unlabelled)} rows lack a phase label while {len(labelled)} have one; "
                                  "the unlabelled rows are audited as their own branch")
@@ -72,7 +90,18 @@ class BranchSplit(Check):
             return skipped(self, f"no slope break could be tested: {exc}")
         ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")
         metrics = {"T_break_K": brk.T_break, "p_value_adjusted": brk.p_value_adjusted, "F": brk.F,
-                   "dH_low_J_per_mol": brk.dH_low, "dH_high_J_per_mol": brk.dH_high, "dH_ratio": ratio}
+                   "dH_low_J_per_mol": brk.dH_low, "dH_high_J_per_mol": brk.dH_high, "dH_ratio": ratio,
+                   "gap_lnP": brk.gap_lnP, "u_gap_lnP": brk.u_gap_lnP}
+        if (brk.p_value_adjusted < s["alpha"] and not abs(brk.gap_lnP) <= s["max_gap_sigma"] * brk.u_gap_lnP
+                and abs(brk.gap_lnP) > math.log1p(s["min_jump_percent"] / 100)):
+            # not a phase change whatever the slopes say: the pressure jumps at the break
+            return CheckResult(self.id, self.title, s.severity,
+                               f"one branch with a level jump: at {brk.T_break:.2f} K the pressure changes by a "
+                               f"factor {math.exp(brk.gap_lnP):.3g} ({abs(brk.gap_lnP) / brk.u_gap_lnP:.1f} u of "
+                               f"the difference; limits {s['max_gap_sigma']} u and {s['min_jump_percent']} %) — "
+                               "not a phase change (which keeps "
+                               "P continuous) but rows of another compound or in another unit on one side; "
+                               "phases left unknown", metrics)
         accepted = (brk.p_value_adjusted < s["alpha"] and brk.solid_side_steeper
                     and ratio >= s["min_dH_ratio"])
         if not accepted:
@@ -103,7 +132,22 @@ class BranchSplit(Check):
         n_s = sum(1 for v in inferred.values() if v == "solid")
         return CheckResult(self.id, self.title, s.severity,
                            f"no phase labels; {desc}: {n_s} rows taken as solid, {len(inferred) - n_s} as "
-                           "liquid — label the phases to confirm", metrics, flags, phase_inferred=inferred)
+                           "liquid — label the phases to confirm", metrics, flags, phase_inferred=inferred,
+                           phase_basis=f"the {desc}")
+
+    def _by_known_triple_point(self, unlabelled, labelled, known):
+        """Unlabelled rows below the known triple-point temperature are solid, the others liquid."""
+        inferred = {p.row: ("solid" if p.T_K < known.T_K else "liquid") for p in unlabelled}
+        n_s = sum(1 for v in inferred.values() if v == "solid")
+        n_l = len(inferred) - n_s
+        sides = " and ".join(t for t in (f"{n_s} solid (below)" if n_s else "",
+                                          f"{n_l} liquid (at or above)" if n_l else "") if t)
+        message = (f"{len(inferred)} rows without a phase label taken as {sides} by the known triple point "
+                   f"{known.T_K:.6g} K ({known.source})"
+                   + (f"; {len(labelled)} rows keep their labels" if labelled else ""))
+        metrics = {"T_triple_K": known.T_K, "triple_point_source": known.source, "n_solid": n_s, "n_liquid": n_l}
+        return CheckResult(self.id, self.title, "pass", message, metrics, phase_inferred=inferred,
+                           phase_basis=f"the known triple point {known.T_K:.6g} K ({known.source})")
 
 
 def _describe(brk, T_break: float) -> str:

@@ -7,13 +7,9 @@ import math
 import numpy as np
 
 from ..results import Cause, CheckResult, PointFlag, TriplePointRecord
-from ._fits import is_water, real_gas_model, recommended
+from ._fits import known_triple_point, real_gas_model, recommended
 from ._util import skipped
 from .registry import Check, Option, register
-
-# IAPWS R10-06(2009), Revised Release on the Equation of State 2006 for H2O Ice Ih:
-# triple point 273.16 K (ITS-90, by definition of the kelvin until 2019) and 611.657 Pa.
-WATER_TRIPLE = (273.16, 611.657, "IAPWS R10-06(2009): 273.16 K, 611.657 Pa")
 
 
 @register
@@ -158,14 +154,10 @@ class TriplePoint(Check):
 
     @staticmethod
     def _reference(ctx):
-        md = ctx.dataset.metadata
-        Tt, Pt = md.constants.get("T_triple"), md.constants.get("P_triple")
-        if Tt is not None and Pt is not None:
-            return (Tt.value, Pt.value, Tt.uncertainty or 0.0, Pt.uncertainty or 0.0,
-                    f"{Tt.value:.6g} K ({Tt.source}), {Pt.value:.6g} Pa ({Pt.source})")
-        if is_water(ctx):
-            return WATER_TRIPLE[0], WATER_TRIPLE[1], 0.0, 0.0, WATER_TRIPLE[2]
-        return None
+        known = known_triple_point(ctx)
+        if known is None or known.P_Pa is None:
+            return None
+        return known.T_K, known.P_Pa, known.u_T_K, known.u_P_Pa, known.source
 
     def _phase_labels(self, ctx, fit_s, fit_l, s):
         """Rows marked by the outlier screening that fit the other branch."""

@@ -155,7 +155,7 @@ def _fit_rows(result: AuditResult) -> list[dict]:
             params.append({"name": name, "value": format_number(f.parameters[name], 8),
                            "u": format_number(u, 2)})
         extra = {k: v for k, v in f.extra.items() if not isinstance(v, (list, tuple, dict))}
-        rows.append({"branch": f.branch, "equation": f.equation, "params": params,
+        rows.append({"branch": branch_name(f.branch), "equation": f.equation, "params": params,
                      "range": f"{format_number(f.T_range_K[0], 6)} – {format_number(f.T_range_K[1], 6)}",
                      "n": f.n_used, "rms": format_number(f.rms_percent, 3),
                      "recommended": f.recommended,
@@ -168,7 +168,7 @@ def _enthalpy_rows(result: AuditResult) -> list[dict]:
     for e in result.enthalpy:
         corrected = e.dH_J_per_mol if e.real_gas_corrected else None
         apparent = e.dH_apparent_J_per_mol if e.real_gas_corrected else e.dH_J_per_mol
-        rows.append({"branch": e.branch, "T": format_number(e.T_K, 6),
+        rows.append({"branch": branch_name(e.branch), "T": format_number(e.T_K, 6),
                      "corrected": _fixed(None if corrected is None else corrected / 1000, 3),
                      "apparent": _fixed(None if apparent is None else apparent / 1000, 3),
                      "dz": _fixed(e.delta_z, 5),
@@ -244,6 +244,16 @@ def report_context(result: AuditResult, *, plots=None) -> dict:
         "status_text": STATUS_TEXT,
         "status_mark": STATUS_MARK,
     }
+
+
+#: how a branch is named to a reader: a branch whose phase is not known may be either process
+_BRANCH_NAMES = {"liquid": "liquid (vaporization)", "solid": "solid (sublimation)",
+                 "unknown": "vaporization or sublimation (phase not known)"}
+
+
+def branch_name(branch: str) -> str:
+    """The reader's name of a branch ('unknown' → 'vaporization or sublimation (phase not known)')."""
+    return _BRANCH_NAMES.get(branch, branch)
 
 
 @functools.cache

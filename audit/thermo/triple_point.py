@@ -234,6 +234,10 @@ class SlopeBreak:
     dH_high: float
     solid_side_steeper: bool
     n_tested: int
+    #: ln P of the high-T line minus the low-T line at the split (midpoint in 1/T), and its
+    #: standard uncertainty from the two lines' scatter: a phase change keeps P continuous
+    gap_lnP: float = math.nan
+    u_gap_lnP: float = math.nan
 
 
 def _line(x, y, w):
@@ -340,7 +344,15 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     x_lo, x_hi = x[k], x[k - 1]  # 1/T just above and just below the split
     x_cross = (a2 - a1) / (b1 - b2) if b1 != b2 else math.nan
     x_break = x_cross if (math.isfinite(x_cross) and x_lo <= x_cross <= x_hi) else 0.5 * (x_lo + x_hi)
+    x_mid = 0.5 * (x_lo + x_hi)
+    s2 = rss2 / dof if dof > 0 else math.nan
+    var_gap = 0.0
+    for xs, ws in ((x[:k], w[:k]), (x[k:], w[k:])):
+        xm = float(np.sum(ws * xs) / np.sum(ws))
+        var_gap += 1.0 / float(np.sum(ws)) + (x_mid - xm) ** 2 / float(np.sum(ws * (xs - xm) ** 2))
     return SlopeBreak(T_break=float(1.0 / x_break), split=int(k), order=order, F=float(F), p_value=p,
                       p_value_adjusted=min(1.0, p * tested), slope_low=float(b1), slope_high=float(b2),
                       dH_low=float(-R * b1), dH_high=float(-R * b2),
-                      solid_side_steeper=bool(abs(b1) > abs(b2)), n_tested=tested)
+                      solid_side_steeper=bool(abs(b1) > abs(b2)), n_tested=tested,
+                      gap_lnP=float((a2 + b2 * x_mid) - (a1 + b1 * x_mid)),
+                      u_gap_lnP=float(math.sqrt(s2 * var_gap)) if math.isfinite(s2) else math.nan)

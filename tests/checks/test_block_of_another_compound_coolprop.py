@@ -56,3 +56,22 @@ def test_scattered_rejections_are_not_a_block(default_profile):
     result = run_audit(from_arrays(T, P, source=["Lab A", "Lab B", "Lab C"] * 12, phase="liquid",
                                    substance="water"), default_profile)
     assert not [p.row for p in result.points if p.cause is not None and p.cause.kind == "other-compound"]
+
+
+def test_a_level_jump_between_two_compounds_is_no_phase_change(default_profile):
+    # unlabelled: ice Ih 230-270 K (IAPWS R14-08 via iapws; ΔH_sub ≈ 51 kJ/mol) below toluene
+    # 300-380 K (CoolProp HEOS; ΔH_vap ≈ 36 kJ/mol). The low side is steeper, as a solid's
+    # would be, but the two lines differ by a factor ~2 where they meet: not a triple point
+    from tests.conftest import iapws_sublimation_pressure
+
+    rng = np.random.default_rng(2)
+    Ti, Tt = np.linspace(230.0, 270.0, 9), np.linspace(300.0, 380.0, 12)
+    Pt = np.array([PropsSI("P", "T", t, "Q", 0, "Toluene") for t in Tt])
+    T = np.r_[Ti, Tt]
+    P = np.r_[iapws_sublimation_pressure(Ti), Pt] * (1 + 1e-3 * rng.standard_normal(T.size))
+    res = run_audit(from_arrays(T, P), default_profile)
+    split = next(c for c in res.checks if c.id == "branch-split")
+    assert split.status == "warn" and "level jump" in split.message, split.message
+    assert abs(split.metrics["gap_lnP"]) > 5 * split.metrics["u_gap_lnP"]
+    assert {p.phase for p in res.points} == {"unknown"}
+    assert res.triple_point is None

@@ -14,6 +14,8 @@ Reference values:
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 import pytest
 
@@ -53,13 +55,60 @@ def test_ice_plus_liquid_table_gives_the_triple_point(default_profile):
 
 
 def test_unlabelled_ice_and_water_are_split_at_the_triple_point(default_profile):
-    res = run_audit(_ice_and_water(labelled=False), default_profile)
+    # no substance named: the slope break of the data is found and offered for confirmation
+    ds = _ice_and_water(labelled=False)
+    res = run_audit(replace(ds, metadata=replace(ds.metadata, substance=None)), default_profile)
     split = _check(res, "branch-split")
     assert split.status == "warn"  # inferred phases are worth confirming
     phases = [(p.T_K, p.phase) for p in res.points]
     assert all((ph == "solid") == (T < 273.16) for T, ph in phases)
     assert all(p.phase_inferred for p in res.points)
+    assert all(p.to_dict()["phase_inferred_from"].startswith("the slope break at") for p in res.points)
     assert _check(res, "triple-point").status == "pass"
+
+
+def test_unlabelled_water_is_split_at_the_known_triple_point_273_16_K(default_profile):
+    # water named: its triple point (IAPWS R10-06: 273.16 K) decides the phases, no search
+    res = run_audit(_ice_and_water(labelled=False), default_profile)
+    split = _check(res, "branch-split")
+    assert split.status == "pass", split.message
+    assert split.metrics["T_triple_K"] == 273.16
+    assert all((p.phase == "solid") == (p.T_K < 273.16) for p in res.points)
+    assert all("273.16 K (IAPWS R10-06" in p.to_dict()["phase_inferred_from"] for p in res.points)
+    assert _check(res, "triple-point").status == "pass"
+
+
+def test_a_normal_melting_point_in_the_metadata_stands_in_for_the_triple_point(default_profile):
+    # the normal melting point of water, 273.152519 K (IAPWS R10-06(2009), at 101.325 kPa), given
+    # as a constant of an unnamed substance; rows 272.9 and 273.4 K lie on either side of it
+    from audit.model import Constant
+
+    T = np.r_[np.linspace(240.0, 272.9, 10), np.linspace(273.4, 330.0, 15)]
+    P = np.r_[iapws_sublimation_pressure(T[:10]), iapws_saturation_pressure(T[10:])]
+    Tm = Constant(273.152519, "K", "IAPWS R10-06(2009), normal melting point")
+    res = run_audit(from_arrays(T, P, constants={"T_melting": Tm}), default_profile)
+    assert _check(res, "branch-split").metrics["T_triple_K"] == pytest.approx(273.152519)
+    assert [p.phase for p in res.points] == ["solid"] * 10 + ["liquid"] * 15
+
+
+def test_unlabelled_liquid_water_named_water_is_liquid_and_compared_with_iapws_95(tmp_path):
+    # 300-370 K without phase labels, audited as a user would with --substance water: the
+    # library's triple point (chemicals) makes every row liquid, so the IAPWS-95 comparison runs
+    from audit.cli import audit_file
+
+    rng = np.random.default_rng(3)
+    T = np.linspace(300.0, 370.0, 15)
+    P = iapws_saturation_pressure(T) * (1 + 3e-4 * rng.standard_normal(T.size))
+    path = tmp_path / "water.csv"
+    path.write_text("T/K,P/Pa\n" + "".join(f"{t:.2f},{p:.6g}\n" for t, p in zip(T, P)), encoding="utf-8")
+    _, _, res = audit_file(str(path), substance="water")
+    assert {p.phase for p in res.points} == {"liquid"}
+    assert all("chemicals" in p.to_dict()["phase_inferred_from"] for p in res.points)
+    ref = _check(res, "reference-agreement")
+    assert ref.status == "pass", ref.message
+    assert "IAPWS" in ref.message
+    assert res.verdict in ("pass", "warn")
+    assert [e.branch for e in res.enthalpy] and {e.branch for e in res.enthalpy} == {"liquid"}
 
 
 def test_enthalpy_at_the_normal_boiling_point_is_real_gas_corrected(default_profile):
@@ -132,11 +181,12 @@ def test_falling_pressure_implies_negative_enthalpy_and_fails(default_profile):
 
 def test_curvature_of_one_liquid_branch_is_not_taken_for_a_triple_point(default_profile):
     # 280-370 K liquid water (IAPWS-95), unlabelled: two straight lines beat one
-    # (ΔH falls by 4 % over the range), but one curved branch explains it
+    # (ΔH falls by 4 % over the range), but one curved branch explains it; no substance is
+    # named, so the data alone decide
     rng = np.random.default_rng(4)
     T = np.linspace(280.0, 370.0, 25)
     P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
-    res = run_audit(from_arrays(T, P, substance="water"), default_profile)
+    res = run_audit(from_arrays(T, P), default_profile)
     split = _check(res, "branch-split")
     assert split.status == "pass"
     assert split.metrics["p_vs_one_curve_adjusted"] > 0.001

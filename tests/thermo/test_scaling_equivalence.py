@@ -37,8 +37,10 @@ def _noisy(P, rel, rng):
     return P * (1.0 + rel * rng.standard_normal(P.size))
 
 
-def _assert_same(reference, result, rel=1e-9):
+def _assert_same(reference, result, rel=1e-9, ignore=()):
     for f in dataclasses.fields(reference):
+        if f.name in ignore:
+            continue
         a, b = getattr(reference, f.name), getattr(result, f.name)
         if isinstance(a, np.ndarray):
             np.testing.assert_array_equal(a, b, err_msg=f.name)
@@ -308,11 +310,15 @@ def test_find_slope_break_matches_the_former_scan_on_iapws_water(kind, n, replic
     uT, uP = (np.full(n, 0.02), 1e-4 * P) if with_u else (None, None)
     ref = _former_slope_break_scan(T, P, 4, uT, uP)
     got = find_slope_break(T, P, 4, uT, uP)
-    _assert_same(ref, got)
+    # the former scan chose the split only; the gap between the lines is measured at the split chosen
+    _assert_same(ref, got, ignore=("gap_lnP", "u_gap_lnP"))
     if kind == "ice+liquid":
-        # IAPWS: triple point 273.16 K; the break lies between the neighbouring points
+        # IAPWS: triple point 273.16 K; the break lies between the neighbouring points, where
+        # solid and liquid pressures are equal: straight lines through the two curved branches
+        # meet there to within 1 % (a level jump of another compound is tens of percent or more)
         assert got.T_break == pytest.approx(273.16, abs=1.0)
         assert got.solid_side_steeper
+        assert abs(got.gap_lnP) < 0.01
 
 
 def test_find_slope_break_side_slopes_match_statsmodels_wls():

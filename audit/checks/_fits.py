@@ -39,8 +39,9 @@ def is_water(ctx: AuditContext) -> bool:
 class KnownTriplePoint:
     """The substance's triple point as known before the audit (not from its data).
 
-    ``T_K`` [K], ``P_Pa`` [Pa] and their standard uncertainties (0 when the
-    source gives none); ``source`` says where the values come from.
+    ``T_K`` [K], ``P_Pa`` [Pa] (None when not known) and their standard
+    uncertainties (0 when the source gives none); ``source`` says where the
+    temperature comes from, ``text`` states both values with their sources.
     """
 
     T_K: float
@@ -48,6 +49,7 @@ class KnownTriplePoint:
     u_T_K: float
     u_P_Pa: float
     source: str
+    text: str
 
 
 def known_triple_point(ctx: AuditContext) -> KnownTriplePoint | None:
@@ -64,16 +66,16 @@ def known_triple_point(ctx: AuditContext) -> KnownTriplePoint | None:
     if Tt is not None and math.isfinite(Tt.value) and Tt.value > 0:
         text = f"{Tt.value:.6g} K ({Tt.source})" + (f", {Pt.value:.6g} Pa ({Pt.source})" if Pt is not None else "")
         return KnownTriplePoint(Tt.value, None if Pt is None else Pt.value, Tt.uncertainty or 0.0,
-                                0.0 if Pt is None else (Pt.uncertainty or 0.0), text)
+                                0.0 if Pt is None else (Pt.uncertainty or 0.0), Tt.source, text)
     Tm = c.get("T_melting")
     if Tm is not None and math.isfinite(Tm.value) and Tm.value > 0:
         # the normal melting point lies within ~0.1 K of the triple point for most substances
         # (dT/dp of melting ~ 0.01-0.05 K/bar, common practice): the same side for every row but
         # those within that of it
         return KnownTriplePoint(Tm.value, None, max(Tm.uncertainty or 0.0, 0.1), 0.0,
-                                f"normal melting point {Tm.value:.6g} K ({Tm.source})")
+                                f"normal melting point, {Tm.source}", f"{Tm.value:.6g} K ({Tm.source})")
     if is_water(ctx):
-        return KnownTriplePoint(WATER_T_TRIPLE, WATER_P_TRIPLE, 0.0, 0.0,
+        return KnownTriplePoint(WATER_T_TRIPLE, WATER_P_TRIPLE, 0.0, 0.0, "IAPWS R10-06(2009)",
                                 f"IAPWS R10-06(2009): {WATER_T_TRIPLE} K, {WATER_P_TRIPLE} Pa")
     return None
 

@@ -157,7 +157,7 @@ class TriplePoint(Check):
         known = known_triple_point(ctx)
         if known is None or known.P_Pa is None:
             return None
-        return known.T_K, known.P_Pa, known.u_T_K, known.u_P_Pa, known.source
+        return known.T_K, known.P_Pa, known.u_T_K, known.u_P_Pa, known.text
 
     def _phase_labels(self, ctx, fit_s, fit_l, s):
         """Rows marked by the outlier screening that fit the other branch."""

@@ -63,8 +63,9 @@ class Diagnosis:
             return self.reason
         h = self.best.hypothesis
         value = (f"T = {h.T_K:.6g} K" if h.quantity == "T" else f"P = {h.P_Pa:.6g} Pa")
-        text = (f"{h.reading}: {value}; residual {self.z_before:+.1f} σ as printed, "
-                f"{self.best.z_after:+.1f} σ corrected")
+        before = (f"residual {self.z_before:+.1f} σ as printed" if math.isfinite(self.z_before)
+                  else "off the curve's range as printed")
+        text = f"{h.reading}: {value}; {before}, {self.best.z_after:+.1f} σ corrected"
         if self.alternatives:
             text += "; about as likely: " + ", ".join(
                 f"{a.hypothesis.reading.split(' but ')[-1]} (P = {a.hypothesis.P_Pa:.6g} Pa, {a.z_after:+.1f} σ)"

@@ -26,7 +26,11 @@ class BranchSplit(Check):
     lines differ by more than ``max_gap_sigma`` standard uncertainties of
     their difference and by more than ``min_jump_percent`` is a jump in
     level, rows of another compound or in another unit, reported as such,
-    never as a phase change.  With a known
+    never as a phase change.  When the rows name two sources or more, the
+    break must also be a drop of ΔH (a hinge in ln P vs 1/T) significant
+    against smooth curves — ΔH linear and quadratic in T — with a level and
+    a weight (its own scatter) for each source: series of unequal scatter
+    and level otherwise fake a break in one liquid curve.  With a known
     triple point (``T_triple`` or ``T_melting`` of the metadata or the
     substance library, or water's) no break is searched for: rows below it
     are solid, the others liquid.  Rows below the break are then treated as solid and rows above
@@ -120,6 +124,15 @@ class BranchSplit(Check):
                                f"one branch: the best {_describe(brk, brk.T_break)} is explained by the "
                                f"curvature of a single curve (constant ΔCp; adjusted p = {p_curve:.2g} ≥ "
                                f"{s['alpha']})", metrics)
+        sources = [p.source for p in unlabelled]
+        if len({x for x in sources if x}) >= 2:
+            step = _step_beyond_smooth_curves(T, P, data.u_T, data.u_P, sources, m)
+            metrics.update(step)
+            if not (step["step_p_adjusted"] < s["alpha"] and step["step_dH_J_per_mol"] < 0):
+                return CheckResult(self.id, self.title, "pass",
+                                   f"one branch: the best {_describe(brk, brk.T_break)} is no drop of ΔH "
+                                   "beyond a smooth curve once each source has its own level and weight "
+                                   f"(adjusted p = {step['step_p_adjusted']:.2g}, limit {s['alpha']})", metrics)
         T_break = brk.T_break
         if split != brk.split:  # midpoint in 1/T of the refined neighbours
             T_break = 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
@@ -153,6 +166,65 @@ class BranchSplit(Check):
 def _describe(brk, T_break: float) -> str:
     return (f"slope break at {T_break:.2f} K (adjusted p = {brk.p_value_adjusted:.2g}): apparent ΔH "
             f"{brk.dH_low / 1e3:.4g} kJ/mol below, {brk.dH_high / 1e3:.4g} kJ/mol above")
+
+
+def _source_scales(T, P, sources) -> np.ndarray | None:
+    """u(P) [Pa] of each point from its source's robust scatter about one curve, or None.
+
+    None when the rows name fewer than two sources.  Each source of four rows
+    or more gets the normal-consistent MAD of its residuals about a Huber fit
+    of the constant-ΔCp form to all rows, taken about the source's own median
+    (a source's level is no scatter); smaller sources get the largest of
+    those (never judged by a more precise series' scatter).
+    """
+    from ..thermo.fitting import fit_equation
+    from ..thermo.stats import mad_scale
+
+    names = np.array([s or "" for s in sources], dtype=object)
+    named = [x for x in dict.fromkeys(names) if x]
+    if len(named) < 2:
+        return None
+    try:
+        r = fit_equation(T, P, "cc3", robust="huber").residuals_lnP
+    except ValueError:
+        return None
+    own = {}
+    for name in named:
+        mine = r[names == name]
+        if mine.size >= 4:
+            own[name] = mad_scale(mine)  # about its own median: a level is no scatter
+    if not own:
+        return None
+    widest = max(own.values())
+    floor = 1e-6  # a source printed alike at every row has no MAD; keep its weight finite
+    rel = np.array([max(own.get(x, widest), floor) for x in names])
+    return rel * P
+
+
+def _step_beyond_smooth_curves(T, P, u_T, u_P, sources, m: int) -> dict:
+    """The most significant step of ΔH(T) in a compilation, against two smooth curves.
+
+    A solid/liquid junction is a drop of ΔH by ΔH_fus where T rises; with
+    several sources each gets its own level (a series 2 % high is no phase
+    change) and, without stated uncertainties, its own scatter as weight.  The
+    step must be significant both against ΔH linear in T and against ΔH
+    quadratic in T (Clarke–Glew, 4 terms): over a wide range precise series
+    show that ΔH is not linear, and the larger p-value is returned.
+    """
+    from ..thermo.enthalpy import enthalpy_steps
+    from ..thermo.fitting import InsufficientData
+
+    if u_T is None and u_P is None:
+        u_P = _source_scales(T, P, sources)
+    groups = np.asarray([x or "" for x in sources], dtype=object)
+    try:
+        lin = enthalpy_steps(T, P, u_T, u_P, min_points_per_side=m, groups=groups)
+        quad = enthalpy_steps(T, P, u_T, u_P, min_points_per_side=m, groups=groups, form="clarke-glew",
+                              fixed={"n_terms": 4})
+    except (InsufficientData, ValueError):
+        return {"step_p_adjusted": 1.0, "step_dH_J_per_mol": 0.0, "step_T_K": math.nan}
+    return {"step_p_adjusted": max(lin.p_value_adjusted, quad.p_value_adjusted), "step_dH_J_per_mol": lin.dH_step,
+            "step_T_K": lin.T_step}
 
 
 def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, float]:

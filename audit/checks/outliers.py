@@ -117,7 +117,10 @@ class Outliers(Check):
     and never less than the rounding of its printed digits.  A point beyond
     the family-wise critical value at ``reject_alpha`` (Šidák or Bonferroni
     over the n points of the branch) is rejected and no longer bends the
-    fit; one beyond that at ``suspect_alpha`` is suspect.  The loop repeats
+    fit; one beyond that at ``suspect_alpha`` is suspect (the check warns
+    when a point is rejected, or is suspect with a likely cause; suspect
+    points alone are listed but, being expected by chance in up to that
+    share of clean tables, do not make it warn).  The loop repeats
     until the rejected set is stable (at most ``max_iterations``).  For each
     suspect or rejected point the cause hypotheses of :mod:`audit.diagnose`
     (pressure unit, temperature unit, decimal shift, transposed digits) are
@@ -261,12 +264,20 @@ class Outliers(Check):
         n_sus = sum(1 for v in status.values() if v == "suspect")
         metrics.update({"n_reject": n_rej, "n_suspect": n_sus, "n_diagnosed": len(causes),
                         "skipped_branches": skipped_branches})
+        # a suspect row alone is no finding about the dataset: at the suspect level's family-wise
+        # probability it turns up by chance in that share of clean tables; a rejected row, or a
+        # suspect one whose printed text explains it (a cause), is
+        findings = n_rej + sum(1 for r, v in status.items() if v == "suspect" and r in causes)
         if status:
             msg = (f"{n_rej} rejected and {n_sus} suspect point(s) off the consensus curve: {rows_text(status)}"
                    + (f"; likely cause found for {len(causes)}" if causes else ""))
+            if not findings:
+                msg += (f" — worth a look, no more: at the suspect level (family-wise {s['suspect_alpha']:g} "
+                        f"per branch) a suspect row turns up by chance in up to {100 * s['suspect_alpha']:.0f} % "
+                        "of clean tables")
         else:
             msg = "every point lies within the expected scatter of the consensus curve"
         if skipped_branches:
             msg += f" (not tested: {'; '.join(skipped_branches)})"
-        st = "fail" if n_rej and s.severity == "fail" else worst_status(len(status), s.severity)
+        st = "fail" if n_rej and s.severity == "fail" else worst_status(findings, s.severity)
         return CheckResult(self.id, self.title, st, msg, metrics, tuple(flags), status, causes, resid_sigma)

@@ -220,3 +220,54 @@ def test_a_clean_compilation_has_smooth_enthalpy(tmp_path, default_profile, seed
     assert chk.status == "pass", chk.message
     m = chk.metrics["unknown"]
     assert m["windows_within"] == "source" and m["n_windows"] > 20
+
+
+def _ice_or_liquid(T):
+    T = np.atleast_1d(np.asarray(T, float))
+    out = np.empty(T.size)
+    ice = T < 273.16
+    if ice.any():
+        out[ice] = iapws_sublimation_pressure(T[ice])
+    if (~ice).any():
+        out[~ice] = iapws_saturation_pressure(T[~ice])
+    return out
+
+
+def _unlabelled_compilation(series, seed):
+    """(source, T_lo, T_hi, n, scatter, level) -> a dataset of IAPWS water/ice without phase labels."""
+    rng = np.random.default_rng(seed)
+    T, P, src = [], [], []
+    for name, lo, hi, n, scatter, level in series:
+        t = np.linspace(lo, hi, n)
+        T.append(t)
+        P.append(_ice_or_liquid(t) * level * np.exp(scatter * rng.standard_normal(n)))
+        src += [name] * n
+    return from_arrays(np.concatenate(T), np.concatenate(P), source=src)
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_an_unlabelled_compilation_through_the_triple_point_is_split_there(default_profile, seed):
+    # three invented series of ice Ih (IAPWS R14-08) and liquid water (IAPWS-95), one of them
+    # 0.5 % high, scatters 0.2-1 %: the drop of ΔH by ΔH_fus at 273.16 K is found
+    ds = _unlabelled_compilation((("Ames 1961", 240.0, 300.0, 16, 0.002, 1.0),
+                                  ("Bell 1974", 280.0, 360.0, 12, 0.01, 1.005),
+                                  ("Cruz 1990", 230.0, 272.0, 10, 0.005, 1.0)), seed)
+    res = run_audit(ds, default_profile)
+    split = _check(res, "branch-split")
+    assert split.status == "warn" and "slope break" in split.message, split.message
+    assert abs(split.metrics["T_break_K"] - 273.16) < 3.0
+    assert res.triple_point is not None and abs(res.triple_point.T_K - 273.16) < 3 * res.triple_point.u_T_K + 0.5
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_an_unlabelled_liquid_compilation_of_unequal_series_is_one_branch(default_profile, seed):
+    # liquid water 280-470 K (IAPWS-95) from four invented series of 0.01-5 % scatter and levels
+    # within ±1 %: ΔH falls smoothly by 12 % over the range; no series change makes a phase change
+    ds = _unlabelled_compilation((("Dore 1931", 285.0, 420.0, 30, 0.05, 0.99),
+                                  ("Egan 1960", 280.0, 370.0, 25, 0.003, 1.0),
+                                  ("Falk 1985", 330.0, 470.0, 28, 1e-4, 1.0),
+                                  ("Gray 2001", 300.0, 450.0, 20, 0.01, 1.01)), seed)
+    res = run_audit(ds, default_profile)
+    split = _check(res, "branch-split")
+    assert split.status == "pass", split.message
+    assert {p.phase for p in res.points} == {"unknown"}

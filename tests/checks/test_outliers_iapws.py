@@ -65,6 +65,34 @@ def test_false_suspect_rate_on_clean_tables_matches_the_family_wise_level(defaul
     assert rejections <= 2
 
 
+def test_a_suspect_row_alone_does_not_make_a_clean_table_warn(default_profile):
+    # IAPWS-95 water, 300-370 K, 0.05 % noise (seed 1): row 4 lies 3.4 σ off, beyond the suspect
+    # limit (family-wise 30 %) and within the reject limit; it is listed as suspect without a
+    # cause, and the dataset's verdict stays pass
+    from audit.model import from_arrays
+    from tests.conftest import iapws_saturation_pressure
+
+    rng = np.random.default_rng(1)
+    T = np.linspace(300.0, 370.0, 20)
+    P = iapws_saturation_pressure(T) * (1 + 5e-4 * rng.standard_normal(T.size))
+    res, out = _audit(from_arrays(T, P, substance="water"), default_profile)
+    assert out.point_status == {4: "suspect"} and not out.causes
+    assert out.status == "pass" and "worth a look" in out.message
+    assert res.verdict == "pass"
+
+
+def test_a_row_with_a_likely_cause_warns(default_profile):
+    # the same table clean (pass) and with two digits of row 11's temperature transposed
+    # (325.00 printed 352.00): rejected with its cause, so the check warns
+    ds0, _ = water_table(T_GRID, seed=4)
+    _, out0 = _audit(ds0, default_profile)
+    assert out0.status == "pass"
+    ds, _ = water_table(T_GRID, seed=4, edits={10: lambda t, p: ("352.00" if t == "325.00" else t, p)})
+    _, out = _audit(ds, default_profile)
+    assert out.point_status.get(11) == "reject" and out.causes[11].kind == "digit-swap"
+    assert out.status == "warn"
+
+
 def test_transposed_pressure_digits(default_profile):
     ds0, _ = water_table(T_GRID, seed=4)
     i = 10

@@ -55,3 +55,19 @@ def test_most_sources_are_never_judged_off(tmp_path):
     for good in ("Nakamura 2020", "Jensen 1933", "Okafor 1923", "Eriksen 1968"):
         rejected = [p["row"] for p in points if p["source"] == good and p["status"] == "reject"]
         assert not rejected, (good, rejected)
+
+
+@pytest.mark.parametrize("name", ["liquid_benzene_compilation_no_phase_break.csv",
+                                  "liquid_toluene_compilation_no_phase_break.csv"])
+def test_a_liquid_compilation_of_unequal_series_is_not_split_into_phases(tmp_path, name):
+    # Seeds 1022 (benzene, 10 series, 0.02-6 % scatter, 250-526 K) and 1058 (toluene, 4 series,
+    # 0.03-3.5 %), all liquid by CoolProp (triple points 278.7 K and 178 K), no phase column.
+    # Before the fix a slope break made of series levels and scatters was taken for a triple
+    # point: 49 and 45 liquid rows labelled "solid", and triple-point failed.
+    out = tmp_path / "out"
+    assert main(["check", str(DATA / name), "--out", str(out), "--format", "json"]) in (0, 1)
+    doc = json.loads((out / "findings.json").read_text(encoding="utf-8"))
+    assert {p["phase"] for p in doc["points"]} == {"unknown"}
+    split = next(c for c in doc["checks"] if c["id"] == "branch-split")
+    assert split["status"] == "pass", split["message"]
+    assert next(c for c in doc["checks"] if c["id"] == "triple-point")["status"] == "skipped"

@@ -67,7 +67,7 @@ def summarise(ctx: AuditContext) -> Products:
                       branch, "the outliers check made no consensus"))
         fits.append(replace(record, extra={**record.extra, "fit_of_record": origin}))
         h, corrected, why = implied(ctx, branch, data.T, data.P)
-        notes.append(f"{branch} enthalpy: {h.correction}" + ("" if corrected else f" ({why})"))
+        notes.append(f"{branch} enthalpy: {h.correction} ({why})")
         for i, T in enumerate(data.T):
             enthalpy.append(EnthalpyValue(
                 branch=branch, T_K=float(T), dH_J_per_mol=float(h.dH[i]),

@@ -129,11 +129,19 @@ def real_gas_model(ctx: AuditContext, branch: str):
     if missing:
         return None, ("real-gas correction not possible: " + ", ".join(missing) +
                       " unknown (give them in the metadata file or use --substance)")
-    polar = str(md.extra.get("tsonopoulos_class", "nonpolar")) if hasattr(md, "extra") else "nonpolar"
-    return (RealGasModel(Tc=Tc, Pc=Pc, omega=omega, polar_kind=polar, dipole_debye=md.get("dipole_moment"),
+    from ..thermo.enthalpy import tsonopoulos_polar_terms
+    from ..thermo.polarity import tsonopoulos_class
+
+    cls = tsonopoulos_class(md.cas, md.extra.get("tsonopoulos_class"))
+    kind, why = cls.kind, cls.reason
+    try:  # the alcohol and ketone-like terms need the dipole moment
+        tsonopoulos_polar_terms(kind, md.get("dipole_moment"), Tc, Pc)
+    except ValueError as exc:
+        kind, why = "nonpolar", f"{why}, but {exc}: nonpolar terms used"
+    return (RealGasModel(Tc=Tc, Pc=Pc, omega=omega, polar_kind=kind, dipole_debye=md.get("dipole_moment"),
                          phase=phase, V_condensed=md.get("V_solid") if phase == "solid" else None,
                          Z_RA=md.get("Z_rackett")),
-            f"Tsonopoulos class '{polar}'")
+            f"second virial coefficient of Tsonopoulos, class '{kind}': {why}")
 
 
 def implied(ctx: AuditContext, branch: str, T, P=None):

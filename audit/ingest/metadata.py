@@ -5,6 +5,7 @@ Format (our own)::
     substance = "naphthalene"        # optional
     cas = "91-20-3"                  # optional; the check digit is verified
     notes = "..."                    # optional; text or list of texts
+    tsonopoulos_class = "alkanol"    # optional; polar terms of the second virial coefficient
     [columns]                        # optional; same keys as the command-line choices
     temperature = "Temp"
     temperature_unit = "degC"
@@ -41,7 +42,7 @@ from audit.errors import InputError
 from audit.ingest.columns import OVERRIDE_FIELDS, ColumnOverrides
 from audit.model import CONSTANT_UNITS, Constant, Metadata
 
-_TOP_LEVEL = ("substance", "cas", "notes", "columns", "constants", "reference_equation")
+_TOP_LEVEL = ("substance", "cas", "notes", "tsonopoulos_class", "columns", "constants", "reference_equation")
 _CONSTANT_KEYS = ("value", "unit", "source", "uncertainty")
 _COLUMN_KEYS = tuple(f for f in OVERRIDE_FIELDS if f != "substance")
 _DIMENSIONLESS = {"", "1", "-", "dimensionless"}
@@ -217,6 +218,14 @@ def read_metadata_and_columns(path: str | os.PathLike) -> tuple[Metadata, Column
         raise InputError(f"'cas' = {cas!r} is not a valid CAS Registry Number (form or check digit)",
                          file=file, hint="write it like \"91-20-3\"")
     extra: dict[str, object] = {}
+    if "tsonopoulos_class" in doc:
+        from audit.thermo.polarity import TSONOPOULOS_CLASSES
+
+        kind = doc["tsonopoulos_class"]
+        if not isinstance(kind, str) or kind.strip().lower() not in TSONOPOULOS_CLASSES:
+            raise InputError(f"'tsonopoulos_class' = {kind!r} is not a class of the Tsonopoulos correlation",
+                             file=file, hint="one of " + ", ".join(TSONOPOULOS_CLASSES))
+        extra["tsonopoulos_class"] = kind.strip().lower()
     if "notes" in doc:
         notes = doc["notes"]
         if isinstance(notes, str):

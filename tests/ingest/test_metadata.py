@@ -97,6 +97,8 @@ def test_explicit_metadata_path(tmp_path):
     ('cas = "91-20-4"', "CAS"),
     ("substance = ", "invalid TOML"),
     ('notes = 3', "notes"),
+    ('tsonopoulos_class = "alcohol"', "not a class of the Tsonopoulos correlation"),
+    ('tsonopoulos_class = 2', "tsonopoulos_class"),
 ])
 def test_bad_metadata_names_the_key(tmp_path, text, says):
     path = tmp_path / "bad.toml"

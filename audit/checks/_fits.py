@@ -121,7 +121,10 @@ def real_gas_model(ctx: AuditContext, branch: str):
     Tc, Pc, omega = md.get("T_critical"), md.get("P_critical"), md.get("acentric_factor")
     phase = "solid" if branch == "solid" else "liquid"
     if is_water(ctx):
-        return (RealGasModel(Tc=Tc or 647.096, Pc=Pc or 22.064e6, omega=omega if omega is not None else 0.3443,
+        from ..thermo.constants import WATER_ACENTRIC_FACTOR, WATER_P_CRITICAL, WATER_T_CRITICAL
+
+        return (RealGasModel(Tc=Tc or WATER_T_CRITICAL, Pc=Pc or WATER_P_CRITICAL,
+                             omega=omega if omega is not None else WATER_ACENTRIC_FACTOR,
                              polar_kind="water-harvey-lemmon", phase=phase, V_condensed=md.get("V_solid")
                              if phase == "solid" else None),
                 "water: second virial coefficient of Harvey & Lemmon (2004)")

@@ -36,5 +36,8 @@ WATER_T_CRITICAL: float = 647.096
 WATER_P_CRITICAL: float = 22.064e6
 #: Critical density of water [kg/m^3] [2].
 WATER_RHO_CRITICAL: float = 322.0
+#: Acentric factor of water [-]: −log10(p_sat(0.7 Tc)/pc) − 1 (Pitzer's definition) evaluated with
+#: IAPWS-95 [2] (p_sat(452.967 K) = 0.998601 MPa, through the ``iapws`` package): 0.34429.
+WATER_ACENTRIC_FACTOR: float = 0.3443
 #: Molar mass of water [kg/mol] [2].
 WATER_MOLAR_MASS: float = 0.018015268

@@ -13,6 +13,7 @@ draw (``plot_data``).
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -50,6 +51,7 @@ class AuditContext:
     consensus: ConsensusModel = field(default_factory=ConsensusModel)
     source_records: tuple[SourceAgreement, ...] = ()
     triple_point: TriplePointRecord | None = None
+    transitions: list = field(default_factory=list)
     reference_deviation_percent: dict[int, float] = field(default_factory=dict)
     plot_data: dict[str, Any] = field(default_factory=dict)
     fallback_fits: dict[str, Any] = field(default_factory=dict)
@@ -65,10 +67,22 @@ class AuditContext:
         return self.profile.settings(check_id)
 
     def phase(self, p: Point) -> str:
-        """Phase used by the audit: as labelled, else as inferred by a check."""
+        """Branch of a point: its phase as labelled, else as inferred by a check.
+
+        When the solid rows name two crystal forms or more, each form is a
+        branch of its own, ``'solid I'``, ``'solid II'`` (a solid row naming
+        no form stays ``'solid'``).
+        """
         if p.phase != "unknown":
+            if p.phase == "solid" and p.crystal_form and self._several_forms:
+                return f"solid {p.crystal_form}"
             return p.phase
         return self.phase_inferred.get(p.row, "unknown")
+
+    @functools.cached_property
+    def _several_forms(self) -> bool:
+        forms = {p.crystal_form for p in self.dataset.points if p.phase == "solid" and p.crystal_form}
+        return len(forms) >= 2
 
     def usable(self, branch: str | None = None, *, include_suspect: bool = True) -> list[Point]:
         """Readable points not rejected so far, optionally of one branch."""
@@ -79,7 +93,7 @@ class AuditContext:
         return out
 
     def branches(self) -> list[str]:
-        """Branches present among usable points ('solid', 'liquid', 'unknown')."""
+        """Branches present among usable points ('solid', 'solid II', 'liquid', 'unknown')."""
         return sorted({self.phase(p) for p in self.usable()})
 
     # -- what the audit writes back ----------------------------------------

@@ -19,6 +19,21 @@ IngestStatus = Literal["ok", "unreadable"]
 PHASES: tuple[str, ...] = ("solid", "liquid", "unknown")
 
 
+def is_solid(branch: str) -> bool:
+    """True for the solid branch and for the branch of one crystal form ('solid II')."""
+    return branch == "solid" or branch.startswith("solid ")
+
+
+def base_phase(branch: str) -> str:
+    """'solid' for any solid branch, else the branch itself ('liquid', 'unknown')."""
+    return "solid" if is_solid(branch) else branch
+
+
+def crystal_form_of(branch: str) -> str | None:
+    """The crystal form a branch is of ('II' for 'solid II'), None for the others."""
+    return branch[len("solid "):] if branch.startswith("solid ") else None
+
+
 @dataclass(frozen=True)
 class Point:
     """One input data row, normalised.
@@ -62,6 +77,8 @@ class Point:
     reason: str | None = None
     T_text_unit: str = "K"
     P_text_unit: str = "Pa"
+    #: the crystal form a solid row's label names ('I', 'II', 'α', …), None when it names none
+    crystal_form: str | None = None
 
     @property
     def readable(self) -> bool:

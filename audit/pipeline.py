@@ -148,6 +148,7 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
         enthalpy=products.enthalpy,
         sources=products.sources,
         triple_point=products.triple_point,
+        transitions=products.transitions,
         notes=tuple(ctx.notes) + products.notes,
         plot_data=products.plot_data,
         internal_errors=tuple(internal_errors),

@@ -99,13 +99,16 @@ class PointVerdict:
     phase_basis: str | None = None
 
     def to_dict(self) -> dict:
+        branch = _branch_fields(self.phase)
         d = {"row": self.row, "T_K": _num(self.T_K), "P_Pa": _num(self.P_Pa),
-             "phase": self.phase, "source": self.source, "status": self.status,
+             "phase": branch["branch"], "source": self.source, "status": self.status,
              "flags": [f.to_dict() for f in self.flags],
              "cause": None if self.cause is None else self.cause.to_dict(),
              "residual_sigma": _num(self.residual_sigma)}
         if self.phase_inferred:
             d["phase_inferred_from"] = self.phase_basis or "the audit"
+        if "crystal_form" in branch:
+            d["crystal_form"] = branch["crystal_form"]
         return d
 
 
@@ -126,7 +129,7 @@ class FitRecord:
     model: Any = field(default=None, compare=False, repr=False)
 
     def to_dict(self) -> dict:
-        d = {"branch": self.branch, "equation": self.equation,
+        d = {**_branch_fields(self.branch), "equation": self.equation,
              "parameters": _jsonable(dict(self.parameters)),
              "covariance": [[_num(v) for v in row] for row in self.covariance],
              "T_range_K": [_num(self.T_range_K[0]), _num(self.T_range_K[1])],
@@ -148,7 +151,7 @@ class EnthalpyValue:
     delta_z: float | None = None
 
     def to_dict(self) -> dict:
-        return {"branch": self.branch, "T_K": _num(self.T_K), "dH_J_per_mol": _num(self.dH_J_per_mol),
+        return {**_branch_fields(self.branch), "T_K": _num(self.T_K), "dH_J_per_mol": _num(self.dH_J_per_mol),
                 "u_dH_J_per_mol": _num(self.u_dH_J_per_mol),
                 "real_gas_corrected": self.real_gas_corrected,
                 "dH_apparent_J_per_mol": _num(self.dH_apparent_J_per_mol),
@@ -193,6 +196,30 @@ class TriplePointRecord:
 
 
 @dataclass(frozen=True)
+class TransitionRecord:
+    """Where the sublimation curves of two crystal forms cross: a solid–solid transition.
+
+    ``low_form`` is stable below ``T_K``, ``high_form`` above; the enthalpy of
+    transition is ΔH_sub(low form) − ΔH_sub(high form) at the crossing
+    (real-gas corrected when both branches could be) [J/mol].
+    """
+
+    low_form: str
+    high_form: str
+    T_K: float
+    u_T_K: float | None
+    P_Pa: float
+    u_P_Pa: float | None
+    dH_J_per_mol: float
+    u_dH_J_per_mol: float | None
+
+    def to_dict(self) -> dict:
+        return {"low_form": self.low_form, "high_form": self.high_form, "T_K": _num(self.T_K),
+                "u_T_K": _num(self.u_T_K), "P_Pa": _num(self.P_Pa), "u_P_Pa": _num(self.u_P_Pa),
+                "dH_J_per_mol": _num(self.dH_J_per_mol), "u_dH_J_per_mol": _num(self.u_dH_J_per_mol)}
+
+
+@dataclass(frozen=True)
 class AuditResult:
     """Everything one audit of one dataset under one profile found."""
 
@@ -209,6 +236,8 @@ class AuditResult:
     sources: tuple[SourceAgreement, ...] = ()
     triple_point: TriplePointRecord | None = None
     notes: tuple[str, ...] = ()
+    #: solid–solid transitions between crystal forms (findings ``transitions``)
+    transitions: tuple[TransitionRecord, ...] = ()
     #: series prepared for plots (computed by the audit, only drawn by the report)
     plot_data: Mapping[str, Any] = field(default_factory=dict, compare=False, repr=False)
     #: "check-id: ExceptionType: message" for each check an unexpected exception stopped
@@ -236,7 +265,8 @@ class AuditResult:
         usable = self.usable_points
         Ts = [p.T_K for p in usable]
         Ps = [p.P_Pa for p in usable]
-        branches = sorted({p.phase for p in usable})
+        branches = sorted({_branch_fields(p.phase)["branch"] for p in usable})
+        forms = sorted({_branch_fields(p.phase)["crystal_form"] for p in usable if p.phase.startswith("solid ")})
         return {
             "schema_version": SCHEMA_VERSION,
             "tool": {"name": "vpaudit", "version": self.tool_version},
@@ -251,6 +281,7 @@ class AuditResult:
                 "T_range_K": [min(Ts), max(Ts)] if Ts else None,
                 "P_range_Pa": [min(Ps), max(Ps)] if Ps else None,
                 "branches": branches,
+                **({"crystal_forms": forms} if forms else {}),
                 "sources": ds.sources,
                 "columns": [{"role": c.role, "column": c.column, "unit": c.unit, "log": c.log,
                              "how": c.how} for c in ds.columns],
@@ -266,7 +297,15 @@ class AuditResult:
             "triple_point": None if self.triple_point is None else self.triple_point.to_dict(),
             "notes": list(self.notes),
             "internal_errors": list(self.internal_errors),
+            "transitions": [t.to_dict() for t in self.transitions],
         }
+
+
+def _branch_fields(branch: str) -> dict:
+    """``{"branch": …}`` as schema 1 names it, with ``crystal_form`` for one form's branch ('solid II')."""
+    if branch.startswith("solid "):
+        return {"branch": "solid", "crystal_form": branch[len("solid "):]}
+    return {"branch": branch}
 
 
 def _num(x: Any) -> float | None:

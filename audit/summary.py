@@ -26,6 +26,7 @@ class Products:
     enthalpy: tuple[EnthalpyValue, ...] = ()
     sources: tuple[SourceAgreement, ...] = ()
     triple_point: TriplePointRecord | None = None
+    transitions: tuple = ()
     notes: tuple[str, ...] = ()
     plot_data: Mapping[str, Any] = field(default_factory=dict)
     deviation_percent: Mapping[int, float] = field(default_factory=dict)
@@ -78,6 +79,7 @@ def summarise(ctx: AuditContext) -> Products:
         enthalpy=tuple(enthalpy),
         sources=every_source(ctx, ctx.source_records),
         triple_point=ctx.triple_point,
+        transitions=tuple(ctx.transitions),
         notes=tuple(notes),
         plot_data=dict(ctx.plot_data),
         deviation_percent=dict(ctx.consensus.deviation_percent),

@@ -22,6 +22,7 @@ _CHECK_MODULES = (
     "copied_values",
     "monotonic",
     "triple_point",
+    "solid_transition",
     "clapeyron_linearity",
     "enthalpy_continuity",
     "enthalpy_plausibility",

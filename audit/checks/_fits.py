@@ -20,6 +20,7 @@ import numpy as np
 
 from ..consensus import BranchData, points_data  # noqa: F401  (re-exported for the checks)
 from ..context import AuditContext
+from ..model import base_phase, is_solid
 
 WATER_NAMES = {"water", "h2o", "ice", "water (h2o)"}
 WATER_CAS = "7732-18-5"
@@ -80,6 +81,19 @@ def known_triple_point(ctx: AuditContext) -> KnownTriplePoint | None:
     return None
 
 
+def solid_meeting_liquid(ctx: AuditContext, branches=None) -> str | None:
+    """The solid branch that meets the liquid: the one reaching the highest temperature.
+
+    'solid' when there is one solid branch; with several crystal forms
+    ('solid I', 'solid II'), the form stable just below the triple point.
+    None without a solid branch.
+    """
+    solids = [b for b in (branches if branches is not None else ctx.branches()) if is_solid(b)]
+    if len(solids) <= 1:
+        return solids[0] if solids else None
+    return max(solids, key=lambda b: max(p.T_K for p in ctx.usable(b)))
+
+
 def recommended(ctx: AuditContext, branch: str):
     """(EquationChoice or None, BranchData): the fit of record of a branch and its points.
 
@@ -106,7 +120,7 @@ def recommended(ctx: AuditContext, branch: str):
         try:
             choice = select_equation(data.T, data.P, data.u_T, data.u_P,
                                      Tc=md.get("T_critical"), Pc=md.get("P_critical"),
-                                     branch=branch if branch != "unknown" else "liquid")
+                                     branch=base_phase(branch) if branch != "unknown" else "liquid")
         except ValueError as exc:  # e.g. degenerate data: report, don't crash
             ctx.notes.append(f"no equation could be fitted to the {branch} branch: {exc}")
     cache[branch] = (choice, data)
@@ -119,7 +133,7 @@ def real_gas_model(ctx: AuditContext, branch: str):
 
     md = ctx.dataset.metadata
     Tc, Pc, omega = md.get("T_critical"), md.get("P_critical"), md.get("acentric_factor")
-    phase = "solid" if branch == "solid" else "liquid"
+    phase = "solid" if is_solid(branch) else "liquid"
     if is_water(ctx):
         from ..thermo.constants import WATER_ACENTRIC_FACTOR, WATER_P_CRITICAL, WATER_T_CRITICAL
 

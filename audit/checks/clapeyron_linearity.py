@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..model import is_solid
 from ..results import CheckResult, PointFlag
 from ._fits import MIN_POINTS_FOR_FIT, recommended
 from ._util import skipped
@@ -101,7 +102,7 @@ class ClapeyronLinearity(Check):
             dcp_txt = f"ΔCp = {curv.dCp:.3g} ± {curv.u_dCp:.2g} J mol⁻¹ K⁻¹ at {curv.T_ref:.1f} K"
             if not significant:
                 text.append(f"no significant curvature (p = {curv.p_value:.2g} ≥ {s['curvature_alpha']})")
-            elif branch != "solid" and curv.dCp - s["positive_dCp_k"] * curv.u_dCp > 0:
+            elif not is_solid(branch) and curv.dCp - s["positive_dCp_k"] * curv.u_dCp > 0:
                 text.append(f"curvature implies ΔH rising with T: {dcp_txt} > 0 "
                             f"(more than {s['positive_dCp_k']}·u)")
                 warn_texts.append(text[-1])

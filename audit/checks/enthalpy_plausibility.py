@@ -7,7 +7,7 @@ import math
 import numpy as np
 
 from ..results import CheckResult
-from ._fits import implied, recommended
+from ._fits import implied, recommended, solid_meeting_liquid
 from ._util import skipped
 from .registry import Check, Option, register
 
@@ -91,12 +91,13 @@ class EnthalpyPlausibility(Check):
                         problems.append(f"{t}, outside the band {lo:g}–{hi:g}")
                 else:
                     texts.append("normal boiling point not within reach of the data: Trouton test not applied")
-        if "solid" in branches and liquid is not None:
-            cs, ds = recommended(ctx, "solid")
+        solid = solid_meeting_liquid(ctx, branches)
+        if solid is not None and liquid is not None:
+            cs, ds = recommended(ctx, solid)
             cl, dl = recommended(ctx, liquid)
             if cs is not None and cl is not None:
                 T_j = 0.5 * (float(ds.T.max()) + float(dl.T.min()))
-                hs, _, _ = implied(ctx, "solid", np.array([T_j]))
+                hs, _, _ = implied(ctx, solid, np.array([T_j]))
                 hl, _, _ = implied(ctx, liquid, np.array([T_j]))
                 tested += 1
                 diff = float(hs.dH[0] - hl.dH[0])
@@ -107,7 +108,7 @@ class EnthalpyPlausibility(Check):
                     texts.append(f"{t}: ΔH_sub > ΔH_vap as it must be")
                 else:
                     problems.append(f"{t}: ΔH_sub ≤ ΔH_vap, impossible (ΔH_fus > 0)")
-        for kind, branch in (("vap", liquid), ("sub", "solid" if "solid" in branches else None)):
+        for kind, branch in (("vap", liquid), ("sub", solid)):
             cal = md.constants.get(f"dH_{kind}_calorimetric")
             T_cal = md.get(f"T_dH_{kind}_calorimetric")
             if cal is None or T_cal is None or branch is None:

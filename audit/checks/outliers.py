@@ -18,6 +18,7 @@ import numpy as np
 from ..consensus import ConsensusModel, build_branch_consensus
 from ..diagnose import diagnose_point
 from ..diagnose.units import pressure_unit_size_Pa, pressure_units_of_size, split_log_unit
+from ..model import is_solid
 from ..results import Cause, CheckResult, PointFlag
 from ..thermo.ratios import percent_from_log_ratio
 from ._util import rows_text, skipped, worst_status
@@ -210,8 +211,8 @@ class Outliers(Check):
                 not_fitted[branch] = skipped_branches[-1]
                 continue
             try:
-                c = build_branch_consensus(pts, s, ss, Tc if branch != "solid" else None,
-                                           Pc if branch != "solid" else None, branch)
+                c = build_branch_consensus(pts, s, ss, None if is_solid(branch) else Tc,
+                                           None if is_solid(branch) else Pc, branch)
             except (ValueError, np.linalg.LinAlgError) as exc:
                 skipped_branches.append(f"{branch}: fit failed ({exc})")
                 not_fitted[branch] = skipped_branches[-1]

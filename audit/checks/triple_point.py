@@ -7,7 +7,7 @@ import math
 import numpy as np
 
 from ..results import Cause, CheckResult, PointFlag, TriplePointRecord
-from ._fits import known_triple_point, real_gas_model, recommended
+from ._fits import known_triple_point, real_gas_model, recommended, solid_meeting_liquid
 from ._util import skipped
 from .registry import Check, Option, register
 
@@ -73,10 +73,11 @@ class TriplePoint(Check):
 
         s = ctx.settings(self.id)
         branches = ctx.branches()
-        if "solid" not in branches or "liquid" not in branches:
+        solid = solid_meeting_liquid(ctx, branches)
+        if solid is None or "liquid" not in branches:
             return skipped(self, "needs both a solid and a liquid branch (labelled, or found by branch-split); "
                                  f"branches present: {', '.join(branches) or 'none'}")
-        cs, ds = recommended(ctx, "solid")
+        cs, ds = recommended(ctx, solid)
         cl, dl = recommended(ctx, "liquid")
         nmin = s["min_points_per_branch"]
         if cs is None or cl is None or ds.n < nmin or dl.n < nmin:
@@ -85,18 +86,18 @@ class TriplePoint(Check):
         notes = []
         if est.crossed:
             dz_s, dz_l = 1.0, 1.0
-            for branch in ("solid", "liquid"):
+            for branch in (solid, "liquid"):
                 model, why = real_gas_model(ctx, branch)
                 if model is not None:
                     dz = float(model.evaluate(est.T, est.P).delta_z[0])
-                    dz_s, dz_l = (dz, dz_l) if branch == "solid" else (dz_s, dz)
+                    dz_s, dz_l = (dz, dz_l) if branch == solid else (dz_s, dz)
                 else:
                     notes.append(f"{branch}: {why}")
             if (dz_s, dz_l) != (1.0, 1.0):
                 est = intersect_branches(cs.chosen, cl.chosen, delta_z_solid=dz_s, delta_z_liquid=dz_l)
         junction = (float(ds.T.max()), float(dl.T.min()))
         lo, hi = min(junction) - s["crossing_margin_K"], max(junction) + s["crossing_margin_K"]
-        causes, flags, point_status = self._phase_labels(ctx, cs.chosen, cl.chosen, s)
+        causes, flags, point_status = self._phase_labels(ctx, cs.chosen, cl.chosen, s, solid)
         metrics = {"T_K": est.T, "u_T_K": est.u_T, "P_Pa": est.P, "u_P_Pa": est.u_P,
                    "dH_sub_J_per_mol": est.dH_sub, "dH_vap_J_per_mol": est.dH_vap,
                    "dH_fus_J_per_mol": est.dH_fus, "u_dH_fus_J_per_mol": est.u_dH_fus,
@@ -159,7 +160,7 @@ class TriplePoint(Check):
             return None
         return known.T_K, known.P_Pa, known.u_T_K, known.u_P_Pa, known.text
 
-    def _phase_labels(self, ctx, fit_s, fit_l, s):
+    def _phase_labels(self, ctx, fit_s, fit_l, s, solid="solid"):
         """Rows marked by the outlier screening that fit the other branch."""
         from ..thermo.equations import ln_p_where_defined
 
@@ -167,7 +168,10 @@ class TriplePoint(Check):
         fits = {"solid": fit_s, "liquid": fit_l}
         scale = {b: _robust_scale(f) for b, f in fits.items()}
         for p in ctx.dataset.points:
-            if p.phase not in fits or ctx.status.get(p.row) not in ("suspect", "reject") or not p.readable:
+            # a row of another crystal form is judged by the transition check, not here
+            if ctx.phase(p) not in (solid, "liquid") or p.phase not in fits:
+                continue
+            if ctx.status.get(p.row) not in ("suspect", "reject") or not p.readable:
                 continue
             if not (p.T_K > 0 and p.P_Pa > 0):
                 continue

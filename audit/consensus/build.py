@@ -51,6 +51,7 @@ from ..thermo.overlap import JUDGEABLE_REACH, overlaps_others, within_span
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
 from ..thermo.stats import family_wise_critical, mad_scale, repeated_median_line
+from ..model import base_phase
 from .model import BranchConsensus, BranchData, SourceShift, finite_or_inf
 
 #: √(π/2): standard error of a median relative to that of a mean (normal data).
@@ -253,7 +254,7 @@ class _BranchAnalysis:
         ok = ~gross
         choice = select_equation(T[ok], P[ok], u_T=None if uT_in is None else uT_in[ok],
                                  u_P=None if uP_in is None else uP_in[ok],
-                                 Tc=Tc, Pc=Pc, branch=branch if branch in ("liquid", "solid") else "unknown")
+                                 Tc=Tc, Pc=Pc, branch=base_phase(branch))
         self.choice = choice
         first = choice.chosen
         self.form_name = choice.chosen_name

@@ -20,7 +20,7 @@ from pathlib import Path
 from audit.errors import InputError
 from audit.ingest import units as _units
 from audit.ingest.columns import ColumnAssignment, ColumnOverrides, assign_columns
-from audit.ingest.labels import phase_from_label
+from audit.ingest.labels import crystal_form_from_label, phase_from_label
 from audit.ingest.metadata import read_metadata_and_columns
 from audit.ingest.numbers import COMMA_DECIMAL, POINT_DECIMAL, CellNumber, read_number
 from audit.ingest.raw_table import RawTable, is_blank_row
@@ -283,15 +283,17 @@ def _build_points(raw: RawTable, assignment: ColumnAssignment, notes: list[str])
                     u_P_Pa = v * _units.pascal_per_unit(uP.unit)
 
         phase = "unknown"
+        form = None
         label = (cell(cells, phase_col) or "").strip()
         if label:
             phase = phase_from_label(label)
+            form = crystal_form_from_label(label) if phase == "solid" else None
             if phase == "unknown":
                 unknown_phases.setdefault(label, []).append(row)
         source = (cell(cells, source_col) or "").strip() or None
 
         points.append(Point(
-            T_K=T_K, P_Pa=P_Pa, phase=phase, source=source, u_T_K=u_T_K, u_P_Pa=u_P_Pa,
+            T_K=T_K, P_Pa=P_Pa, phase=phase, source=source, u_T_K=u_T_K, u_P_Pa=u_P_Pa, crystal_form=form,
             status="unreadable" if reasons else "ok",
             reason="; ".join(reasons) if reasons else None, **base))
 

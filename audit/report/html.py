@@ -176,6 +176,15 @@ def _enthalpy_rows(result: AuditResult) -> list[dict]:
     return rows
 
 
+def _transitions(result: AuditResult) -> list[dict]:
+    """Rows of the solid–solid transitions table (on heating: low form → high form)."""
+    return [{"name": f"{t.low_form} → {t.high_form}", "T": format_number(t.T_K, 6), "uT": format_number(t.u_T_K, 2),
+             "P": format_number(t.P_Pa, 5), "uP": format_number(t.u_P_Pa, 2),
+             "H": _fixed(t.dH_J_per_mol / 1000, 3),
+             "uH": _fixed(None if t.u_dH_J_per_mol is None else t.u_dH_J_per_mol / 1000, 3)}
+            for t in result.transitions]
+
+
 def _triple_point(result: AuditResult) -> dict | None:
     tp = result.triple_point
     if tp is None:
@@ -237,6 +246,7 @@ def report_context(result: AuditResult, *, plots=None) -> dict:
         "fits": _fit_rows(result),
         "enthalpy": _enthalpy_rows(result),
         "triple": _triple_point(result),
+        "transitions": _transitions(result),
         "sources": result.sources,
         "sources_named": bool(ds.sources),
         "plots": [{"p": p, "svg": Markup(p.svg) if p.svg else None} for p in plots],
@@ -253,6 +263,8 @@ _BRANCH_NAMES = {"liquid": "liquid (vaporization)", "solid": "solid (sublimation
 
 def branch_name(branch: str) -> str:
     """The reader's name of a branch ('unknown' → 'vaporization or sublimation (phase not known)')."""
+    if branch.startswith("solid "):
+        return f"solid, form {branch[len('solid '):]} (sublimation)"
     return _BRANCH_NAMES.get(branch, branch)
 
 

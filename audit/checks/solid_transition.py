@@ -1,0 +1,105 @@
+"""Check ``solid-transition``: where the sublimation curves of two crystal forms cross."""
+
+from __future__ import annotations
+
+from ..model import crystal_form_of, is_solid
+from ..results import CheckResult, TransitionRecord
+from ._fits import real_gas_model, recommended
+from ._util import skipped
+from .registry import Check, Option, register
+
+
+@register
+class SolidTransition(Check):
+    """Transition temperatures and enthalpies between crystal forms.
+
+    **What it checks.** When the phase labels name two crystal forms or more
+    (``cr I``/``cr II``, ``s1``/``s2``, ``α``/``β``: each form is a solid
+    branch of its own), the fits of record of forms adjacent in temperature
+    are intersected like solid and liquid at a triple point: the transition
+    temperature and pressure with their standard uncertainties, and the
+    enthalpy of transition ΔH_trs = ΔH_sub(low-T form) − ΔH_sub(high-T form)
+    there (real-gas corrected when the constants allow).  Fails when the two
+    curves do not cross within ``crossing_margin_K`` of the junction of the
+    two forms' data, or when ΔH_trs ≤ 0 (the form stable below the
+    transition must have the steeper sublimation curve).
+
+    **Why it matters.** Each crystal form has its own vapor pressure; mixed
+    into one solid branch, two forms bend the fit and get good points
+    rejected.  Where the forms' curves cross is the transition temperature,
+    a property a curator can compare with calorimetry.
+
+    **Example.** forms II (250–300 K) and I (300–340 K) → "II → I at
+    300.2 ± 0.4 K, 1.23 ± 0.05 kPa; ΔH_trs = 2.9 ± 0.3 kJ/mol".
+
+    **Options.** ``crossing_margin_K``, ``min_points_per_branch``.
+    """
+
+    id = "solid-transition"
+    title = "Transitions between crystal forms"
+    method = ("The fits of record of crystal forms adjacent in temperature are intersected (Brent's "
+              "method); u(T), u(P) and u(ΔH_trs) follow from both parameter covariances by the delta "
+              "method; ΔH_trs = Δz·ΔH_sub,app(low-T form) − Δz·ΔH_sub,app(high-T form).")
+    references = (
+        "Clapeyron equation for each solid–vapor equilibrium; at a solid–solid transition both forms "
+        "have one vapor pressure and ΔH_trs = ΔH_sub,low − ΔH_sub,high (Hess), e.g. Atkins' Physical "
+        "Chemistry, §4B.",
+    )
+    options = {
+        "crossing_margin_K": Option(float, "how far outside the junction of the two forms' data the "
+                                    "curves may cross", "K", 0, 200),
+        "min_points_per_branch": Option(int, "fewest points on each form's branch", "", 3, 1000),
+    }
+
+    def run(self, ctx):
+        from ..thermo.triple_point import intersect_branches
+
+        s = ctx.settings(self.id)
+        forms = [b for b in ctx.branches() if is_solid(b) and crystal_form_of(b)]
+        if len(forms) < 2:
+            return skipped(self, "the data name fewer than two crystal forms")
+        nmin = s["min_points_per_branch"]
+        fitted = []
+        for b in forms:
+            choice, data = recommended(ctx, b)
+            if choice is not None and data.n >= nmin:
+                fitted.append((float(data.T.min()), float(data.T.max()), b, choice.chosen))
+        if len(fitted) < 2:
+            return skipped(self, f"fewer than two crystal forms have {nmin} points and a fit")
+        fitted.sort()
+        texts, problems, records, metrics, failed = [], [], [], {}, False
+        for (lo_min, lo_max, low, fit_low), (hi_min, hi_max, high, fit_high) in zip(fitted, fitted[1:]):
+            est = intersect_branches(fit_low, fit_high)
+            if est.crossed:
+                dz = []
+                for b in (low, high):
+                    model, _ = real_gas_model(ctx, b)
+                    dz.append(float(model.evaluate(est.T, est.P).delta_z[0]) if model is not None else 1.0)
+                if dz != [1.0, 1.0]:
+                    est = intersect_branches(fit_low, fit_high, delta_z_solid=dz[0], delta_z_liquid=dz[1])
+            a, b = crystal_form_of(low), crystal_form_of(high)
+            name = f"{a} → {b}"  # on heating: the low-temperature form turns into the other
+            junction = (lo_max, hi_min)
+            edge_lo, edge_hi = min(junction) - s["crossing_margin_K"], max(junction) + s["crossing_margin_K"]
+            metrics[name] = {"T_K": est.T, "u_T_K": est.u_T, "P_Pa": est.P, "u_P_Pa": est.u_P,
+                             "dH_J_per_mol": est.dH_fus, "u_dH_J_per_mol": est.u_dH_fus, "crossed": est.crossed}
+            if not est.crossed or not edge_lo <= est.T <= edge_hi:
+                failed = True
+                where = (est.message if not est.crossed else f"they cross at {est.T:.2f} K, outside "
+                         f"{edge_lo:.2f}–{edge_hi:.2f} K (junction of the forms' data ± {s['crossing_margin_K']} K)")
+                problems.append(f"forms {a} and {b} do not meet in a sensible range: {where}")
+                continue
+            text = (f"{name} at {est.T:.2f} ± {est.u_T:.2g} K, {est.P:.5g} ± {est.u_P:.2g} Pa; "
+                    f"ΔH_trs = {est.dH_fus / 1e3:.4g} ± {est.u_dH_fus / 1e3:.2g} kJ/mol")
+            if est.dH_fus <= 0:
+                failed = True
+                problems.append(f"{text}: ΔH_trs ≤ 0, the form stable below the transition ({a}) must have "
+                                "the steeper sublimation curve")
+            else:
+                texts.append(text)
+            records.append(TransitionRecord(low_form=a, high_form=b, T_K=est.T, u_T_K=est.u_T, P_Pa=est.P,
+                                            u_P_Pa=est.u_P, dH_J_per_mol=est.dH_fus,
+                                            u_dH_J_per_mol=est.u_dH_fus))
+        ctx.transitions = records
+        return CheckResult(self.id, self.title, "fail" if failed else "pass", "; ".join(problems + texts),
+                           metrics)

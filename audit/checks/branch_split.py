@@ -26,7 +26,11 @@ class BranchSplit(Check):
     lines differ by more than ``max_gap_sigma`` standard uncertainties of
     their difference and by more than ``min_jump_percent`` is a jump in
     level, rows of another compound or in another unit, reported as such,
-    never as a phase change.  When the rows name two sources or more, the
+    never as a phase change.  The search runs on the rows that are not gross
+    errors (a repeated-median line, then a robust curve, see
+    ``_without_gross_errors``): a °C value in a kelvin column or a block in
+    another unit would otherwise drag a least-squares break anywhere.  When
+    the rows name two sources or more, the
     break must also be a drop of ΔH (a hinge in ln P vs 1/T) significant
     against smooth curves — ΔH linear and quadratic in T — with a level and
     a weight (its own scatter) for each source: series of unequal scatter
@@ -87,9 +91,19 @@ class BranchSplit(Check):
         if len(unlabelled) < 2 * m:
             return skipped(self, f"{len(unlabelled)} unlabelled rows; a break needs {m} on each side")
         data = points_data("unknown", unlabelled)
-        unlabelled, T, P = list(data.points), data.T, data.P
+        every = list(data.points)
+        # a gross error (a °C value in a kelvin column, a block in another unit) drags a
+        # least-squares break anywhere: the search runs on the rows a robust line keeps
+        kept = _without_gross_errors(data.T, data.P)
+        if kept.sum() < 2 * m:
+            return skipped(self, f"{int(kept.sum())} unlabelled rows without gross errors; a break needs {m} "
+                                 "on each side")
+        unlabelled = [p for p, k in zip(every, kept) if k]
+        T, P = data.T[kept], data.P[kept]
+        u_T = None if data.u_T is None else data.u_T[kept]
+        u_P = None if data.u_P is None else data.u_P[kept]
         try:
-            brk = find_slope_break(T, P, min_points_per_side=m, u_T=data.u_T, u_P=data.u_P)
+            brk = find_slope_break(T, P, min_points_per_side=m, u_T=u_T, u_P=u_P)
         except ValueError as exc:
             return skipped(self, f"no slope break could be tested: {exc}")
         ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")
@@ -126,7 +140,7 @@ class BranchSplit(Check):
                                f"{s['alpha']})", metrics)
         sources = [p.source for p in unlabelled]
         if len({x for x in sources if x}) >= 2:
-            step = _step_beyond_smooth_curves(T, P, data.u_T, data.u_P, sources, m)
+            step = _step_beyond_smooth_curves(T, P, u_T, u_P, sources, m)
             metrics.update(step)
             if not (step["step_p_adjusted"] < s["alpha"] and step["step_dH_J_per_mol"] < 0):
                 return CheckResult(self.id, self.title, "pass",
@@ -138,8 +152,8 @@ class BranchSplit(Check):
             T_break = 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
             metrics.update({"T_break_K": T_break, "T_break_two_lines_K": brk.T_break})
         desc = _describe(brk, T_break)
-        low = {unlabelled[i].row for i in brk.order[:split]}
-        inferred = {p.row: ("solid" if p.row in low else "liquid") for p in unlabelled}
+        # every unlabelled row, kept for the search or not, takes the side of the break it lies on
+        inferred = {p.row: ("solid" if p.T_K < T_break else "liquid") for p in every}
         flags = tuple(PointFlag(r, self.id, s.severity, f"phase inferred as {ph} from the {desc}")
                       for r, ph in inferred.items())
         n_s = sum(1 for v in inferred.values() if v == "solid")
@@ -166,6 +180,39 @@ class BranchSplit(Check):
 def _describe(brk, T_break: float) -> str:
     return (f"slope break at {T_break:.2f} K (adjusted p = {brk.p_value_adjusted:.2g}): apparent ΔH "
             f"{brk.dH_low / 1e3:.4g} kJ/mol below, {brk.dH_high / 1e3:.4g} kJ/mol above")
+
+
+def _without_gross_errors(T, P) -> np.ndarray:
+    """Rows that are not gross errors, to search a break among.
+
+    Two stages.  The repeated-median line of ln P on 1/T (50 % breakdown:
+    rows in another unit or scale do not carry it) removes what lies more
+    than a factor 3 off it — a straight line misses the bend through a
+    triple point by tens of percent at the ends of a wide range, never by a
+    factor 3.  Then a Tukey-robust constant-ΔCp curve through the rest, which
+    follows the bend to a few percent, removes what lies more than 10 robust σ
+    (and 5 %) off it.
+    """
+    from ..thermo.fitting import fit_equation
+    from ..thermo.stats import mad_scale, repeated_median_line
+
+    y = np.log(P)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        line = repeated_median_line(1.0 / T, y)
+    r = line.residuals
+    ok = np.isfinite(r)
+    if ok.sum() < 4:
+        return ok
+    ok &= np.abs(r - np.median(r[ok])) <= np.log(3.0)
+    try:
+        fit = fit_equation(T[ok], P[ok], "cc3", robust=True)
+    except ValueError:
+        return ok
+    r2 = y[ok] - fit.equation.ln_p(T[ok])
+    limit = max(10.0 * mad_scale(r2), np.log(1.05))
+    keep = ok.copy()
+    keep[ok] = np.abs(r2 - np.median(r2)) <= limit
+    return keep
 
 
 def _source_scales(T, P, sources) -> np.ndarray | None:

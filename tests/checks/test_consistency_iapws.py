@@ -271,3 +271,20 @@ def test_an_unlabelled_liquid_compilation_of_unequal_series_is_one_branch(defaul
     split = _check(res, "branch-split")
     assert split.status == "pass", split.message
     assert {p.phase for p in res.points} == {"unknown"}
+
+
+def test_gross_errors_do_not_move_the_phase_break(default_profile):
+    # unlabelled ice Ih and liquid water, no substance named; row 3 printed in °C in the kelvin
+    # column (a point near 0 K in 1/T) and rows 20-22 in kPa under a Pa header: the least-squares
+    # break search, dragged by them, put the break anywhere; on the rows a robust line keeps it
+    # finds 273.16 K (IAPWS R10-06)
+    T = np.r_[np.linspace(232.0, 272.0, 17), np.linspace(274.0, 330.0, 19)]
+    P = _ice_or_liquid(T) * (1 + 5e-4 * np.random.default_rng(9).standard_normal(T.size))
+    T_printed = T.copy()
+    T_printed[2] = T[2] - 273.15
+    P[19:22] /= 1000.0
+    res = run_audit(from_arrays(T_printed, P), default_profile)
+    split = _check(res, "branch-split")
+    assert split.status == "warn" and abs(split.metrics["T_break_K"] - 273.16) < 2.0, split.message
+    good = [p for k, p in enumerate(res.points) if k not in (2, 19, 20, 21)]
+    assert all((p.phase == "solid") == (p.T_K < 273.16) for p in good)

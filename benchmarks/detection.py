@@ -103,6 +103,16 @@ def unit_slip_for_factor(header_unit: str, printed_over_true: float) -> str | No
     return next((u for u in COMMON_PRESSURE_UNITS if abs(pressure_unit_size_Pa(u) / size - 1) < 1e-6), None)
 
 
+def _plant_swap(texts, i, rng, size_of):
+    """Transpose two adjacent digits of texts[i] in place: (size of the error in σ, [i]), or (inf, [])."""
+    new = _swap(texts[i], rng)
+    if not new:
+        return math.inf, []
+    size = size_of(texts[i], new)
+    texts[i] = new
+    return size, [i]
+
+
 def make_table(seed):
     from audit.model import Dataset, Point
 
@@ -157,15 +167,9 @@ def make_table(seed):
             bad = [i]
             also = "pressure-unit" if unit_slip_for_factor(unit, 10.0 ** power) else None
         elif fault == "digit-swap-P":
-            s = _swap(P_txt[i], rng)
-            if s:
-                size = abs(math.log(float(s) / float(P_txt[i]))) / NOISE
-                P_txt[i], bad = s, [i]
+            size, bad = _plant_swap(P_txt, i, rng, lambda a, b: abs(math.log(float(b) / float(a))) / NOISE)
         elif fault == "digit-swap-T":
-            s = _swap(T_txt[i], rng)
-            if s:
-                size = _temperature_error_size(pfun, float(T_txt[i]), float(s))
-                T_txt[i], bad = s, [i]
+            size, bad = _plant_swap(T_txt, i, rng, lambda a, b: _temperature_error_size(pfun, float(a), float(b)))
         elif fault == "temperature-unit":
             T_txt[i] = f"{float(T_txt[i]) - 273.15:.2f}"
             bad = [i]
@@ -283,16 +287,11 @@ def make_broad_table(seed):
             P_txt[i], bad = _sig(float(P_txt[i]) * 10.0 ** power), [i]
             also = "pressure-unit" if unit_slip_for_factor(P_unit, 10.0 ** power) else None
         elif fault == "digit-swap-P":
-            s_ = _swap(P_txt[i], rng)
-            if s_:
-                size_sigma = abs(math.log(float(s_) / float(P_txt[i]))) / NOISE
-                P_txt[i], bad = s_, [i]
+            size_sigma, bad = _plant_swap(P_txt, i, rng, lambda a, b: abs(math.log(float(b) / float(a))) / NOISE)
         elif fault == "digit-swap-T":
-            s_ = _swap(T_txt[i], rng)
-            if s_:
-                off = 273.15 if T_unit == "degC" else 0.0
-                size_sigma = _temperature_error_size(pfun, float(T_txt[i]) + off, float(s_) + off)
-                T_txt[i], bad = s_, [i]
+            off = 273.15 if T_unit == "degC" else 0.0
+            size_sigma, bad = _plant_swap(T_txt, i, rng, lambda a, b: _temperature_error_size(
+                pfun, float(a) + off, float(b) + off))
         elif fault == "temperature-unit":
             # both directions: a °C value in a kelvin column, a kelvin value in a °C column
             T_txt[i] = f"{T_print[i] - 273.15:.2f}" if T_unit == "K" else f"{T_print[i]:.2f}"

@@ -391,7 +391,7 @@ def main(argv=None):
                 f[2] += i in plain
                 f[3] += i in by_check
                 if i in st:
-                    right = causes.get(i) in (EXPECTED_CAUSE.get(lab["fault"], ""), lab.get("also_right"))
+                    right = i in causes and causes[i] in (EXPECTED_CAUSE.get(lab["fault"], ""), lab.get("also_right"))
                     cause_by[lab["fault"]][0] += right
                     cause_by[lab["fault"]][1] += 1
                 if i in causes:

@@ -163,9 +163,29 @@ def _fit_rows(result: AuditResult) -> list[dict]:
     return rows
 
 
+#: most enthalpy rows the report shows per branch (findings.json keeps one per data temperature)
+ENTHALPY_ROWS_PER_BRANCH = 8
+
+
+def _enthalpy_shown(values, most: int = ENTHALPY_ROWS_PER_BRANCH):
+    """Per branch, at most `most` values spread evenly over its temperatures (ends included)."""
+    by_branch: dict[str, list] = {}
+    for e in values:
+        by_branch.setdefault(e.branch, []).append(e)
+    shown = []
+    for branch_values in by_branch.values():
+        ordered = sorted(branch_values, key=lambda e: e.T_K)
+        distinct = list({round(e.T_K, 6): e for e in ordered}.values())
+        if len(distinct) > most:
+            picks = sorted({round(k * (len(distinct) - 1) / (most - 1)) for k in range(most)})
+            distinct = [distinct[k] for k in picks]
+        shown.extend(distinct)
+    return shown
+
+
 def _enthalpy_rows(result: AuditResult) -> list[dict]:
     rows = []
-    for e in result.enthalpy:
+    for e in _enthalpy_shown(result.enthalpy):
         corrected = e.dH_J_per_mol if e.real_gas_corrected else None
         apparent = e.dH_apparent_J_per_mol if e.real_gas_corrected else e.dH_J_per_mol
         rows.append({"branch": branch_name(e.branch), "T": format_number(e.T_K, 6),
@@ -247,6 +267,7 @@ def report_context(result: AuditResult, *, plots=None) -> dict:
         "enthalpy": _enthalpy_rows(result),
         "triple": _triple_point(result),
         "transitions": _transitions(result),
+        "enthalpy_rows_per_branch": ENTHALPY_ROWS_PER_BRANCH,
         "sources": result.sources,
         "sources_named": bool(ds.sources),
         "plots": [{"p": p, "svg": Markup(p.svg) if p.svg else None} for p in plots],

@@ -105,3 +105,18 @@ def test_write_html(tmp_path, rich_result):
     path = tmp_path / "report.html"
     write_html(rich_result, path)
     assert path.read_text(encoding="utf-8") == render_html(rich_result)
+
+
+def test_the_enthalpy_table_shows_a_few_temperatures_per_branch_not_every_one():
+    # findings.json keeps one enthalpy per data temperature; the report a curator reads shows at
+    # most ENTHALPY_ROWS_PER_BRANCH per branch, spread from the first to the last temperature
+    from audit.report.html import ENTHALPY_ROWS_PER_BRANCH, _enthalpy_shown
+    from audit.results import EnthalpyValue
+
+    values = [EnthalpyValue("liquid", 280.0 + k, 44000.0 - 40 * k, 50.0, True) for k in range(40)]
+    values += [EnthalpyValue("solid", 240.0 + k, 51000.0, 80.0, True) for k in range(5)]
+    shown = _enthalpy_shown(values)
+    liquid = [e.T_K for e in shown if e.branch == "liquid"]
+    assert len(liquid) == ENTHALPY_ROWS_PER_BRANCH and liquid[0] == 280.0 and liquid[-1] == 319.0
+    assert liquid == sorted(liquid)
+    assert [e.T_K for e in shown if e.branch == "solid"] == [240.0, 241.0, 242.0, 243.0, 244.0]

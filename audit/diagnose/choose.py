@@ -9,9 +9,11 @@ hypothesis with a different corrected value is clearly worse:
 too, and a 2.4 σ point that a digit swap would move to 1.6 σ is not
 explained by it.  The max(…, 1) keeps two readings that both land within
 one σ from being told apart by noise.  Rivals that are all pressure-unit
-readings (bar, atm and kgf/cm² lie within 3.3 % of each other) do not make
-the cause ambiguous, only its value: the best is kept and the others are
-named beside it.  Both ``k`` and ``ratio`` are passed in (they come from the
+readings (bar, atm and kgf/cm² lie within 3.3 % of each other), or unit and
+decimal-shift readings (kPa and ×10⁻² on a kgf/cm² column lie 2 % apart), do
+not make the cause ambiguous, only its value: the best unit reading is kept
+— a unit is preferred to a misplaced decimal point that fits as well — and
+the others are named beside it.  Both ``k`` and ``ratio`` are passed in (they come from the
 rule profile).
 """
 
@@ -25,6 +27,9 @@ from ..model import Point
 from .hypotheses import Hypothesis, all_hypotheses
 
 __all__ = ["ScoredHypothesis", "Diagnosis", "score_hypotheses", "diagnose_point"]
+
+#: readings that multiply the printed pressure by a factor
+_FACTOR_ON_P = ("pressure-unit", "decimal-shift")
 
 
 @dataclass(frozen=True)
@@ -68,7 +73,7 @@ class Diagnosis:
         text = f"{h.reading}: {value}; {before}, {self.best.z_after:+.1f} σ corrected"
         if self.alternatives:
             text += "; about as likely: " + ", ".join(
-                f"{a.hypothesis.reading.split(' but ')[-1]} (P = {a.hypothesis.P_Pa:.6g} Pa, {a.z_after:+.1f} σ)"
+                f"{_short_reading(a.hypothesis)} (P = {a.hypothesis.P_Pa:.6g} Pa, {a.z_after:+.1f} σ)"
                 for a in self.alternatives)
         return text
 
@@ -77,6 +82,15 @@ class Diagnosis:
         for s in self.ranked:
             lines.append(f"  {s.hypothesis.kind:17s} z_after = {s.z_after:+8.2f}  {s.hypothesis.reading}")
         return "\n".join(lines)
+
+
+def _short_reading(h: Hypothesis) -> str:
+    """'written in bar', or 'printed 10^2 times the intended 0.369': what sets this reading apart."""
+    if " but " in h.reading:
+        return h.reading.split(" but ", 1)[1]
+    if " is " in h.reading:
+        return "printed " + h.reading.split(" is ", 1)[1]
+    return h.reading
 
 
 def score_hypotheses(hypotheses: Sequence[Hypothesis], z_of: Callable[[float, float], float]
@@ -141,10 +155,15 @@ def diagnose_point(point: Point, z_of: Callable[[float, float], float], k: float
                          f"alternative reading ({best.hypothesis.kind}, {best.z_after:+.1f} σ): "
                          "ordinary scatter explains it as well")
     rivals = tuple(x for x in scored[1:] if abs(x.z_after) < ratio * max(abs(best.z_after), 1.0))
-    if rivals and best.hypothesis.kind == "pressure-unit" and all(
-            x.hypothesis.kind == "pressure-unit" for x in rivals):
-        return Diagnosis(point.row, z0, best, ranked, f"pressure-unit fits; the unit is uncertain between "
-                         f"{len(rivals) + 1} readings of about the same size", alternatives=rivals)
+    close = (best,) + rivals
+    units = [x for x in close if x.hypothesis.kind == "pressure-unit" and abs(x.z_after) <= k]
+    if rivals and units and all(x.hypothesis.kind in _FACTOR_ON_P for x in close):
+        # every close reading multiplies P by a factor, and one of them is a unit: the cause is a unit
+        # slip (preferred to a misplaced decimal point that fits as well); its size is what is uncertain
+        chosen = units[0]
+        others = tuple(x for x in close if x is not chosen)
+        return Diagnosis(point.row, z0, chosen, ranked, f"pressure-unit fits; the factor is uncertain between "
+                         f"{len(close)} readings of about the same size", alternatives=others)
     if rivals:
         nxt = scored[1]
         return Diagnosis(point.row, z0, None, ranked,

@@ -137,3 +137,19 @@ def test_a_digit_swap_rivalling_a_unit_reading_stays_ambiguous():
     p = Point(row=6, T_K=T, P_Pa=0.0465e5, T_text="331.60", P_text="0.0465", P_text_unit="bar")
     d = diagnose_point(p, z_of, k=3, ratio=3)
     assert d.best is None and d.reason.startswith("ambiguous")
+
+
+def test_a_unit_is_preferred_to_a_decimal_shift_that_fits_as_well():
+    # a kPa value printed under a kgf/cm² header: read in kPa it is exact, read as a decimal point
+    # two places off (×10⁻²) it is 2 % low (1 kgf/cm² = 98.0665 kPa); with a 1.5 % scatter both fit,
+    # and the unit slip is named, the decimal shift listed beside it
+    T = 345.0
+    P = _p_sat(T)
+    printed = f"{P / 1e3:.5g}"
+    p = Point(row=7, T_K=T, P_Pa=float(printed) * 98066.5, T_text="345.00", P_text=printed,
+              P_text_unit="kgf/cm2")
+    d = diagnose_point(p, _z_of_scatter(0.015), k=3, ratio=3)
+    assert d.best is not None and d.best.hypothesis.kind == "pressure-unit", d.summary()
+    assert "written in kPa" in d.best.hypothesis.reading
+    assert any(a.hypothesis.kind == "decimal-shift" for a in d.alternatives)
+    assert "printed 10^2 times" in d.explanation()

@@ -206,7 +206,7 @@ def _without_gross_errors(T, P) -> np.ndarray:
     ok &= np.abs(r - np.median(r[ok])) <= np.log(3.0)
     try:
         fit = fit_equation(T[ok], P[ok], "cc3", robust=True)
-    except ValueError:
+    except (ValueError, np.linalg.LinAlgError):  # too few or degenerate rows: the line's cut stands
         return ok
     r2 = y[ok] - fit.equation.ln_p(T[ok])
     limit = max(10.0 * mad_scale(r2), np.log(1.05))
@@ -233,7 +233,7 @@ def _source_scales(T, P, sources) -> np.ndarray | None:
         return None
     try:
         r = fit_equation(T, P, "cc3", robust="huber").residuals_lnP
-    except ValueError:
+    except (ValueError, np.linalg.LinAlgError):
         return None
     own = {}
     for name in named:

@@ -315,6 +315,7 @@ BAD_HEADERS = ("", "x", "value", "T", "P", "P/furlongs", "T/parsecs", "p/mpa", "
                "T/K", "P/kPa", "log10(P/Pa)", "#T/K", "Temperatur/K", "Druck/kPa", "T (K) ", " p/kPa")
 SOLID_LABELS = ("solid", "s", "cr", "ice", "cr-g", "Solid", "cr II", "s/v")
 LIQUID_LABELS = ("liquid", "l", "liq", "l/v", "Liquid", "l-g", "supercooled")
+CRYSTAL_FORM_PAIRS = ((), (), (), ("cr II", "cr I"), ("s2", "s1"), ("cr β", "cr α"), ("crIII", "cr-II"))
 ODD_LABELS = ("", "", "gas", "?", "sl", "l+s", "vapor", "—", "crystal?", "1")
 SOURCE_NAMES = ("Arlen 1958", "Voss & Keller 1972", "Müller 1932", "Ødegård 2004", "李 2001",
                 "Smith (1960)", "lab A", "lab B", "<b>x</b>", "a,b;c", 'src "q"', "1", "nan",
@@ -413,6 +414,12 @@ def _print_rows(ch: Chooser, rng: random.Random, cols: list[_Column], pts: list[
     log_dec = ch.integer(3, 6)
     u_sig = ch.integer(1, 3)
     sol_label, liq_label = ch.pick(SOLID_LABELS), ch.pick(LIQUID_LABELS)
+    # sometimes two crystal forms: below the solids' median temperature one, above it the other,
+    # or (hostile) drawn at random row by row
+    forms = ch.pick(CRYSTAL_FORM_PAIRS)
+    solid_T = sorted(pt.T for pt in pts if pt.phase == "solid")
+    split_T = solid_T[len(solid_T) // 2] if solid_T else 0.0
+    interleaved = ch.integer(0, 1) == 1
     rows = []
     for pt in pts:
         row = []
@@ -432,7 +439,11 @@ def _print_rows(ch: Chooser, rng: random.Random, cols: list[_Column], pts: list[
                 if not labels or rng.random() < 0.05:
                     row.append("")
                 else:
-                    row.append(sol_label if pt.phase == "solid" else liq_label)
+                    if pt.phase == "solid" and forms:
+                        low = rng.random() < 0.5 if interleaved else pt.T < split_T
+                        row.append(forms[0] if low else forms[1])
+                    else:
+                        row.append(sol_label if pt.phase == "solid" else liq_label)
             elif c.role == "source":
                 row.append(pt.source or "")
             elif c.role == "uT":

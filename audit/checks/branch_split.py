@@ -37,7 +37,10 @@ class BranchSplit(Check):
     and level otherwise fake a break in one liquid curve.  With a known
     triple point (``T_triple`` or ``T_melting`` of the metadata or the
     substance library, or water's) no break is searched for: rows below it
-    are solid, the others liquid.  Rows below the break are then treated as solid and rows above
+    are solid, the others liquid.  Among the unlabelled solid rows a second
+    break that passes the same tests, with ``min_transition_dH_ratio`` in
+    place of ``min_dH_ratio``, is a transition between two crystal forms:
+    the rows below it are named form II, those above form I.  Rows below the break are then treated as solid and rows above
     as liquid, each with a flag saying the phase was inferred.
 
     **Why it matters.** A table that runs through the triple point without
@@ -49,7 +52,7 @@ class BranchSplit(Check):
     p = 1e-15): slopes 51.1 and 45.0 kJ/mol; rows 1–12 solid, 13–25 liquid".
 
     **Options.** ``alpha``, ``min_points_per_side``, ``min_dH_ratio``, ``max_gap_sigma``,
-    ``min_jump_percent``.
+    ``min_jump_percent``, ``min_transition_dH_ratio``.
     """
 
     id = "branch-split"
@@ -71,6 +74,8 @@ class BranchSplit(Check):
         "min_jump_percent": Option(float, "smallest difference of the two lines' P at the break taken as a "
                                    "level jump (straight lines through curved branches miss by a few %)",
                                    "%", 0.0, 1000.0),
+        "min_transition_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH_sub taken as "
+                                          "a transition between two crystal forms", "", 1.0, 3.0),
     }
 
     def run(self, ctx):
@@ -83,7 +88,7 @@ class BranchSplit(Check):
             return skipped(self, "every usable row carries a phase label")
         known = known_triple_point(ctx)
         if known is not None:
-            return self._by_known_triple_point(unlabelled, labelled, known)
+            return self._by_known_triple_point(unlabelled, labelled, known, s)
         if labelled:
             return skipped(self, f"{len(unlabelled)} rows lack a phase label while {len(labelled)} have one; "
                                  "the unlabelled rows are audited as their own branch")
@@ -154,15 +159,24 @@ class BranchSplit(Check):
         desc = _describe(brk, T_break)
         # every unlabelled row, kept for the search or not, takes the side of the break it lies on
         inferred = {p.row: ("solid" if p.T_K < T_break else "liquid") for p in every}
-        flags = tuple(PointFlag(r, self.id, s.severity, f"phase inferred as {ph} from the {desc}")
+        forms = _second_crystal_form([p for p in every if inferred[p.row] == "solid"], s)
+        basis = f"the {desc}"
+        text = ""
+        if forms is not None:
+            T_trs, form_desc = forms
+            inferred = _name_forms(inferred, {p.row: p.T_K for p in every}, T_trs)
+            basis += f" and a second crystal form below the {form_desc}"
+            text = f"; below the {form_desc} a second crystal form (named II by the audit; I above)"
+            metrics["T_transition_K"] = T_trs
+        flags = tuple(PointFlag(r, self.id, s.severity, f"phase inferred as {ph} from {basis}")
                       for r, ph in inferred.items())
-        n_s = sum(1 for v in inferred.values() if v == "solid")
+        n_s = sum(1 for v in inferred.values() if v.startswith("solid"))
         return CheckResult(self.id, self.title, s.severity,
                            f"no phase labels; {desc}: {n_s} rows taken as solid, {len(inferred) - n_s} as "
-                           "liquid — label the phases to confirm", metrics, flags, phase_inferred=inferred,
-                           phase_basis=f"the {desc}")
+                           f"liquid{text} — label the phases to confirm", metrics, flags, phase_inferred=inferred,
+                           phase_basis=basis)
 
-    def _by_known_triple_point(self, unlabelled, labelled, known):
+    def _by_known_triple_point(self, unlabelled, labelled, known, s):
         """Unlabelled rows below the known triple-point temperature are solid, the others liquid."""
         inferred = {p.row: ("solid" if p.T_K < known.T_K else "liquid") for p in unlabelled}
         n_s = sum(1 for v in inferred.values() if v == "solid")
@@ -173,8 +187,71 @@ class BranchSplit(Check):
                    f"{known.T_K:.6g} K ({known.source})"
                    + (f"; {len(labelled)} rows keep their labels" if labelled else ""))
         metrics = {"T_triple_K": known.T_K, "triple_point_source": known.source, "n_solid": n_s, "n_liquid": n_l}
-        return CheckResult(self.id, self.title, "pass", message, metrics, phase_inferred=inferred,
-                           phase_basis=f"the known triple point {known.T_K:.6g} K ({known.source})")
+        basis = f"the known triple point {known.T_K:.6g} K ({known.source})"
+        status = "pass"
+        forms = None if labelled else _second_crystal_form([p for p in unlabelled if inferred[p.row] == "solid"], s)
+        if forms is not None:
+            T_trs, form_desc = forms
+            inferred = _name_forms(inferred, {p.row: p.T_K for p in unlabelled}, T_trs)
+            basis += f" and a second crystal form below the {form_desc}"
+            message += (f"; below the {form_desc} a second crystal form (named II by the audit, I above) — "
+                        "label the forms to confirm")
+            metrics["T_transition_K"] = T_trs
+            status = s.severity
+        return CheckResult(self.id, self.title, status, message, metrics, phase_inferred=inferred,
+                           phase_basis=basis)
+
+
+def _name_forms(inferred: dict, T_of_row: dict, T_transition: float) -> dict:
+    """Solid rows below the transition become form 'II', the others form 'I' (names of the audit)."""
+    return {r: (("solid II" if T_of_row[r] < T_transition else "solid I") if ph == "solid" else ph)
+            for r, ph in inferred.items()}
+
+
+def _second_crystal_form(points, s) -> tuple[float, str] | None:
+    """A transition between two crystal forms among unlabelled solid rows: (T [K], description) or None.
+
+    The same tests as a solid/liquid break, with a smaller least ratio of
+    the two sides' enthalpies (``min_transition_dH_ratio``: an enthalpy of
+    transition is a few percent of the enthalpy of sublimation): a break in
+    slope significant at ``alpha``, the low-temperature side steeper,
+    pressure continuous across it, beyond the curvature of one curve and, in
+    a compilation, a drop of ΔH beyond smooth curves with a level per source.
+    """
+    from ..thermo.triple_point import find_slope_break
+
+    m = s["min_points_per_side"]
+    if len(points) < 2 * m + 1:
+        return None
+    data = points_data("solid", points)
+    kept = _without_gross_errors(data.T, data.P)
+    if kept.sum() < 2 * m + 1:
+        return None
+    T, P = data.T[kept], data.P[kept]
+    u_T = None if data.u_T is None else data.u_T[kept]
+    u_P = None if data.u_P is None else data.u_P[kept]
+    try:
+        brk = find_slope_break(T, P, min_points_per_side=m, u_T=u_T, u_P=u_P)
+    except ValueError:
+        return None
+    ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")
+    if not (brk.p_value_adjusted < s["alpha"] and brk.solid_side_steeper and ratio >= s["min_transition_dH_ratio"]):
+        return None
+    if abs(brk.gap_lnP) > s["max_gap_sigma"] * brk.u_gap_lnP and abs(brk.gap_lnP) > math.log1p(
+            s["min_jump_percent"] / 100):
+        return None
+    Ts = T[brk.order]
+    split = _refine_split(Ts, P[brk.order], brk.split, m)
+    _, p_curve = _kink_beyond_curvature(Ts, P[brk.order], split, brk.n_tested)
+    if not p_curve < s["alpha"]:
+        return None
+    sources = [p.source for p, k in zip(data.points, kept) if k]
+    if len({x for x in sources if x}) >= 2:
+        step = _step_beyond_smooth_curves(T, P, u_T, u_P, sources, m)
+        if not (step["step_p_adjusted"] < s["alpha"] and step["step_dH_J_per_mol"] < 0):
+            return None
+    T_break = brk.T_break if split == brk.split else 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
+    return T_break, _describe(brk, T_break)
 
 
 def _describe(brk, T_break: float) -> str:

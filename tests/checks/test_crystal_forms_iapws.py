@@ -66,3 +66,43 @@ def test_two_forms_under_one_solid_label_bend_one_curve(tmp_path, default_profil
     res = run_audit(read_table(_table(tmp_path, ("cr", "cr", "liquid"))), default_profile)
     assert res.transitions == ()
     assert next(c for c in res.checks if c.id == "solid-transition").status == "skipped"
+
+
+def _unlabelled(tmp_path, seed=1, second_form=True):
+    path = _table(tmp_path, ("", "", ""), seed)
+    text = path.read_text(encoding="utf-8").replace("T/K,P/Pa,phase", "T/K,P/Pa").replace(",\n", "\n")
+    if not second_form:  # form II's rows replaced by ice Ih itself: one solid form
+        lines = text.splitlines()
+        rows = [ln.split(",") for ln in lines[1:]]
+        for r in rows[:9]:
+            r[1] = f"{iapws_sublimation_pressure([float(r[0])])[0]:.6g}"
+        text = "\n".join([lines[0]] + [",".join(r) for r in rows]) + "\n"
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_an_unlabelled_second_crystal_form_is_found_below_the_known_triple_point(tmp_path, seed):
+    # no phase column; water named, so its triple point splits solid from liquid, and the solid
+    # rows break again at 240 K, where the synthetic form II meets ice Ih
+    from audit.cli import audit_file
+
+    _, _, res = audit_file(str(_unlabelled(tmp_path, seed)), substance="water")
+    split = next(c for c in res.checks if c.id == "branch-split")
+    # within one spacing of the rows (3.4 K): next to the transition both forms' pressures agree,
+    # so the neighbouring row may fall on either side
+    assert abs(split.metrics["T_transition_K"] - T_TRS) < 3.5, split.message
+    (t,) = res.transitions
+    assert abs(t.T_K - T_TRS) < 3 * t.u_T_K + 0.3
+    assert t.dH_J_per_mol == pytest.approx(DH_TRS, abs=3 * t.u_dH_J_per_mol + 100)
+    assert abs(res.triple_point.T_K - 273.16) < 3 * res.triple_point.u_T_K + 0.1
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_one_unlabelled_solid_form_is_not_split_in_two(tmp_path, seed):
+    # the same rows with ice Ih all the way down: its own curvature is no transition
+    from audit.cli import audit_file
+
+    _, _, res = audit_file(str(_unlabelled(tmp_path, seed, second_form=False)), substance="water")
+    assert res.transitions == ()
+    assert {p.phase for p in res.points} == {"solid", "liquid"}

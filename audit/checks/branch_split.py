@@ -177,8 +177,14 @@ class BranchSplit(Check):
                            phase_basis=basis)
 
     def _by_known_triple_point(self, unlabelled, labelled, known, s):
-        """Unlabelled rows below the known triple-point temperature are solid, the others liquid."""
+        """Unlabelled rows below the known triple-point temperature are solid, the others liquid.
+
+        A side holding only a few rows that are all gross errors against the
+        whole set (a kelvin value in a °C column puts an ice row at 510 K) is
+        no branch: those rows join the other side, where a fit judges them.
+        """
         inferred = {p.row: ("solid" if p.T_K < known.T_K else "liquid") for p in unlabelled}
+        inferred = _lone_gross_rows_joined(unlabelled, inferred, s["min_points_per_side"])
         n_s = sum(1 for v in inferred.values() if v == "solid")
         n_l = len(inferred) - n_s
         sides = " and ".join(t for t in (f"{n_s} solid (below)" if n_s else "",
@@ -200,6 +206,22 @@ class BranchSplit(Check):
             status = s.severity
         return CheckResult(self.id, self.title, status, message, metrics, phase_inferred=inferred,
                            phase_basis=basis)
+
+
+def _lone_gross_rows_joined(points, inferred: dict, few: int) -> dict:
+    """Rows of a side with fewer than `few` rows, all gross errors, take the other side's phase."""
+    sides = {ph: [p for p in points if inferred[p.row] == ph] for ph in set(inferred.values())}
+    if len(sides) != 2:
+        return inferred
+    small, large = sorted(sides, key=lambda ph: len(sides[ph]))
+    if len(sides[small]) >= few or len(sides[large]) < few:
+        return inferred
+    pts = sorted(points, key=lambda p: p.T_K)
+    kept = _without_gross_errors(np.array([p.T_K for p in pts]), np.array([p.P_Pa for p in pts]))
+    gross = {p.row for p, k in zip(pts, kept) if not k}
+    if not all(p.row in gross for p in sides[small]):
+        return inferred
+    return {r: (large if ph == small else ph) for r, ph in inferred.items()}
 
 
 def _name_forms(inferred: dict, T_of_row: dict, T_transition: float) -> dict:

@@ -246,3 +246,23 @@ def test_a_celsius_value_below_zero_in_a_kelvin_column_gets_its_cause(tmp_path, 
     assert row.cause is not None and row.cause.kind == "temperature-unit", row.flags
     assert row.cause.suggested_T_K == pytest.approx(250.0, abs=1e-9)
     assert [p.row for p in res.points if p.status != "ok"] == [6]
+
+
+def test_a_kelvin_value_in_a_celsius_column_of_unlabelled_ice_is_judged_with_the_ice(tmp_path, default_profile):
+    # ice Ih 230-270 K (IAPWS R14-08 through iapws), °C column, no phase column, water named;
+    # row 6 printed as its kelvin value (250.00 in the °C column reads 523.15 K, above the triple
+    # point): it must not become a one-row "liquid" branch that no fit judges
+    from audit.cli import audit_file
+    from tests.conftest import iapws_sublimation_pressure
+
+    T = np.linspace(230.0, 270.0, 11)
+    P = iapws_sublimation_pressure(T)
+    lines = ["t/°C,P/Pa"] + [f"{t if k == 5 else t - 273.15:.2f},{p:.5g}" for k, (t, p) in enumerate(zip(T, P))]
+    path = tmp_path / "ice_celsius.csv"
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    _, _, res = audit_file(str(path), substance="water")
+    row = res.points[5]
+    assert row.status == "reject" and row.phase == "solid"
+    assert row.cause is not None and row.cause.kind == "temperature-unit"
+    assert row.cause.suggested_T_K == pytest.approx(250.0, abs=1e-9)
+    assert {p.phase for p in res.points} == {"solid"}

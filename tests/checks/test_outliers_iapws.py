@@ -266,3 +266,25 @@ def test_a_kelvin_value_in_a_celsius_column_of_unlabelled_ice_is_judged_with_the
     assert row.cause is not None and row.cause.kind == "temperature-unit"
     assert row.cause.suggested_T_K == pytest.approx(250.0, abs=1e-9)
     assert {p.phase for p in res.points} == {"solid"}
+
+
+def test_a_liquid_row_labelled_solid_above_the_triple_point_gets_a_phase_label_cause(tmp_path, default_profile):
+    # ice Ih 240-272 K (IAPWS R14-08) and liquid water 274-330 K (IAPWS-95), labelled; the row at
+    # 300 K is labelled "solid": physical-range rejects it (a solid above the triple point), and as
+    # printed it lies on the liquid curve, so triple-point names the label as its cause
+    from audit.ingest import read_table
+    from tests.conftest import iapws_saturation_pressure, iapws_sublimation_pressure
+
+    Ti, Tl = np.linspace(240.0, 272.0, 9), np.linspace(274.0, 330.0, 12)
+    rows = [(t, p, "solid") for t, p in zip(Ti, iapws_sublimation_pressure(Ti))]
+    rows += [(t, p, "solid" if abs(t - 299.45) < 1 else "liquid") for t, p in zip(Tl, iapws_saturation_pressure(Tl))]
+    path = tmp_path / "labels.csv"
+    path.write_text("T/K,P/Pa,phase\n" + "".join(f"{t:.2f},{p:.6g},{ph}\n" for t, p, ph in rows), encoding="utf-8")
+    # the metadata file beside the table gives the triple point, so physical-range sets the row aside
+    (tmp_path / "labels.toml").write_text('[constants]\nT_triple = { value = 273.16, unit = "K", '
+                                          'source = "IAPWS R10-06(2009)" }\n', encoding="utf-8")
+    res = run_audit(read_table(path), default_profile, audited_at="2024-01-01T00:00:00Z")
+    bad = [p for p in res.points if p.status == "reject"]
+    assert [round(p.T_K, 2) for p in bad] == [299.45]
+    assert any(f.check == "physical-range" for f in bad[0].flags)
+    assert bad[0].cause is not None and bad[0].cause.kind == "phase-label", bad[0].flags

@@ -28,7 +28,7 @@ from .hypotheses import Hypothesis, all_hypotheses
 
 __all__ = ["ScoredHypothesis", "Diagnosis", "score_hypotheses", "diagnose_point"]
 
-#: readings that multiply the printed pressure by a factor
+#: kinds of reading that multiply the printed pressure by a factor (decimal shifts of P only)
 _FACTOR_ON_P = ("pressure-unit", "decimal-shift")
 
 
@@ -60,7 +60,8 @@ class Diagnosis:
     best: ScoredHypothesis | None
     ranked: tuple[ScoredHypothesis, ...]
     reason: str
-    #: readings of the same kind that fit about as well as the best (its value is uncertain between them)
+    #: readings that multiply P by another factor and fit about as well as the best (the value is
+    #: uncertain between them, not the cause)
     alternatives: tuple[ScoredHypothesis, ...] = ()
 
     def explanation(self) -> str:
@@ -157,7 +158,7 @@ def diagnose_point(point: Point, z_of: Callable[[float, float], float], k: float
     rivals = tuple(x for x in scored[1:] if abs(x.z_after) < ratio * max(abs(best.z_after), 1.0))
     close = (best,) + rivals
     units = [x for x in close if x.hypothesis.kind == "pressure-unit" and abs(x.z_after) <= k]
-    if rivals and units and all(x.hypothesis.kind in _FACTOR_ON_P for x in close):
+    if rivals and units and all(x.hypothesis.kind in _FACTOR_ON_P and x.hypothesis.quantity == "P" for x in close):
         # every close reading multiplies P by a factor, and one of them is a unit: the cause is a unit
         # slip (preferred to a misplaced decimal point that fits as well); its size is what is uncertain
         chosen = units[0]

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -79,8 +80,6 @@ class BranchSplit(Check):
     }
 
     def run(self, ctx):
-        from ..thermo.triple_point import find_slope_break
-
         s = ctx.settings(self.id)
         unlabelled = sorted((p for p in ctx.usable() if p.phase == "unknown"), key=lambda p: (p.T_K, p.row))
         labelled = [p for p in ctx.usable() if p.phase != "unknown"]
@@ -95,28 +94,15 @@ class BranchSplit(Check):
         m = s["min_points_per_side"]
         if len(unlabelled) < 2 * m:
             return skipped(self, f"{len(unlabelled)} unlabelled rows; a break needs {m} on each side")
-        data = points_data("unknown", unlabelled)
-        every = list(data.points)
-        # a gross error (a °C value in a kelvin column, a block in another unit) drags a
-        # least-squares break anywhere: the search runs on the rows a robust line keeps
-        kept = _without_gross_errors(data.T, data.P)
-        if kept.sum() < 2 * m:
-            return skipped(self, f"{int(kept.sum())} unlabelled rows without gross errors; a break needs {m} "
+        every = sorted(unlabelled, key=lambda p: (p.T_K, p.row))
+        j = _judge_break(every, s, s["min_dH_ratio"])
+        brk, metrics = j.slope_break, j.metrics
+        if j.outcome == "too few rows":
+            return skipped(self, f"{j.n_kept} unlabelled rows without gross errors; a break needs {m} "
                                  "on each side")
-        unlabelled = [p for p, k in zip(every, kept) if k]
-        T, P = data.T[kept], data.P[kept]
-        u_T = None if data.u_T is None else data.u_T[kept]
-        u_P = None if data.u_P is None else data.u_P[kept]
-        try:
-            brk = find_slope_break(T, P, min_points_per_side=m, u_T=u_T, u_P=u_P)
-        except ValueError as exc:
-            return skipped(self, f"no slope break could be tested: {exc}")
-        ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")
-        metrics = {"T_break_K": brk.T_break, "p_value_adjusted": brk.p_value_adjusted, "F": brk.F,
-                   "dH_low_J_per_mol": brk.dH_low, "dH_high_J_per_mol": brk.dH_high, "dH_ratio": ratio,
-                   "gap_lnP": brk.gap_lnP, "u_gap_lnP": brk.u_gap_lnP}
-        if (brk.p_value_adjusted < s["alpha"] and not abs(brk.gap_lnP) <= s["max_gap_sigma"] * brk.u_gap_lnP
-                and abs(brk.gap_lnP) > math.log1p(s["min_jump_percent"] / 100)):
+        if j.outcome == "untestable":
+            return skipped(self, f"no slope break could be tested: {j.error}")
+        if j.outcome == "level jump":
             # not a phase change whatever the slopes say: the pressure jumps at the break
             return CheckResult(self.id, self.title, s.severity,
                                f"one branch with a level jump: at {brk.T_break:.2f} K the pressure changes by a "
@@ -125,37 +111,23 @@ class BranchSplit(Check):
                                "not a phase change (which keeps "
                                "P continuous) but rows of another compound or in another unit on one side; "
                                "phases left unknown", metrics)
-        accepted = (brk.p_value_adjusted < s["alpha"] and brk.solid_side_steeper
-                    and ratio >= s["min_dH_ratio"])
-        if not accepted:
-            desc = _describe(brk, brk.T_break)
-            why = ("not significant" if brk.p_value_adjusted >= s["alpha"] else
+        if j.outcome in ("not significant", "not steep"):
+            why = ("not significant" if j.outcome == "not significant" else
                    "the low-temperature side is not steep enough to be a solid")
             return CheckResult(self.id, self.title, "pass",
-                               f"one branch: best {desc} — {why} (limits p < {s['alpha']}, "
+                               f"one branch: best {_describe(brk, brk.T_break)} — {why} (limits p < {s['alpha']}, "
                                f"ratio ≥ {s['min_dH_ratio']})", metrics)
-        Ts = T[brk.order]
-        split = _refine_split(Ts, P[brk.order], brk.split, m)
-        F, p_curve = _kink_beyond_curvature(Ts, P[brk.order], split, brk.n_tested)
-        metrics.update({"F_vs_one_curve": F, "p_vs_one_curve_adjusted": p_curve})
-        if not p_curve < s["alpha"]:
+        if j.outcome == "curvature":
             return CheckResult(self.id, self.title, "pass",
                                f"one branch: the best {_describe(brk, brk.T_break)} is explained by the "
-                               f"curvature of a single curve (constant ΔCp; adjusted p = {p_curve:.2g} ≥ "
-                               f"{s['alpha']})", metrics)
-        sources = [p.source for p in unlabelled]
-        if len({x for x in sources if x}) >= 2:
-            step = _step_beyond_smooth_curves(T, P, u_T, u_P, sources, m)
-            metrics.update(step)
-            if not (step["step_p_adjusted"] < s["alpha"] and step["step_dH_J_per_mol"] < 0):
-                return CheckResult(self.id, self.title, "pass",
-                                   f"one branch: the best {_describe(brk, brk.T_break)} is no drop of ΔH "
-                                   "beyond a smooth curve once each source has its own level and weight "
-                                   f"(adjusted p = {step['step_p_adjusted']:.2g}, limit {s['alpha']})", metrics)
-        T_break = brk.T_break
-        if split != brk.split:  # midpoint in 1/T of the refined neighbours
-            T_break = 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
-            metrics.update({"T_break_K": T_break, "T_break_two_lines_K": brk.T_break})
+                               f"curvature of a single curve (constant ΔCp; adjusted p = "
+                               f"{metrics['p_vs_one_curve_adjusted']:.2g} ≥ {s['alpha']})", metrics)
+        if j.outcome == "no step":
+            return CheckResult(self.id, self.title, "pass",
+                               f"one branch: the best {_describe(brk, brk.T_break)} is no drop of ΔH "
+                               "beyond a smooth curve once each source has its own level and weight "
+                               f"(adjusted p = {metrics['step_p_adjusted']:.2g}, limit {s['alpha']})", metrics)
+        T_break = j.T_break
         desc = _describe(brk, T_break)
         # every unlabelled row, kept for the search or not, takes the side of the break it lies on
         inferred = {p.row: ("solid" if p.T_K < T_break else "liquid") for p in every}
@@ -233,47 +205,96 @@ def _name_forms(inferred: dict, T_of_row: dict, T_transition: float) -> dict:
 def _second_crystal_form(points, s) -> tuple[float, str] | None:
     """A transition between two crystal forms among unlabelled solid rows: (T [K], description) or None.
 
-    The same tests as a solid/liquid break, with a smaller least ratio of
-    the two sides' enthalpies (``min_transition_dH_ratio``: an enthalpy of
-    transition is a few percent of the enthalpy of sublimation): a break in
-    slope significant at ``alpha``, the low-temperature side steeper,
-    pressure continuous across it, beyond the curvature of one curve and, in
-    a compilation, a drop of ΔH beyond smooth curves with a level per source.
+    The same tests as a solid/liquid break (:func:`_judge_break`), with a
+    smaller least ratio of the two sides' enthalpies
+    (``min_transition_dH_ratio``: an enthalpy of transition is a few percent
+    of the enthalpy of sublimation).
+    """
+    if len(points) < 2 * s["min_points_per_side"]:
+        return None
+    j = _judge_break(sorted(points, key=lambda p: (p.T_K, p.row)), s, s["min_transition_dH_ratio"])
+    if j.outcome != "break":
+        return None
+    return j.T_break, _describe(j.slope_break, j.T_break)
+
+
+@dataclass(frozen=True)
+class BreakJudgement:
+    """What :func:`_judge_break` found.
+
+    ``outcome`` is the first test the best break failed — ``'too few rows'``
+    (without gross errors), ``'untestable'`` (``error`` says why), ``'level
+    jump'``, ``'not significant'``, ``'not steep'``, ``'curvature'``, ``'no
+    step'`` — or ``'break'`` when it passed them all; ``T_break`` [K] is then
+    where it lies (after the sides' curves refined the split).
+    """
+
+    outcome: str
+    slope_break: object = None
+    T_break: float = math.nan
+    metrics: dict = field(default_factory=dict)
+    n_kept: int = 0
+    error: str = ""
+
+
+def _judge_break(points, s, min_ratio: float) -> BreakJudgement:
+    """The tests a slope break among unlabelled rows must pass to be a phase change.
+
+    On the rows that are not gross errors (:func:`_without_gross_errors`):
+    the best two-line break, significant at ``alpha``; the pressure
+    continuous across it (else a level jump); the low-temperature side
+    steeper by at least `min_ratio`; beyond the curvature of one curve; and,
+    when the rows name two sources or more, a drop of ΔH beyond smooth curves
+    with a level and weight per source.  `points` are sorted by T.
     """
     from ..thermo.triple_point import find_slope_break
 
     m = s["min_points_per_side"]
-    if len(points) < 2 * m + 1:
-        return None
-    data = points_data("solid", points)
+    data = points_data("unknown", points)
     kept = _without_gross_errors(data.T, data.P)
-    if kept.sum() < 2 * m + 1:
-        return None
+    n_kept = int(kept.sum())
+    if n_kept < 2 * m:
+        return BreakJudgement("too few rows", n_kept=n_kept)
     T, P = data.T[kept], data.P[kept]
     u_T = None if data.u_T is None else data.u_T[kept]
     u_P = None if data.u_P is None else data.u_P[kept]
     try:
         brk = find_slope_break(T, P, min_points_per_side=m, u_T=u_T, u_P=u_P)
-    except ValueError:
-        return None
+    except ValueError as exc:
+        return BreakJudgement("untestable", n_kept=n_kept, error=str(exc))
     ratio = brk.dH_low / brk.dH_high if brk.dH_high > 0 else float("nan")
-    if not (brk.p_value_adjusted < s["alpha"] and brk.solid_side_steeper and ratio >= s["min_transition_dH_ratio"]):
-        return None
-    if abs(brk.gap_lnP) > s["max_gap_sigma"] * brk.u_gap_lnP and abs(brk.gap_lnP) > math.log1p(
-            s["min_jump_percent"] / 100):
-        return None
+    metrics = {"T_break_K": brk.T_break, "p_value_adjusted": brk.p_value_adjusted, "F": brk.F,
+               "dH_low_J_per_mol": brk.dH_low, "dH_high_J_per_mol": brk.dH_high, "dH_ratio": ratio,
+               "gap_lnP": brk.gap_lnP, "u_gap_lnP": brk.u_gap_lnP}
+
+    def judged(outcome, T_break=math.nan):
+        return BreakJudgement(outcome, brk, T_break, metrics, n_kept)
+
+    significant = brk.p_value_adjusted < s["alpha"]
+    if (significant and not abs(brk.gap_lnP) <= s["max_gap_sigma"] * brk.u_gap_lnP
+            and abs(brk.gap_lnP) > math.log1p(s["min_jump_percent"] / 100)):
+        return judged("level jump")
+    if not significant:
+        return judged("not significant")
+    if not (brk.solid_side_steeper and ratio >= min_ratio):
+        return judged("not steep")
     Ts = T[brk.order]
     split = _refine_split(Ts, P[brk.order], brk.split, m)
-    _, p_curve = _kink_beyond_curvature(Ts, P[brk.order], split, brk.n_tested)
+    F, p_curve = _kink_beyond_curvature(Ts, P[brk.order], split, brk.n_tested)
+    metrics.update({"F_vs_one_curve": F, "p_vs_one_curve_adjusted": p_curve})
     if not p_curve < s["alpha"]:
-        return None
+        return judged("curvature")
     sources = [p.source for p, k in zip(data.points, kept) if k]
     if len({x for x in sources if x}) >= 2:
         step = _step_beyond_smooth_curves(T, P, u_T, u_P, sources, m)
+        metrics.update(step)
         if not (step["step_p_adjusted"] < s["alpha"] and step["step_dH_J_per_mol"] < 0):
-            return None
-    T_break = brk.T_break if split == brk.split else 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
-    return T_break, _describe(brk, T_break)
+            return judged("no step")
+    T_break = brk.T_break
+    if split != brk.split:  # midpoint in 1/T of the refined neighbours
+        T_break = 2.0 / (1.0 / Ts[split - 1] + 1.0 / Ts[split])
+        metrics.update({"T_break_K": T_break, "T_break_two_lines_K": brk.T_break})
+    return judged("break", T_break)
 
 
 def _describe(brk, T_break: float) -> str:

@@ -161,6 +161,32 @@ def real_gas_model(ctx: AuditContext, branch: str):
             f"second virial coefficient of Tsonopoulos, class '{kind}': {why}")
 
 
+def corrected_crossing(ctx: AuditContext, low_branch: str, low_fit, high_branch: str, high_fit):
+    """(estimate, notes): where two branches' fits cross, real-gas corrected where the constants allow.
+
+    :func:`audit.thermo.triple_point.intersect_branches` of the fits, done
+    again with Δz of each branch at the crossing when either has a real-gas
+    model; ``notes`` says, per branch without one, why (the enthalpies stay
+    apparent there).  Used for the triple point (solid, liquid) and for a
+    transition between two crystal forms (low-T form, high-T form).
+    """
+    from ..thermo.triple_point import intersect_branches
+
+    est = intersect_branches(low_fit, high_fit)
+    notes = []
+    if not est.crossed:
+        return est, notes
+    dz = []
+    for branch in (low_branch, high_branch):
+        model, why = real_gas_model(ctx, branch)
+        if model is None:
+            notes.append(f"{branch}: {why}")
+        dz.append(float(model.evaluate(est.T, est.P).delta_z[0]) if model is not None else 1.0)
+    if dz != [1.0, 1.0]:
+        est = intersect_branches(low_fit, high_fit, delta_z_solid=dz[0], delta_z_liquid=dz[1])
+    return est, notes
+
+
 def implied(ctx: AuditContext, branch: str, T, P=None):
     """ImpliedEnthalpy of a branch's recommended fit at T (corrected when possible)."""
     from ..thermo.enthalpy import implied_enthalpy

@@ -83,8 +83,7 @@ class EnthalpyContinuity(Check):
             used = fit.weights > 0
             T, P = data.T[used], data.P[used]
             rows = np.array(data.rows)
-            # σ of ln P as the fit of record weighed each point (its scale applied)
-            sig = fit.sigma_lnP * (fit.scale if fit.scale_estimated else 1.0)
+            sig = fit.sigma_lnP_scaled
             sources = [p.source or "" for p in data.points]
             n_T = distinct_temperatures(T)
             if n_T < s["window"] + 1:

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from ..model import crystal_form_of, is_solid
 from ..results import CheckResult, TransitionRecord
-from ._fits import real_gas_model, recommended
+from ._fits import corrected_crossing, recommended
 from ._util import skipped
 from .registry import Check, Option, register
 
@@ -52,8 +52,6 @@ class SolidTransition(Check):
     }
 
     def run(self, ctx):
-        from ..thermo.triple_point import intersect_branches
-
         s = ctx.settings(self.id)
         forms = [b for b in ctx.branches() if is_solid(b) and crystal_form_of(b)]
         if len(forms) < 2:
@@ -69,14 +67,7 @@ class SolidTransition(Check):
         fitted.sort()
         texts, problems, records, metrics, failed = [], [], [], {}, False
         for (lo_min, lo_max, low, fit_low), (hi_min, hi_max, high, fit_high) in zip(fitted, fitted[1:]):
-            est = intersect_branches(fit_low, fit_high)
-            if est.crossed:
-                dz = []
-                for b in (low, high):
-                    model, _ = real_gas_model(ctx, b)
-                    dz.append(float(model.evaluate(est.T, est.P).delta_z[0]) if model is not None else 1.0)
-                if dz != [1.0, 1.0]:
-                    est = intersect_branches(fit_low, fit_high, delta_z_solid=dz[0], delta_z_liquid=dz[1])
+            est, _ = corrected_crossing(ctx, low, fit_low, high, fit_high)
             a, b = crystal_form_of(low), crystal_form_of(high)
             name = f"{a} → {b}"  # on heating: the low-temperature form turns into the other
             junction = (lo_max, hi_min)

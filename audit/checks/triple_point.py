@@ -7,7 +7,7 @@ import math
 import numpy as np
 
 from ..results import Cause, CheckResult, PointFlag, TriplePointRecord
-from ._fits import known_triple_point, real_gas_model, recommended, solid_meeting_liquid
+from ._fits import corrected_crossing, known_triple_point, recommended, solid_meeting_liquid
 from ._util import skipped
 from .registry import Check, Option, register
 
@@ -69,8 +69,6 @@ class TriplePoint(Check):
     }
 
     def run(self, ctx):
-        from ..thermo.triple_point import intersect_branches
-
         s = ctx.settings(self.id)
         branches = ctx.branches()
         solid = solid_meeting_liquid(ctx, branches)
@@ -82,19 +80,7 @@ class TriplePoint(Check):
         nmin = s["min_points_per_branch"]
         if cs is None or cl is None or ds.n < nmin or dl.n < nmin:
             return skipped(self, f"too few points: {ds.n} solid, {dl.n} liquid (at least {nmin} each)")
-        est = intersect_branches(cs.chosen, cl.chosen)
-        notes = []
-        if est.crossed:
-            dz_s, dz_l = 1.0, 1.0
-            for branch in (solid, "liquid"):
-                model, why = real_gas_model(ctx, branch)
-                if model is not None:
-                    dz = float(model.evaluate(est.T, est.P).delta_z[0])
-                    dz_s, dz_l = (dz, dz_l) if branch == solid else (dz_s, dz)
-                else:
-                    notes.append(f"{branch}: {why}")
-            if (dz_s, dz_l) != (1.0, 1.0):
-                est = intersect_branches(cs.chosen, cl.chosen, delta_z_solid=dz_s, delta_z_liquid=dz_l)
+        est, notes = corrected_crossing(ctx, solid, cs.chosen, "liquid", cl.chosen)
         junction = (float(ds.T.max()), float(dl.T.min()))
         lo, hi = min(junction) - s["crossing_margin_K"], max(junction) + s["crossing_margin_K"]
         causes, flags, point_status = self._phase_labels(ctx, cs.chosen, cl.chosen, s, solid)

@@ -584,10 +584,10 @@ def window_departures(fit, window: int = 5, groups=None) -> WindowDepartures:
     replicate at them) *within one group* — one source of a compilation, so
     that two series' levels never make a slope — and is fitted with the
     straight line ln P = a + b/T weighted by the σ the fit itself used
-    (``fit.sigma_lnP``, times the fit's residual scale when it estimated
-    one).  Those σ are taken as known: a window of five points has only
-    three degrees of freedom, and a scale estimated from them ranges over a
-    factor of ten by chance (and is zero for values printed alike).
+    (``fit.sigma_lnP_scaled``).  Those σ are taken as known: a window of
+    five points has only three degrees of freedom, and a scale estimated
+    from them ranges over a factor of ten by chance (and is zero for values
+    printed alike).
 
     Both the local and the smooth enthalpy are linear in the same ln P, so
     the variance of their difference is
@@ -631,7 +631,7 @@ def window_departures(fit, window: int = 5, groups=None) -> WindowDepartures:
         raise ValueError("local windows need at least 3 temperatures")
     T = np.asarray(fit.T, float)
     y = np.log(np.asarray(fit.P, float))
-    sig = np.asarray(fit.sigma_lnP, float) * (float(fit.scale) if fit.scale_estimated else 1.0)
+    sig = np.asarray(fit.sigma_lnP_scaled, float)
     used = (np.asarray(fit.weights, float) > 0) & np.isfinite(sig) & (sig > 0)
     labels = np.asarray([""] * T.size if groups is None else [str(g) for g in groups], dtype=object)
     if labels.size != T.size:

@@ -158,6 +158,11 @@ class VaporPressureFit:
         return len(self.params)
 
     @property
+    def sigma_lnP_scaled(self) -> np.ndarray:
+        """σ of ln P per point as the covariance counts it: ``sigma_lnP``, times the scale when estimated."""
+        return self.sigma_lnP * (self.scale if self.scale_estimated else 1.0)
+
+    @property
     def standardized_residuals(self) -> np.ndarray:
         """Residuals divided by σ and by the scale (about N(0, 1) for good points)."""
         s = self.scale if (self.scale_estimated and self.scale > 0) else 1.0

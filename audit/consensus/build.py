@@ -583,40 +583,37 @@ class _BranchAnalysis:
         takes the median scale and offset of the judged points of its source
         (of every judged point when the source has none here).
         """
-        eq = self.fit.equation
         own = self.src == (source or "") if source else np.zeros(self.src.size, bool)
         idx = np.flatnonzero(own) if own.any() else np.arange(self.src.size)
         sig = float(np.median(self.sigma[idx]))
-        off = float(np.median(self.offsets[idx]))
-        T_lo, T_hi = judgeable_range(self.fit)
-
-        def z(T_K, P_Pa):
-            if not (T_K > 0 and P_Pa > 0) or not (T_lo <= T_K <= T_hi) or not sig > 0:
-                return math.nan
-            try:
-                return (math.log(P_Pa) - float(eq.ln_p(np.array([T_K]))[0]) - off) / sig
-            except ValueError:  # e.g. a reduced (Wagner) form asked above Tc
-                return math.nan
-        return z
+        if not sig > 0:
+            return lambda T_K, P_Pa: math.nan
+        return self._z_function(float(np.median(self.offsets[idx])), lambda T_K: sig)
 
     def z_of(self, i):
         """Standardized residual (T, P) -> z of a corrected reading of point i."""
         eq = self.fit.equation
-        off = self.offsets[i]
         rel = self.rel[i]
         uT = self.uT_eff[i]
         base_sigma = self.sigma[i] / max(self.sigma_raw[i], 1e-300)  # the scale applied to point i
+
+        # the point's own relative u(P) carries over; the rounding floor of a
+        # corrected value is taken as that of the printed one
+        def sigma_at(T_K):
+            return math.sqrt(rel ** 2 + (float(eq.dlnp_dT(np.array([T_K]))[0]) * uT) ** 2) * base_sigma
+        return self._z_function(self.offsets[i], sigma_at)
+
+    def _z_function(self, offset_lnP, sigma_at):
+        """(T, P) -> (ln P − ln P_fit(T) − offset)/σ(T); NaN where the fit cannot judge a reading."""
+        eq = self.fit.equation
         # a corrected temperature far outside the fitted range cannot be judged
         T_lo, T_hi = judgeable_range(self.fit)
 
         def z(T_K, P_Pa):
             if not (T_K > 0 and P_Pa > 0) or not (T_lo <= T_K <= T_hi):
                 return math.nan
-            # the point's own relative u(P) carries over; the rounding floor of a
-            # corrected value is taken as that of the printed one
             try:
-                sig = math.sqrt(rel ** 2 + (float(eq.dlnp_dT(np.array([T_K]))[0]) * uT) ** 2) * base_sigma
-                return (math.log(P_Pa) - float(eq.ln_p(np.array([T_K]))[0]) - off) / sig
+                return (math.log(P_Pa) - float(eq.ln_p(np.array([T_K]))[0]) - offset_lnP) / sigma_at(T_K)
             except ValueError:  # e.g. a reduced (Wagner) form asked above Tc
                 return math.nan
         return z

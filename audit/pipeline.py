@@ -133,6 +133,7 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
             phase_basis=ctx.phase_basis.get(p.row) if p.phase == "unknown" else None,
             deviation_percent=products.deviation_percent.get(p.row),
             u_percent=products.u_percent.get(p.row),
+            source_offset_percent=products.offset_percent.get(p.row),
             reference_deviation_percent=products.reference_deviation_percent.get(p.row),
         ))
     return AuditResult(
@@ -146,6 +147,7 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
         points=tuple(points),
         fits=products.fits,
         enthalpy=products.enthalpy,
+        enthalpy_table=products.enthalpy_table,
         sources=products.sources,
         triple_point=products.triple_point,
         transitions=products.transitions,

@@ -97,6 +97,17 @@ class PointVerdict:
     reference_deviation_percent: float | None = None
     #: what an inferred phase was inferred from (None when the input labelled the row)
     phase_basis: str | None = None
+    #: the offset of the point's source that the consensus removed before judging it,
+    #: 100·(exp(Δln P) − 1) [%]; 0 when its source is not off, None when not judged
+    source_offset_percent: float | None = None
+
+    @property
+    def printed_deviation_percent(self) -> float | None:
+        """100·(P − P_fit)/P_fit of the point as printed, its source's offset not removed [%]."""
+        if self.deviation_percent is None:
+            return None
+        off = self.source_offset_percent or 0.0
+        return 100.0 * ((1 + self.deviation_percent / 100) * (1 + off / 100) - 1)
 
     def to_dict(self) -> dict:
         branch = _branch_fields(self.phase)
@@ -105,6 +116,10 @@ class PointVerdict:
              "flags": [f.to_dict() for f in self.flags],
              "cause": None if self.cause is None else self.cause.to_dict(),
              "residual_sigma": _num(self.residual_sigma)}
+        if self.deviation_percent is not None:
+            d["deviation_percent"] = _num(self.deviation_percent)
+            d["source_offset_percent"] = _num(self.source_offset_percent)
+            d["u_percent"] = _num(self.u_percent)
         if self.phase_inferred:
             d["phase_inferred_from"] = self.phase_basis or "the audit"
         if "crystal_form" in branch:
@@ -128,6 +143,22 @@ class FitRecord:
     #: the fitted equation object, for plotting (not serialised)
     model: Any = field(default=None, compare=False, repr=False)
 
+    @property
+    def correlation(self) -> tuple[tuple[float, ...], ...]:
+        """The parameters' correlation matrix, from ``covariance`` [-] (NaN where a variance is not positive)."""
+        cov = self.covariance
+        sd = [math.sqrt(cov[i][i]) if cov[i][i] is not None and cov[i][i] > 0 else math.nan
+              for i in range(len(cov))]
+        return tuple(tuple(cov[i][j] / (sd[i] * sd[j]) for j in range(len(cov))) for i in range(len(cov)))
+
+    def strongest_correlation(self) -> tuple[str, str, float] | None:
+        """The pair of parameters most strongly correlated, with their coefficient, or None."""
+        names = list(self.parameters)
+        r = self.correlation
+        pairs = [(names[i], names[j], r[i][j]) for i in range(len(r)) for j in range(i + 1, len(r))
+                 if i < len(names) and j < len(names) and math.isfinite(r[i][j])]
+        return max(pairs, key=lambda t: abs(t[2])) if pairs else None
+
     def to_dict(self) -> dict:
         d = {**_branch_fields(self.branch), "equation": self.equation,
              "parameters": _jsonable(dict(self.parameters)),
@@ -149,13 +180,19 @@ class EnthalpyValue:
     real_gas_corrected: bool
     dH_apparent_J_per_mol: float | None = None
     delta_z: float | None = None
+    #: why this temperature was chosen, for the condensed table ("round", "normal boiling
+    #: point", "triple point", "low end", "high end"); None for a data temperature
+    at: str | None = None
 
     def to_dict(self) -> dict:
-        return {**_branch_fields(self.branch), "T_K": _num(self.T_K), "dH_J_per_mol": _num(self.dH_J_per_mol),
-                "u_dH_J_per_mol": _num(self.u_dH_J_per_mol),
-                "real_gas_corrected": self.real_gas_corrected,
-                "dH_apparent_J_per_mol": _num(self.dH_apparent_J_per_mol),
-                "delta_z": _num(self.delta_z)}
+        d = {**_branch_fields(self.branch), "T_K": _num(self.T_K), "dH_J_per_mol": _num(self.dH_J_per_mol),
+             "u_dH_J_per_mol": _num(self.u_dH_J_per_mol),
+             "real_gas_corrected": self.real_gas_corrected,
+             "dH_apparent_J_per_mol": _num(self.dH_apparent_J_per_mol),
+             "delta_z": _num(self.delta_z)}
+        if self.at is not None:
+            d["at"] = self.at
+        return d
 
 
 @dataclass(frozen=True)
@@ -238,6 +275,9 @@ class AuditResult:
     notes: tuple[str, ...] = ()
     #: solid–solid transitions between crystal forms (findings ``transitions``)
     transitions: tuple[TransitionRecord, ...] = ()
+    #: the enthalpy at round temperatures, the normal boiling point, the triple point and
+    #: each branch's ends (findings ``enthalpy_table``; ``enthalpy`` keeps every data temperature)
+    enthalpy_table: tuple[EnthalpyValue, ...] = ()
     #: series prepared for plots (computed by the audit, only drawn by the report)
     plot_data: Mapping[str, Any] = field(default_factory=dict, compare=False, repr=False)
     #: "check-id: ExceptionType: message" for each check an unexpected exception stopped
@@ -298,6 +338,7 @@ class AuditResult:
             "notes": list(self.notes),
             "internal_errors": list(self.internal_errors),
             "transitions": [t.to_dict() for t in self.transitions],
+            "enthalpy_table": [e.to_dict() for e in self.enthalpy_table],
         }
 
 

@@ -24,6 +24,7 @@ from .results import EnthalpyValue, FitRecord, SourceAgreement, TriplePointRecor
 class Products:
     fits: tuple[FitRecord, ...] = ()
     enthalpy: tuple[EnthalpyValue, ...] = ()
+    enthalpy_table: tuple[EnthalpyValue, ...] = ()
     sources: tuple[SourceAgreement, ...] = ()
     triple_point: TriplePointRecord | None = None
     transitions: tuple = ()
@@ -31,6 +32,7 @@ class Products:
     plot_data: Mapping[str, Any] = field(default_factory=dict)
     deviation_percent: Mapping[int, float] = field(default_factory=dict)
     u_percent: Mapping[int, float] = field(default_factory=dict)
+    offset_percent: Mapping[int, float] = field(default_factory=dict)
     reference_deviation_percent: Mapping[int, float] = field(default_factory=dict)
 
 
@@ -57,6 +59,7 @@ def summarise(ctx: AuditContext) -> Products:
     fits: list[FitRecord] = []
     enthalpy: list[EnthalpyValue] = []
     notes: list[str] = []
+    table: list[EnthalpyValue] = []
     for branch in ctx.branches():
         choice, data = recommended(ctx, branch)
         if choice is None:
@@ -74,9 +77,11 @@ def summarise(ctx: AuditContext) -> Products:
                 branch=branch, T_K=float(T), dH_J_per_mol=float(h.dH[i]),
                 u_dH_J_per_mol=_finite(h.u_dH[i]), real_gas_corrected=corrected,
                 dH_apparent_J_per_mol=float(h.dH_apparent[i]), delta_z=float(h.delta_z[i])))
+        table.extend(_enthalpy_at_chosen_temperatures(ctx, branch, record.T_range_K))
     return Products(
         fits=tuple(fits),
         enthalpy=tuple(enthalpy),
+        enthalpy_table=tuple(table),
         sources=every_source(ctx, ctx.source_records),
         triple_point=ctx.triple_point,
         transitions=tuple(ctx.transitions),
@@ -84,8 +89,68 @@ def summarise(ctx: AuditContext) -> Products:
         plot_data=dict(ctx.plot_data),
         deviation_percent=dict(ctx.consensus.deviation_percent),
         u_percent=dict(ctx.consensus.u_percent),
+        offset_percent=dict(ctx.consensus.offset_percent),
         reference_deviation_percent=dict(ctx.reference_deviation_percent),
     )
+
+
+#: at most this many round temperatures per branch in the condensed enthalpy table
+ROUND_TEMPERATURES_PER_BRANCH = 6
+_ROUND_STEPS_K = (1.0, 2.0, 5.0, 10.0, 20.0, 25.0, 50.0, 100.0, 200.0, 500.0)
+
+
+def round_temperatures(T_lo: float, T_hi: float, most: int = ROUND_TEMPERATURES_PER_BRANCH) -> list[float]:
+    """Multiples of the smallest step of 1, 2, 5, 10, 20, 25, 50, … K that gives at most
+    ``most`` temperatures strictly inside (T_lo, T_hi) [K].
+
+    >>> round_temperatures(281.0, 353.2)
+    [300.0, 320.0, 340.0]
+    """
+    if not (math.isfinite(T_lo) and math.isfinite(T_hi) and 0 < T_lo < T_hi):
+        return []
+    for step in _ROUND_STEPS_K:
+        first, last = math.floor(T_lo / step) + 1, math.ceil(T_hi / step) - 1
+        if last - first + 1 <= most:
+            return [k * step for k in range(first, last + 1)]
+    return []
+
+
+def _enthalpy_at_chosen_temperatures(ctx: AuditContext, branch: str, T_range) -> list[EnthalpyValue]:
+    """The branch's enthalpy at its ends, at round temperatures between them, and at the
+    normal boiling point (liquid) or the triple point when they lie within its range."""
+    from .checks._fits import implied, known_triple_point
+
+    lo, hi = float(T_range[0]), float(T_range[1])
+    marks: dict[float, str] = {lo: "low end", hi: "high end"}
+    for T in round_temperatures(lo, hi):
+        marks.setdefault(T, "round")
+    # a landmark a little beyond the data (the triple point just below a liquid series)
+    # is still worth its value; farther out the curve is an extrapolation nobody should read
+    reach = max(2.0, 0.1 * (hi - lo))
+
+    def mark(T, name):
+        if T is None or not math.isfinite(T) or not (lo - reach <= T <= hi + reach):
+            return
+        marks[float(T)] = name if lo <= T <= hi else f"{name} (extrapolated)"
+
+    Tb = ctx.dataset.metadata.constants.get("T_boiling")
+    if branch == "liquid" and Tb is not None:
+        mark(Tb.value, "normal boiling point")
+    triple = ctx.triple_point.T_K if ctx.triple_point is not None else None
+    known = known_triple_point(ctx)
+    if triple is None and known is not None:
+        triple = known.T_K
+    if branch in ("liquid", "solid") or branch.startswith("solid "):
+        mark(triple, "triple point")
+    Ts = np.array(sorted(marks))
+    h, corrected, _ = implied(ctx, branch, Ts)
+    if h is None:
+        return []
+    return [EnthalpyValue(branch=branch, T_K=float(T), dH_J_per_mol=float(h.dH[i]),
+                          u_dH_J_per_mol=_finite(h.u_dH[i]), real_gas_corrected=corrected,
+                          dH_apparent_J_per_mol=float(h.dH_apparent[i]), delta_z=float(h.delta_z[i]),
+                          at=marks[float(T)])
+            for i, T in enumerate(Ts)]
 
 
 def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
@@ -116,7 +181,8 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         if rec is not None and rec.extra.get("cause"):  # a source-level diagnosis wins
             cause = rec.extra["cause"]
         counts = {"n_rows": len(rows), "n_reject": n_reject, "n_suspect": n_suspect,
-                  "n_unreadable": n_unreadable, "cause": cause}
+                  "n_unreadable": n_unreadable, "cause": cause,
+                  "scatter_percent": _own_scatter_percent(ctx, rows)}
         if rec is not None and "not_analysed" not in rec.extra:
             if _source_cause_reason(rec.extra.get("cause")) is not None:
                 reason = _source_cause_reason(rec.extra["cause"])
@@ -145,6 +211,17 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
         base = rec if rec is not None else SourceAgreement(name, len(rows), None, None, None, "none", st)
         out.append(replace(base, n=len(rows), status=st, extra={**base.extra, **counts, "reason": reason}))
     return tuple(out)
+
+
+def _own_scatter_percent(ctx: AuditContext, rows) -> float | None:
+    """Sample standard deviation [%] of the deviations (offset removed) of a source's
+    rows kept as ok from the consensus: the series' own scatter; None below three rows."""
+    dev = ctx.consensus.deviation_percent
+    values = [dev[p.row] for p in rows if ctx.status[p.row] == "ok" and p.row in dev
+              and math.isfinite(dev[p.row])]
+    if len(values) < 3:
+        return None
+    return float(np.std(values, ddof=1))
 
 
 def _source_cause_reason(c) -> str | None:

@@ -22,6 +22,7 @@ from typing import Callable, Mapping
 import numpy as np
 
 from ..model import Point
+from ..thermo.ratios import percent_from_log_ratio
 
 
 @dataclass(frozen=True)
@@ -160,6 +161,13 @@ class BranchConsensus:
         """Row → the point's standard uncertainty in P as scored [%] (read only)."""
         return {r: float(100 * s) for r, s in zip(self.rows, self.sigma)}
 
+    @cached_property
+    def offset_percent(self) -> dict[int, float]:
+        """Row → its source's offset removed before scoring, as 100·(exp(Δln P) − 1) [%]
+        (0 for sources not off; read only).  A point as printed deviates from the fit
+        of record by (1 + deviation/100)·(1 + offset/100) − 1."""
+        return {r: float(percent_from_log_ratio(o)) for r, o in zip(self.rows, self.offsets_lnP)}
+
     def index(self, row: int) -> int:
         return self.rows.index(row)
 
@@ -197,21 +205,26 @@ class ConsensusModel:
     def with_branch(self, branch: BranchConsensus) -> "ConsensusModel":
         return ConsensusModel({**self.branches, branch.branch: branch}, dict(self.not_fitted))
 
+    def _every_branch(self, by_row: str) -> dict[int, float]:
+        out: dict[int, float] = {}
+        for b in self.branches.values():
+            out.update(getattr(b, by_row))
+        return out
+
     @cached_property
     def deviation_percent(self) -> dict[int, float]:
         """Row → deviation from its branch's fit of record [%], every branch (read only)."""
-        out: dict[int, float] = {}
-        for b in self.branches.values():
-            out.update(b.deviation_percent)
-        return out
+        return self._every_branch("deviation_percent")
+
+    @cached_property
+    def offset_percent(self) -> dict[int, float]:
+        """Row → its source's offset removed before scoring [%], every branch (read only)."""
+        return self._every_branch("offset_percent")
 
     @cached_property
     def u_percent(self) -> dict[int, float]:
         """Row → standard uncertainty in P as scored [%], every branch (read only)."""
-        out: dict[int, float] = {}
-        for b in self.branches.values():
-            out.update(b.u_percent)
-        return out
+        return self._every_branch("u_percent")
 
     def summary(self) -> str:
         lines = [b.summary() for b in self.branches.values()]

@@ -28,7 +28,9 @@ class EnthalpyContinuity(Check):
     temperature scale — is located by a hinge fit (F-test over all split
     positions, Bonferroni adjusted) in a model that gives each source its own
     level; it is reported when significant both against ΔH linear in T and
-    against the fit of record's own form.  A smooth ΔH ≤ 0, or a window
+    against the fit of record's own form widened by ``step_smooth_terms``
+    smooth terms (a fall of ΔH towards the critical point that no equation of
+    the family follows is curvature, not a step).  A smooth ΔH ≤ 0, or a window
     below zero by more than ``k`` u, fails.
 
     **Why it matters.** By the Clapeyron equation every local slope is an
@@ -41,7 +43,7 @@ class EnthalpyContinuity(Check):
     window at 305 K: 47.1 ± 0.4 kJ/mol vs 43.8 smooth (8 σ, 7 %)".
 
     **Options.** ``window``, ``k``, ``tolerance_percent``, ``step_alpha``,
-    ``step_tolerance_percent``.
+    ``step_tolerance_percent``, ``step_smooth_terms``.
     """
 
     id = "enthalpy-continuity"
@@ -65,6 +67,8 @@ class EnthalpyContinuity(Check):
         "tolerance_percent": Option(float, "smallest relative departure worth flagging", "%", 0, 100),
         "step_alpha": Option(float, "significance level (adjusted) of a step in ΔH(T)", "", 1e-12, 0.5),
         "step_tolerance_percent": Option(float, "smallest step in ΔH worth reporting", "%", 0, 100),
+        "step_smooth_terms": Option(int, "smooth terms (Legendre polynomials in 1/T) added to the fit of "
+                                    "record's form before a step is called", "", 0, 6),
     }
 
     def run(self, ctx):
@@ -129,7 +133,8 @@ class EnthalpyContinuity(Check):
                     # not explain it either (over a wide range ΔH is not linear in T)
                     step = enthalpy_steps(T, P, None, sig[used] * P, min_points_per_side=4, groups=groups)
                     beyond = enthalpy_steps(T, P, None, sig[used] * P, min_points_per_side=4, groups=groups,
-                                            form=type(fit.equation), fixed=fit.equation.fixed_parameters())
+                                            form=type(fit.equation), fixed=fit.equation.fixed_parameters(),
+                                            smooth_terms=s["step_smooth_terms"])
                 except (InsufficientData, ValueError):
                     step = beyond = None
                 if step is not None:
@@ -144,7 +149,8 @@ class EnthalpyContinuity(Check):
                                         f"{step.u_dH_step / 1e3:.2g} kJ/mol ({step_rel:.2g} %) in ΔH at "
                                         f"{step.T_step:.2f} K (adjusted p = {step.p_value_adjusted:.2g}, and "
                                         f"{beyond.p_value_adjusted:.2g} beyond the {choice.chosen_name} fit of "
-                                        f"record; limit {s['step_alpha']})")
+                                        f"record with {s['step_smooth_terms']} further smooth terms; limit "
+                                        f"{s['step_alpha']})")
             metrics[branch] = m
             if not any(p.startswith(f"{branch}:") for p in problems):
                 if loc.dH.size:

@@ -773,8 +773,33 @@ def _refit_candidates(rss_fast, scale, exact):
     return best
 
 
+def _smooth_columns(u, X0, w, k: int) -> np.ndarray:
+    """Legendre polynomials of degrees 2 … k + 1 in u scaled to [−1, 1], each made
+    orthogonal (weights w) to the columns of X0 and to the ones before it, so that
+    they add to the base model only what it cannot already follow; a column left
+    with (numerically) nothing is dropped."""
+    from numpy.polynomial import legendre
+
+    lo, hi = float(u.min()), float(u.max())
+    x = 2.0 * (u - lo) / (hi - lo) - 1.0 if hi > lo else np.zeros_like(u)
+    sw = np.sqrt(w)
+    basis = [c * sw for c in X0.T]
+    kept = []
+    for degree in range(2, k + 2):
+        col = legendre.legval(x, [0.0] * degree + [1.0]) * sw
+        norm0 = np.linalg.norm(col)
+        for b in basis:  # Gram–Schmidt, twice against rounding
+            col = col - b * (b @ col) / (b @ b)
+        for b in basis:
+            col = col - b * (b @ col) / (b @ b)
+        if norm0 > 0 and np.linalg.norm(col) > 1e-8 * norm0:
+            basis.append(col)
+            kept.append(col / sw)
+    return np.column_stack(kept) if kept else np.empty((u.size, 0))
+
+
 def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, groups=None, form="cc3",
-                   fixed=None) -> EnthalpyStep:
+                   fixed=None, smooth_terms: int = 0) -> EnthalpyStep:
     """Locate a step in the apparent enthalpy along T.
 
     The base model is ln P = A + B/T + C ln T (ΔH linear in T); a step of
@@ -791,6 +816,12 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     The hinge is then tested in the base model linearized at its fit (its
     Jacobian as base columns, its residuals as response): for a form linear
     in its coefficients this is the same test.
+
+    With `smooth_terms` = k the base model also gets the Legendre polynomials
+    of degrees 2 … k + 1 in 1/T (scaled to [−1, 1]) as k further columns: a
+    curvature no equation of the family follows — ΔH falling steeply towards
+    the critical point, where it goes as (1 − T/Tc)^0.38 (Watson 1943) — is then
+    taken up by smooth terms, while a kink (a step in ΔH) is not.
 
     With `groups` (a label per point, e.g. its source) the base model gives
     each group a level of its own: two series that agree in slope but not
@@ -832,6 +863,10 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     X0 = base.equation.jacobian_ln_p(Ts)
     y = y - base.equation.ln_p(Ts)  # residuals: the fit's normal equations make them orthogonal to X0
     rss0 = base.chi2
+    if smooth_terms > 0:
+        X0 = np.column_stack([X0, _smooth_columns(1.0 / Ts, X0, w, int(smooth_terms))])
+        b0, _ = _weighted_lstsq(X0, y, w)
+        rss0 = float(np.sum(w * (y - X0 @ b0) ** 2))
     if groups is not None:
         labels = np.asarray([str(g) for g in groups], dtype=object)
         if labels.size != n:

@@ -77,3 +77,32 @@ def test_mad_scale_matches_scipy():
     x = np.random.default_rng(8).standard_t(3, 41)
     assert mad_scale(x) == pytest.approx(median_abs_deviation(x, scale="normal"), rel=1e-12)
     assert np.isnan(mad_scale([]))
+
+
+def test_the_ice_water_step_survives_two_smooth_terms():
+    # the same ice + liquid set: the kink at the triple point is not taken up by
+    # Legendre terms in 1/T, which follow curvature, not a change of slope
+    Ti = np.linspace(230, 273.16, 15)
+    Tl = np.linspace(274, 320, 15)
+    T = np.concatenate([Ti, Tl])
+    P = np.concatenate([noisy(iapws_ice(Ti), 5e-4, 1), noisy(iapws_liquid(Tl), 5e-4, 2)])
+    st = enthalpy_steps(T, P, smooth_terms=2)
+    assert 273.0 < st.T_step < 274.2
+    assert st.p_value_adjusted < 1e-6
+
+
+def test_water_towards_the_critical_point_is_curvature_not_a_step():
+    # IAPWS-95 liquid–vapour saturation, 300–620 K (T/Tc up to 0.96): ΔH falls from 43.9 to
+    # about 22 kJ/mol, steeply near Tc (as (1 − T/Tc)^0.38, Watson 1943), which ΔH linear in T
+    # cannot follow, nor can the four-constant Clarke–Glew form the selection picks; 0.05 %
+    # noise on 120 points
+    from audit.thermo import select_equation
+
+    T = np.linspace(300, 620, 120)
+    P = noisy(iapws_liquid(T), 5e-4, seed=14)
+    u_P = 5e-4 * P
+    eq = select_equation(T, P, u_P=u_P).chosen.equation
+    as_fitted = {"form": type(eq), "fixed": eq.fixed_parameters()}
+    assert enthalpy_steps(T, P, u_P=u_P).p_value_adjusted < 1e-6  # ΔH linear in T calls a step
+    assert enthalpy_steps(T, P, u_P=u_P, **as_fitted).p_value_adjusted < 1e-6  # so does the fitted form
+    assert enthalpy_steps(T, P, u_P=u_P, smooth_terms=2, **as_fitted).p_value_adjusted > 0.01

@@ -3,14 +3,26 @@
 Each figure is rendered by matplotlib (object-oriented API, SVG canvas, no
 pyplot state) to an SVG string that the HTML and PDF reports inline.  Nothing
 is computed here except evaluating a fitted curve (``FitRecord.model.ln_p``)
-on a grid to draw it.
+on a grid to draw it, and choosing the axis ranges.
 
 Design choices
 --------------
-* Status is shown by marker shape *and* colour (ok = filled circle, suspect =
-  open triangle, reject = cross), so that the figures survive grayscale
-  printing and colour-blind readers.  Colours are from the Okabe–Ito palette
-  [1]_.
+* A point's *source* and its *status* are two codes on two channels, so that
+  neither hides the other.  The source is the marker's shape and colour: one
+  pair per source, in the order the sources first appear in the data and the
+  same in every figure; colours from the Okabe–Ito palette [1]_ and shapes
+  all different, so that the figures survive grayscale printing and
+  colour-blind readers.  The status is the marker's fill: ok = filled,
+  suspect = open, rejected = open with a heavier outline and a black × over
+  it (:data:`STATUS_STYLE`).  The legend names the sources and shows the three
+  fills in neutral grey.  Without sources every point has one shape and
+  colour and the fill alone tells the status.
+* An axis spans the points the audit kept (not rejected), so that a °C value
+  in a kelvin column, or a source a hundred times off, does not squash
+  everything else.  Points beyond it are drawn in one shaded strip along that
+  edge, at their place on the other axis and without labels (labels pinned
+  to an edge pile on top of each other); one line of text in the strip gives
+  their count, and the caption lists their rows.
 * Text is kept as SVG ``<text>`` in DejaVu Sans (``svg.fonttype = 'none'``):
   glyph paths (``'path'``) looked the same but made WeasyPrint about 1.6×
   slower on a 200-point report (thousands of ``<use>`` nodes); DejaVu ships
@@ -18,8 +30,8 @@ Design choices
   fixed and the date omitted, and every ``id`` is prefixed with the figure's
   name, so that the output is byte-reproducible and several figures can share
   one HTML document without clashing ids.
-* Each set of like shapes is one SVG ``<path>``: all the markers of a status,
-  all the error bars of a status, all the reference diamonds
+* Each set of like shapes is one SVG ``<path>``: all the markers of a source
+  and status, all the error bars of a source, all the reference diamonds
   (:func:`_merging_svg_renderer`).  WeasyPrint's layout time grows with the
   number of SVG elements, so a figure costs about the same at 20 and at 2,000
   points; every point is still drawn as a vector shape of its own.
@@ -42,19 +54,23 @@ import io
 import math
 import re
 from dataclasses import dataclass
-from typing import Any, Iterable, Sequence
+from typing import Any, Iterable, Mapping, Sequence
 
 from ..results import AuditResult, PointVerdict
+from .numbers import pressure_text
 
 __all__ = [
     "RenderedPlot",
     "STATUS_STYLE",
+    "SOURCE_MARKERS",
+    "SOURCE_COLOURS",
     "render_all",
     "plot_clapeyron",
     "plot_deviation",
     "plot_enthalpy",
     "plot_triple_point",
-    "plot_source_deviation",
+    "safe_label",
+    "source_styles",
 ]
 
 #: Okabe–Ito colours
@@ -64,24 +80,48 @@ OKABE_ITO = {
     "vermillion": "#D55E00", "reddish_purple": "#CC79A7",
 }
 
-#: marker, colour and whether filled, per point status
+#: How a point's status is drawn: the fill and outline of its source's marker
+#: (never the shape or colour, which name the source).  ``edge_width`` [pt];
+#: ``cross``: a black × drawn over the marker.
 STATUS_STYLE: dict[str, dict[str, Any]] = {
-    "ok": {"marker": "o", "color": OKABE_ITO["blue"], "filled": True, "size": 22, "label": "ok"},
-    "suspect": {"marker": "^", "color": OKABE_ITO["orange"], "filled": False, "size": 46,
-                "label": "suspect"},
-    "reject": {"marker": "X", "color": OKABE_ITO["vermillion"], "filled": True, "size": 56,
-               "label": "rejected"},
+    "ok": {"filled": True, "edge_width": 0.8, "cross": False, "label": "ok"},
+    "suspect": {"filled": False, "edge_width": 1.2, "cross": False, "label": "suspect"},
+    "reject": {"filled": False, "edge_width": 2.1, "cross": True, "label": "rejected"},
 }
 
+#: one shape per source, cycled.  Every shape is closed, so that open and
+#: filled read apart; the × is left out (it marks a rejection) and so is the
+#: diamond (it marks the reference correlation in the deviation plot).
+SOURCE_MARKERS = ("o", "s", "^", "v", "P", "p", "<", ">", "h", "*")
+#: one colour per source, cycled (7 against 10 shapes: 70 sources before a pair
+#: repeats).  Yellow is left out: an open yellow marker is barely seen on white.
+SOURCE_COLOURS = (OKABE_ITO["blue"], OKABE_ITO["vermillion"], OKABE_ITO["bluish_green"],
+                  OKABE_ITO["reddish_purple"], OKABE_ITO["orange"], OKABE_ITO["sky_blue"],
+                  OKABE_ITO["black"])
+_MARKER_AREA = 30.0  # [pt²], matplotlib's scatter size
+# triangles, the star and the plus cover less of their box than a circle:
+# scaled so that every source's markers look about the same size
+_AREA_SCALE = {"^": 1.25, "v": 1.25, "<": 1.25, ">": 1.25, "*": 1.8, "P": 1.1, "s": 0.85}
+_NEUTRAL = "#707070"  # the status key: no source's colour
+_CROSS = "#000000"
+_STRIP_FILL = "#ececec"
+
 _BRANCH_LINESTYLE = {"liquid": "-", "solid": "--", "unknown": "-."}
-_SOURCE_MARKERS = ("o", "s", "D", "v", "P", "<", "h", ">", "*", "p")
-_SOURCE_COLOURS = (OKABE_ITO["blue"], OKABE_ITO["vermillion"], OKABE_ITO["bluish_green"],
-                   OKABE_ITO["reddish_purple"], OKABE_ITO["orange"], OKABE_ITO["sky_blue"],
-                   OKABE_ITO["black"], "#999999")
 #: at most this many row numbers are written beside flagged points per figure;
-#: beyond that the labels overlap into an unreadable blot (the table lists all)
+#: beyond that the figure reads as a field of numbers (the table lists them all)
 MAX_ROW_LABELS = 40
-_FIG_SIZE = (7.2, 4.2)  # inches; fits an A4 text column at 100 %
+#: at most this many rows of the points beyond the axes are listed in a caption
+MAX_CAPTION_ROWS = 30
+_FIG_SIZE = (7.2, 4.2)  # inches, before the legend below; fits an A4 text column at 100 %
+# fixed margins [in] rather than a layout engine: the constrained layout
+# measured every tick label again and took half the drawing time
+_MARGIN_IN = {"left": 0.79, "right": 0.22, "bottom": 0.55, "top": 0.13}
+#: the axes' size [pt]; kept whatever the legend's height, so that the strips'
+#: thickness in data units can be worked out before anything is drawn
+_AXES_PT = ((_FIG_SIZE[0] - _MARGIN_IN["left"] - _MARGIN_IN["right"]) * 72,
+            (_FIG_SIZE[1] - _MARGIN_IN["bottom"] - _MARGIN_IN["top"]) * 72)
+_STRIP_PT = 24.0  # thickness of a margin strip: a row of markers and a line of text
+_LEGEND_ROW_PT = 14.0  # one legend row at 8 pt: text and label spacing (measured 13.6)
 
 
 @dataclass(frozen=True)
@@ -112,13 +152,16 @@ class RenderedPlot:
 
 # ---------------------------------------------------------------------------------
 def render_all(result: AuditResult) -> tuple[RenderedPlot, ...]:
-    """All figures of the report, in report order (skipped ones carry a note)."""
+    """All figures of the report, in report order (skipped ones carry a note).
+
+    There is no separate figure of the deviations by source: the deviation
+    plot shows each source's points and fitted offset itself.
+    """
     return (
         plot_clapeyron(result),
         plot_deviation(result),
         plot_enthalpy(result),
         plot_triple_point(result),
-        plot_source_deviation(result),
     )
 
 
@@ -144,37 +187,386 @@ def safe_label(text: Any, limit: int = 28) -> str:
     return s.replace("\\", "\\\\").replace("$", r"\$")
 
 
-def _new_figure(size=_FIG_SIZE):
+def _plain(text: Any, limit: int = 40) -> str:
+    """A name from the input for a caption (HTML-escaped by the template), shortened."""
+    s = " ".join(str(text).split())
+    return s if len(s) <= limit else s[: limit - 1] + "…"
+
+
+def _num(v: float, signed: bool = False) -> str:
+    """``v`` to 3 significant figures with a true minus sign; only called on finite values."""
+    return f"{v:{'+' if signed else ''}.3g}".replace("-", "−")
+
+
+def _n_points(n: int) -> str:
+    return f"{n} point" if n == 1 else f"{n} points"
+
+
+def _row_key(row: Any):
+    return (0, row, "") if isinstance(row, int) else (1, 0, str(row))
+
+
+def _rows_text(rows: Iterable[Any]) -> str:
+    """'3, 8, 45' — every row up to :data:`MAX_CAPTION_ROWS`, then 'and N more'."""
+    rows = sorted(set(rows), key=_row_key)
+    text = ", ".join(_plain(r, 20) for r in rows[:MAX_CAPTION_ROWS])
+    more = len(rows) - MAX_CAPTION_ROWS
+    return text + (f" and {more} more" if more > 0 else "")
+
+
+# -- sources and statuses ------------------------------------------------------------
+def source_styles(result: AuditResult) -> dict[str | None, tuple[str, str]]:
+    """Marker shape and colour of each source, in the order the sources first appear.
+
+    Parameters
+    ----------
+    result : AuditResult
+
+    Returns
+    -------
+    dict
+        Source name → (matplotlib marker, colour).  Points without a source
+        are under ``None``: the only key when no point names a source, the
+        last one when some do.
+    """
+    order = [s for s in result.dataset.sources if s]
+    for p in result.points:
+        if p.source and p.source not in order:  # a verdict's source missing from the dataset
+            order.append(p.source)
+    if not order:
+        return {None: (SOURCE_MARKERS[0], SOURCE_COLOURS[0])}
+    if any(not p.source for p in _plottable(result.points)):
+        order.append(None)
+    return {s: (SOURCE_MARKERS[i % len(SOURCE_MARKERS)], SOURCE_COLOURS[i % len(SOURCE_COLOURS)])
+            for i, s in enumerate(order)}
+
+
+def _style_key(styles: Mapping[str | None, tuple[str, str]], m: _Mark) -> str | None:
+    """The key of ``styles`` a mark is drawn with (the first style for a source
+    ``styles`` does not know, which :func:`source_styles` never leaves)."""
+    return m.source if m.source in styles else next(iter(styles))
+
+
+def _area(marker: str) -> float:
+    return _MARKER_AREA * _AREA_SCALE.get(marker, 1.0)
+
+
+def _source_name(source: str | None) -> str:
+    return "no source given" if source is None else safe_label(source)
+
+
+@dataclass(frozen=True)
+class _Mark:
+    """One point as a figure places it."""
+
+    row: Any
+    source: str | None
+    status: str
+    x: float
+    y: float
+    flagged: bool
+    #: standard uncertainty in y units (0: no bar)
+    u: float = 0.0
+    #: deviation from the reference correlation [%], for the deviation plot
+    ref: float | None = None
+
+
+def _scatter_marks(ax, placed: Sequence[tuple[_Mark, float, float]],
+                   styles: Mapping[str | None, tuple[str, str]]) -> None:
+    """Markers: shape and colour by source, fill by status, one scatter per pair."""
+    groups: dict[tuple[str | None, str], list[tuple[float, float]]] = {}
+    for m, x, y in placed:
+        groups.setdefault((_style_key(styles, m), m.status), []).append((x, y))
+    crosses = []
+    # statuses in rising severity and stacking order: a rejected marker is
+    # never hidden under the filled ones around it
+    for rank, (status, st) in enumerate(STATUS_STYLE.items()):
+        for source, (marker, colour) in styles.items():
+            xy = groups.get((source, status))
+            if not xy:
+                continue
+            xs, ys = zip(*xy)
+            # open markers are white inside, so that the error bar behind them
+            # does not cross them (a crossed open circle reads like a symbol)
+            ax.scatter(xs, ys, s=_area(marker), marker=marker,
+                       facecolors=colour if st["filled"] else "#ffffff", edgecolors=colour,
+                       linewidths=st["edge_width"], zorder=3 + 0.1 * rank)
+            if st["cross"]:
+                crosses.extend(xy)
+    if crosses:
+        xs, ys = zip(*crosses)
+        ax.scatter(xs, ys, s=0.55 * _MARKER_AREA, marker="x", color=_CROSS, linewidths=1.0,
+                   zorder=3.5)
+
+
+def _status_handle(status: str):
+    """The legend's key to a status: a neutral grey circle with the status's fill."""
+    from matplotlib.lines import Line2D
+
+    st = STATUS_STYLE[status]
+    base = Line2D([], [], linestyle="none", marker="o", markersize=math.sqrt(_MARKER_AREA),
+                  markerfacecolor=_NEUTRAL if st["filled"] else "#ffffff",
+                  markeredgecolor=_NEUTRAL, markeredgewidth=st["edge_width"])
+    if not st["cross"]:
+        return base
+    cross = Line2D([], [], linestyle="none", marker="x", color=_CROSS, markeredgewidth=1.0,
+                   markersize=math.sqrt(0.55 * _MARKER_AREA))
+    return (base, cross)  # drawn one over the other by matplotlib's tuple handler
+
+
+def _point_key(styles, marks: Iterable[_Mark], dashed: Iterable[str | None] = ()) -> list:
+    """Legend entries: each source drawn (a dashed line through its marker when
+    its fitted offset is drawn), then each status drawn."""
+    from matplotlib.lines import Line2D
+
+    marks = list(marks)
+    dashed = set(dashed)
+    present = {_style_key(styles, m) for m in marks}
+    entries = []
+    if list(styles) != [None]:
+        for source, (marker, colour) in styles.items():
+            if source in present:
+                handle = Line2D([], [], linestyle="--" if source in dashed else "none",
+                                linewidth=1.3, color=colour, marker=marker,
+                                markersize=math.sqrt(_area(marker)), markerfacecolor=colour,
+                                markeredgecolor=colour,
+                                markeredgewidth=STATUS_STYLE["ok"]["edge_width"])
+                entries.append((handle, _source_name(source)))
+    statuses = {m.status for m in marks}
+    entries += [(_status_handle(s), STATUS_STYLE[s]["label"])
+                for s in STATUS_STYLE if s in statuses]
+    return entries
+
+
+def _annotate_rows(ax, items: Sequence[tuple[float, float, Any]]) -> int:
+    """Write row numbers beside flagged points; returns how many were left out.
+
+    Call once the axis limits are final.  A label goes up-right of its point,
+    else down-left, down-right or up-left, whichever first clears every label
+    already written (down-left before down-right: on the falling ln p curve
+    the next points lie down-right).  A label with no clear place is left out
+    and counted: two numbers printed over each other read as a third.  At
+    most :data:`MAX_ROW_LABELS` are written.
+    """
+    (x0, x1), (y0, y1) = ax.get_xlim(), ax.get_ylim()
+    sx, sy = _AXES_PT[0] / (x1 - x0), _AXES_PT[1] / (y1 - y0)  # [pt per data unit]
+    taken: list[tuple[float, float, float, float]] = []
+    written = 0
+    for x, y, row in items:
+        if written == MAX_ROW_LABELS:
+            break
+        text = safe_label(row, 40)
+        # 7.5 pt digits are about 4.8 pt wide and 5.5 pt tall: a little margin on both
+        w, h = 4.9 * len(text) + 1.5, 7.5
+        px, py = (x - x0) * sx, (y - y0) * sy
+        for dx, dy in ((4, 4), (-4 - w, -4 - h), (4, -4 - h), (-4 - w, 4)):
+            box = (px + dx, py + dy, px + dx + w, py + dy + h)
+            if not any(box[0] < b[2] and b[0] < box[2] and box[1] < b[3] and b[1] < box[3]
+                       for b in taken):
+                taken.append(box)
+                ax.annotate(text, (x, y), xytext=(dx, dy), textcoords="offset points",
+                            fontsize=7.5, color="#222222", zorder=5, va="bottom", ha="left")
+                written += 1
+                break
+    return len(items) - written
+
+
+# -- figure, legend ------------------------------------------------------------------
+def _place_axes(fig, legend_in: float = 0.0) -> None:
+    """Figure height grown by ``legend_in`` [in] below the axes; the axes' size unchanged."""
+    w, h = _FIG_SIZE[0], _FIG_SIZE[1] + legend_in
+    fig.set_size_inches(w, h)
+    fig.subplots_adjust(left=_MARGIN_IN["left"] / w, right=1 - _MARGIN_IN["right"] / w,
+                        bottom=(_MARGIN_IN["bottom"] + legend_in) / h,
+                        top=1 - _MARGIN_IN["top"] / h)
+
+
+def _new_figure():
     from matplotlib.figure import Figure
 
-    # fixed margins rather than a layout engine: the constrained layout
-    # measured every tick label again and took half the drawing time
-    fig = Figure(figsize=size, dpi=72)  # the SVG canvas: 1 px = 1 pt
-    fig.subplots_adjust(left=0.11, right=0.97, bottom=0.13, top=0.97)
+    fig = Figure(figsize=_FIG_SIZE, dpi=72)  # the SVG canvas: 1 px = 1 pt
     ax = fig.add_subplot()
+    _place_axes(fig)
     ax.grid(True, color="#d9d9d9", linewidth=0.6)
     ax.set_axisbelow(True)
     return fig, ax
 
 
-def _scatter_status(ax, xs, ys, status: str, *, label: str | None = None, zorder=3):
-    st = STATUS_STYLE[status]
-    if not xs:
+def _legend_below(fig, ax, entries: Sequence[tuple[Any, str]]) -> None:
+    """The legend under the axes, in as many columns as the labels allow.
+
+    Inside the axes a legend naming several sources, the three statuses and
+    the curves covers a good part of the points whatever corner it takes, so
+    the figure grows downward to hold it instead.
+    """
+    entries = list(entries) + list(zip(*ax.get_legend_handles_labels()))
+    if not entries:
         return
-    face = st["color"] if st["filled"] else "none"
-    ax.scatter(xs, ys, s=st["size"], marker=st["marker"], facecolors=face,
-               edgecolors=st["color"], linewidths=1.2, zorder=zorder,
-               label=st["label"] if label is None else label)
+    handles, labels = zip(*entries)
+    # label widths estimated (about 5 pt a character at 8 pt, plus the handle
+    # and column gap) rather than measured: measuring text costs a draw pass
+    entry_pt = 42 + 5.0 * max(len(lab) for lab in labels)
+    ncols = max(1, min(4, len(entries), int((_FIG_SIZE[0] * 72 - 24) // entry_pt)))
+    rows = -(-len(entries) // ncols)
+    # the rows, the legend's inner padding and its gap below the anchor (about 11 pt)
+    legend_in = (rows * _LEGEND_ROW_PT + 16) / 72
+    _place_axes(fig, legend_in)
+    fig.legend(handles, labels, loc="upper center", ncols=ncols, frameon=False,
+               bbox_to_anchor=(0.5, legend_in / (_FIG_SIZE[1] + legend_in)),
+               handletextpad=0.5, columnspacing=1.6)
 
 
-def _annotate_rows(ax, items: Sequence[tuple[float, float, Any]]) -> int:
-    """Write row numbers beside flagged points; returns how many were left out."""
-    for x, y, row in items[:MAX_ROW_LABELS]:
-        ax.annotate(safe_label(row, 40), (x, y), xytext=(4, 4), textcoords="offset points",
-                    fontsize=7.5, color="#222222", zorder=5)
-    return max(0, len(items) - MAX_ROW_LABELS)
+# -- axes that span the kept points, with strips for the rest -------------------------
+@dataclass(frozen=True)
+class _Box:
+    """The data range the axes show at full scale [data units]."""
+
+    x0: float
+    x1: float
+    y0: float
+    y1: float
+
+    def side(self, x: float, y: float) -> str:
+        """Where a point lies: 'in', or the strip it goes to ('above', 'below', 'left', 'right').
+
+        Beyond in y wins over beyond in x: the deviation (or pressure) is what
+        the reader looks for first; the other coordinate is then held at the edge.
+        """
+        if y > self.y1:
+            return "above"
+        if y < self.y0:
+            return "below"
+        if x < self.x0:
+            return "left"
+        if x > self.x1:
+            return "right"
+        return "in"
 
 
+def _span(values: Sequence[float], pad: float = 0.06) -> tuple[float, float]:
+    lo, hi = min(values), max(values)
+    margin = pad * (hi - lo) if hi > lo else max(abs(lo) * 0.05, 1.0)
+    return lo - margin, hi + margin
+
+
+@dataclass(frozen=True)
+class _Frame:
+    """The box, the strips in use and where every mark is drawn."""
+
+    box: _Box
+    #: (mark, x drawn, y drawn, side) for every mark
+    placed: tuple[tuple[_Mark, float, float, str], ...]
+    #: thickness of a strip along x and along y [data units]
+    band_x: float
+    band_y: float
+
+    @property
+    def beyond(self) -> dict[str, list[_Mark]]:
+        out: dict[str, list[_Mark]] = {}
+        for m, _, _, side in self.placed:
+            if side != "in":
+                out.setdefault(side, []).append(m)
+        return out
+
+    def inside(self) -> list[tuple[_Mark, float, float]]:
+        return [(m, x, y) for m, x, y, side in self.placed if side == "in"]
+
+
+# markers sit in the strip's inner part, its text in the outer part: they never overlap
+_STRIP_MARKER_AT, _STRIP_TEXT_AT = 0.33, 0.74
+
+
+def _frame(box: _Box, marks: Sequence[_Mark]) -> _Frame:
+    """Where each mark is drawn: at its place inside the box, else in a strip."""
+    sides = [box.side(m.x, m.y) for m in marks]
+    n_y = len({"above", "below"} & set(sides))
+    n_x = len({"left", "right"} & set(sides))
+    # the strips take a fixed thickness [pt] from the axes; the box gets the rest
+    band_y = (box.y1 - box.y0) * _STRIP_PT / (_AXES_PT[1] - n_y * _STRIP_PT)
+    band_x = (box.x1 - box.x0) * _STRIP_PT / (_AXES_PT[0] - n_x * _STRIP_PT)
+    # a coordinate also beyond the box is held a little inside it, so that the
+    # axes' clip does not halve the marker
+    ix, iy = 0.012 * (box.x1 - box.x0), 0.012 * (box.y1 - box.y0)
+    placed = []
+    for m, side in zip(marks, sides):
+        x = m.x if box.x0 <= m.x <= box.x1 else min(max(m.x, box.x0 + ix), box.x1 - ix)
+        y = m.y if box.y0 <= m.y <= box.y1 else min(max(m.y, box.y0 + iy), box.y1 - iy)
+        if side == "above":
+            y = box.y1 + _STRIP_MARKER_AT * band_y
+        elif side == "below":
+            y = box.y0 - _STRIP_MARKER_AT * band_y
+        elif side == "left":
+            x = box.x0 - _STRIP_MARKER_AT * band_x
+        elif side == "right":
+            x = box.x1 + _STRIP_MARKER_AT * band_x
+        placed.append((m, x, y, side))
+    return _Frame(box, tuple(placed), band_x, band_y)
+
+
+def _draw_frame(ax, frame: _Frame, text_for: Mapping[str, str]) -> None:
+    """Axis limits, the shaded strips with their text, and ticks on the box only.
+
+    ``text_for[side]`` is the strip's text, '{n}' standing for its count of points.
+    """
+    from matplotlib.ticker import FixedLocator, MaxNLocator
+
+    box, beyond = frame.box, frame.beyond
+    bx, by = frame.band_x, frame.band_y
+    x0, x1 = box.x0 - bx * ("left" in beyond), box.x1 + bx * ("right" in beyond)
+    y0, y1 = box.y0 - by * ("below" in beyond), box.y1 + by * ("above" in beyond)
+    ax.set_xlim(x0, x1)
+    ax.set_ylim(y0, y1)
+    edge = {"color": "#9a9a9a", "linewidth": 0.6, "linestyle": (0, (3, 2)), "zorder": 0.7}
+    text = {"fontsize": 7.5, "color": "#333333", "zorder": 5, "va": "center"}
+    for side, marks in sorted(beyond.items()):
+        label = text_for[side].format(n=_n_points(len(marks)))
+        if side in ("above", "below"):
+            lo, hi = (box.y1, y1) if side == "above" else (y0, box.y0)
+            ax.axhspan(lo, hi, color=_STRIP_FILL, linewidth=0, zorder=0.6)
+            ax.axhline(box.y1 if side == "above" else box.y0, **edge)
+            at = box.y1 + _STRIP_TEXT_AT * by if side == "above" else box.y0 - _STRIP_TEXT_AT * by
+            ax.text(0.008, at, label, transform=ax.get_yaxis_transform(), ha="left", **text)
+        else:
+            lo, hi = (x0, box.x0) if side == "left" else (box.x1, x1)
+            ax.axvspan(lo, hi, color=_STRIP_FILL, linewidth=0, zorder=0.6)
+            ax.axvline(box.x0 if side == "left" else box.x1, **edge)
+            at = box.x0 - _STRIP_TEXT_AT * bx if side == "left" else box.x1 + _STRIP_TEXT_AT * bx
+            ax.text(at, 0.5, label, transform=ax.get_xaxis_transform(), ha="center",
+                    rotation=90, **text)
+    # ticks only along the box: a tick inside a strip would give its markers a
+    # value they do not have
+    for axis, lo, hi, strips in ((ax.xaxis, box.x0, box.x1, bx * (x1 - x0 > box.x1 - box.x0)),
+                                 (ax.yaxis, box.y0, box.y1, by * (y1 - y0 > box.y1 - box.y0))):
+        if strips:
+            tol = 1e-9 * (hi - lo)
+            ticks = [t for t in MaxNLocator(nbins=7).tick_values(lo, hi)
+                     if lo - tol <= t <= hi + tol]
+            axis.set_major_locator(FixedLocator(ticks))
+
+
+def _strip_note(frame: _Frame, names: Mapping[str, str]) -> str:
+    """The caption's account of the points beyond the axes: count, strips, rows."""
+    beyond = frame.beyond
+    total = sum(len(v) for v in beyond.values())
+    if not total:
+        return ""
+    rows = _rows_text(m.row for v in beyond.values() for m in v)
+    order = [s for s in ("above", "below", "left", "right") if s in beyond]
+    if len(order) == 1:
+        where = f"the axis, drawn without labels in the shaded {names[order[0]]} strip"
+    else:
+        where = ("the axes, drawn without labels in the shaded strips ("
+                 + ", ".join(f"{len(beyond[s])} in the {names[s]}" for s in order) + ")")
+    return f"; {_n_points(total)} beyond {where}: row{'s' if total > 1 else ''} {rows}"
+
+
+def _clipped(x, y, box: _Box):
+    """A curve with its vertices outside the box masked (NaN), so that it stops at the strips."""
+    import numpy as np
+
+    x, y = np.asarray(x, dtype=float), np.asarray(y, dtype=float)
+    out = (x < box.x0) | (x > box.x1) | (y < box.y0) | (y > box.y1)
+    return x, np.where(out, np.nan, y)
 def _to_svg(fig, key: str) -> str:
     import matplotlib
 
@@ -342,36 +734,28 @@ def _fit_curve(fit, T_lo: float, T_hi: float, n: int = 200):
 
 # -- 1. ln p vs 1000/T ------------------------------------------------------------------
 def plot_clapeyron(result: AuditResult) -> RenderedPlot:
-    """ln(p/Pa) against 1000 K/T: points by status, fitted curves by branch,
-    the reference correlation when present; flagged points carry their row."""
+    """ln(p/Pa) against 1000 K/T: points by source and status, fitted curves by
+    branch, the reference correlation when present; flagged points carry their row."""
     import numpy as np
 
     key, title = "clapeyron", "Clausius–Clapeyron plot"
     pts = _plottable(result.points)
     if not pts:
         return RenderedPlot(key, title, None, "no readable points with T > 0 and p > 0 to draw")
+    styles = source_styles(result)
+    marks = [_Mark(p.row, p.source or None, p.status, 1000.0 / p.T_K, math.log(p.P_Pa),
+                   _is_flagged(p)) for p in pts]
+    kept = [m for m in marks if m.status != "reject"] or marks
+    frame = _frame(_Box(*_span([m.x for m in kept]), *_span([m.y for m in kept])), marks)
+    box = frame.box
     fig, ax = _new_figure()
-    kept = _kept(pts)
-    px, xlim = _pinner([1000.0 / p.T_K for p in kept])
-    py, ylim = _pinner([math.log(p.P_Pa) for p in kept])
-    pinned = set()
-
-    def xy(p):
-        (x, ox), (y, oy) = px(1000.0 / p.T_K), py(math.log(p.P_Pa))
-        if ox or oy:
-            pinned.add(p.row)
-        return x, y
-
-    for status in STATUS_STYLE:
-        sel = [xy(p) for p in pts if p.status == status]
-        _scatter_status(ax, [x for x, _ in sel], [y for _, y in sel], status)
     for fit in result.fits:
         curve = _fit_curve(fit, *fit.T_range_K)
         if curve is None:
             continue
         T, y = curve
         style = "-" if fit.recommended else ":"
-        ax.plot(1000.0 / T, y, color="#000000", linewidth=1.1,
+        ax.plot(*_clipped(1000.0 / T, y, box), color="#000000", linewidth=1.1,
                 linestyle=_BRANCH_LINESTYLE.get(fit.branch, style) if fit.recommended else style,
                 label=f"fit, {fit.branch} ({safe_label(fit.equation, 20)})", zorder=2)
     ref = (result.plot_data or {}).get("reference") or {}
@@ -380,123 +764,196 @@ def plot_clapeyron(result: AuditResult) -> RenderedPlot:
         P = np.asarray(curve.get("P_Pa", ()), dtype=float)
         ok = np.isfinite(T) & np.isfinite(P) & (T > 0) & (P > 0)
         if ok.sum() >= 2:
-            ax.plot(1000.0 / T[ok], np.log(P[ok]), color="#888888", linewidth=2.2, alpha=0.6,
-                    linestyle="-", zorder=1,
+            ax.plot(*_clipped(1000.0 / T[ok], np.log(P[ok]), box), color="#888888",
+                    linewidth=2.2, alpha=0.6, linestyle="-", zorder=1,
                     label=f"reference, {safe_label(branch, 12)}: {safe_label(ref.get('name', ''), 24)}")
-    flagged = [(*xy(p), p.row) for p in pts if _is_flagged(p)]
-    left_out = _annotate_rows(ax, flagged)
-    ax.set_xlim(*xlim)
-    ax.set_ylim(*ylim)
+    inside = frame.inside()
+    _scatter_marks(ax, [(m, x, y) for m, x, y, _ in frame.placed], styles)
+    # along x a strip on the left holds the hot end, on the right the cold end:
+    # the text is turned a quarter to the left, so ▲ points left and ▼ right
+    _draw_frame(ax, frame, {
+        "above": f"▲ {{n}} above p = {pressure_text(math.exp(box.y1), 3)}",
+        "below": f"▼ {{n}} below p = {pressure_text(math.exp(box.y0), 3)}",
+        "left": f"▲ {{n}} above T = {_num(1000.0 / box.x0)} K",
+        "right": f"▼ {{n}} below T = {_num(1000.0 / box.x1)} K"})
+    left_out = _annotate_rows(ax, [(x, y, m.row) for m, x, y in inside if m.flagged])
     ax.set_xlabel("1000 K / T")
     ax.set_ylabel("ln(p/Pa)")
-    ax.legend(loc="best", frameon=True, framealpha=0.9)
-    note = ("points by status; lines are the fitted equations; flagged points carry their row number"
-            + (f"; rejected row(s) {', '.join(map(str, sorted(pinned)))} lie outside the axes and are "
-               "drawn at the edge" if pinned else "")
-            + (f" ({left_out} more flagged rows not labelled)" if left_out else ""))
+    _legend_below(fig, ax, _point_key(styles, marks))
+    by_source = "colour and shape: source; " if list(styles) != [None] else ""
+    note = (f"points as printed ({by_source}fill: status); lines are the fitted equations; "
+            "flagged points carry their row number"
+            + _strip_note(frame, {"above": "upper", "below": "lower", "left": "left (hot)",
+                                  "right": "right (cold)"})
+            + (f"; {left_out} flagged rows not labelled, to keep the labels apart"
+               if left_out else ""))
     return RenderedPlot(key, title, _to_svg(fig, key), note)
 
 
-# -- 2. relative deviation vs T -----------------------------------------------------
-def _deviation_limit(pts: Sequence[PointVerdict]) -> float:
-    """Half-height of the deviation axis: the spread of the points that are not
-    rejected (with their uncertainties), so that a gross outlier does not squash
-    the scatter a curator needs to see."""
-    kept = [p for p in pts if p.status != "reject"] or list(pts)
-    span = max(abs(p.deviation_percent) + (p.u_percent if _finite(p.u_percent) else 0.0)
-               for p in kept)
-    return max(1.25 * span, 0.05)
+# -- 2. relative deviation vs T, as printed ---------------------------------------------
+#: a point or offset line stays on the deviation axis while covering it leaves
+#: the consensus points at least 1/_SQUASH of the half-height (see _deviation_limit)
+_SQUASH = 5.0
 
 
-def _pinner(kept: Sequence[float], pad: float = 0.06):
-    """A function pinning a coordinate to the span of the kept (not rejected)
-    points: a °C value in a kelvin column at 45 K must not squash the plot of
-    everything else.  Returns (f, limits); f(v) -> (v or the edge, pinned?)."""
-    lo, hi = min(kept), max(kept)
-    margin = pad * (hi - lo) if hi > lo else max(abs(lo) * 0.05, 1.0)
-    lo, hi = lo - margin, hi + margin
+def _deviation_marks(points: Iterable[PointVerdict]) -> list[_Mark]:
+    """The deviation plot's points: x = T [K], y = deviation as printed [%].
 
-    def f(v: float) -> tuple[float, bool]:
-        if v < lo:
-            return lo + 0.3 * margin, True
-        if v > hi:
-            return hi - 0.3 * margin, True
-        return v, False
-    return f, (lo, hi)
-
-
-def _kept(pts):
-    return [p for p in pts if p.status != "reject"] or list(pts)
-
-
-def _clip(value: float, limit: float) -> tuple[float, bool]:
-    if abs(value) <= limit:
-        return value, False
-    return math.copysign(0.96 * limit, value), True
-
-
-def _scatter_deviations(ax, pts, limit, *, with_errors=True) -> tuple[list, int]:
-    """Points by status, those beyond ±limit (or outside the kept points'
-    temperatures) pinned to the edge; returns the row labels to write and how
-    many points were pinned."""
-    labels, pinned = [], 0
-    pt, xlim = _pinner([p.T_K for p in _kept(pts)])
-    ax.set_xlim(*xlim)
-    for status in STATUS_STYLE:
-        sel = [p for p in pts if p.status == status]
-        if not sel:
+    y is ``PointVerdict.printed_deviation_percent``: 100·(p − p_fit)/p_fit of
+    the point as the input prints it, its source's fitted offset *not*
+    removed, so that a source that is off shows where it lies; ``u`` is the
+    point's standard uncertainty [%].  Points without a finite deviation (not
+    judged) are left out.
+    """
+    out = []
+    for p in _plottable(points):
+        y = p.printed_deviation_percent
+        if not _finite(y):
             continue
-        xs, ys, err = [], [], []
-        for p in sel:
-            y, out_y = _clip(p.deviation_percent, limit)
-            x, out_x = pt(p.T_K)
-            out = out_x or out_y
-            pinned += out
-            xs.append(x)
-            ys.append(y)
-            err.append(0.0 if out or not _finite(p.u_percent) else p.u_percent)
-            if out:
-                labels.append((x, y, f"{p.row} ({p.deviation_percent:+.3g} %)"))
-            elif _is_flagged(p):
-                labels.append((x, y, str(p.row)))
-        if with_errors and any(err):
-            ax.errorbar(xs, ys, yerr=err, fmt="none", ecolor=STATUS_STYLE[status]["color"],
-                        elinewidth=0.8, capsize=2, alpha=0.8, zorder=2)
-        _scatter_status(ax, xs, ys, status)
-    return labels, pinned
+        u = p.u_percent if _finite(p.u_percent) and p.u_percent > 0 else 0.0
+        ref = p.reference_deviation_percent if _finite(p.reference_deviation_percent) else None
+        out.append(_Mark(p.row, p.source or None, p.status, p.T_K, y, _is_flagged(p), u, ref))
+    return out
+
+
+def _offset_lines(points: Iterable[PointVerdict]
+                  ) -> dict[str, tuple[tuple[float, ...], tuple[float, ...]]]:
+    """Each source's fitted offset as a line: source → (T [K], offset [%]) sorted by T.
+
+    The offset is ``PointVerdict.source_offset_percent`` of the source's points
+    that are not rejected (a rejected point's T may be the very fault, e.g. °C
+    in a kelvin column): constant for a pressure-scale offset, varying with T
+    for a thermometer offset.  Only sources with a nonzero offset.
+    """
+    by: dict[str, list[tuple[float, float]]] = {}
+    for p in _plottable(points):
+        if p.source and p.status != "reject" and _finite(p.source_offset_percent):
+            by.setdefault(p.source, []).append((p.T_K, float(p.source_offset_percent)))
+    return {s: tuple(zip(*sorted(v))) for s, v in by.items() if any(o != 0.0 for _, o in v)}
+
+
+def _source_offsets(points: Iterable[PointVerdict]) -> dict[str, list[float]]:
+    """Source → the nonzero fitted offsets [%] of all its points, rejected ones included."""
+    out: dict[str, list[float]] = {}
+    for p in points:
+        if p.source and _finite(p.source_offset_percent) and p.source_offset_percent != 0:
+            out.setdefault(p.source, []).append(float(p.source_offset_percent))
+    return out
+
+
+def _offset_text(offset: float) -> str:
+    """'+20 %', or as a factor ('×100') beyond a doubling or a halving, where
+    per cent no longer read well."""
+    if offset >= 100 or offset <= -50:
+        return f"×{_num(1 + offset / 100)}"
+    return f"{_num(offset, True)} %"
+
+
+def _deviation_limit(marks: Sequence[_Mark],
+                     lines: Mapping[str, tuple[Sequence[float], Sequence[float]]]) -> float:
+    """Half-height of the deviation axis [%].
+
+    The axis always covers the points the consensus accepted as they are (ok,
+    and of a source with no offset), bars included: their scatter is what the
+    fit is judged by.  It is widened to cover each other kept point and each
+    offset line as long as that leaves those accepted points at least 1/5 of
+    the half-height (about 25 pt); a source tens of per cent (or a factor of
+    100) off would otherwise flatten them to a line.  What is not covered goes
+    to the margin strips, counted and listed in the caption.  Rejected points
+    never set the range.
+    """
+    kept = [m for m in marks if m.status != "reject"]
+    accepted = ([m for m in kept if m.status == "ok" and m.source not in lines]
+                or kept or list(marks))
+    # a floor of 0.05 %: a perfect synthetic table must still get a readable axis
+    base = max(max(abs(m.y) + m.u for m in accepted), 0.05)
+    reach = [abs(m.y) + m.u for m in kept] + [abs(o) for _, off in lines.values() for o in off]
+    return _round_up(1.1 * max([base] + [r for r in reach if r <= _SQUASH * base]))
+
+
+def _round_up(v: float) -> float:
+    """``v`` > 0 rounded up to two significant figures: the strips' text then
+    reads '+2.6 %', not '+2.59 %'."""
+    step = 10.0 ** (math.floor(math.log10(v)) - 1)
+    return round(math.ceil(v / step - 1e-9) * step, 12)
 
 
 def plot_deviation(result: AuditResult) -> RenderedPlot:
-    """100·(p − p_fit)/p_fit against T with the points' standard uncertainties,
-    and the deviation from the reference correlation when one is used."""
-    key, title = "deviation", "Deviation from the fitted equation"
-    pts = [p for p in _plottable(result.points) if _finite(p.deviation_percent)]
-    if not pts:
+    """100·(p − p_fit)/p_fit of the points as printed against T, with their
+    standard uncertainties, each source's fitted offset as a line in its
+    colour, and the deviation from the reference correlation when one is used."""
+    key, title = "deviation", "Deviation from the consensus fit"
+    marks = _deviation_marks(result.points)
+    if not marks:
         return RenderedPlot(key, title, None,
                             "not drawn: no point has a deviation from a fitted equation "
                             "(no fit was made)")
+    styles = source_styles(result)
+    lines = _offset_lines(result.points)
+    limit = _deviation_limit(marks, lines)
+    kept = [m for m in marks if m.status != "reject"] or marks
+    frame = _frame(_Box(*_span([m.x for m in kept]), -limit, limit), marks)
+    box = frame.box
     fig, ax = _new_figure()
     ax.axhline(0.0, color="#000000", linewidth=0.8, zorder=1)
-    limit = _deviation_limit(pts)
-    labels, pinned = _scatter_deviations(ax, pts, limit)
-    ref_pts = [p for p in pts if _finite(p.reference_deviation_percent)]
+    inside = frame.inside()
+    for source, (_, colour) in styles.items():
+        bars = [(x, y, m.u) for m, x, y in inside
+                if _style_key(styles, m) == source and m.u > 0]
+        if bars:
+            xs, ys, us = zip(*bars)
+            # cut at the box: a bar must not reach into a strip
+            ax.errorbar(xs, ys, yerr=[[min(u, y - box.y0) for y, u in zip(ys, us)],
+                                      [min(u, box.y1 - y) for y, u in zip(ys, us)]],
+                        fmt="none", ecolor=colour, elinewidth=0.8, capsize=2, alpha=0.8, zorder=2)
+    drawn_lines, off_axis = [], []
+    for source, (T, off) in lines.items():
+        colour = styles.get(source, styles.get(None, (None, "#000000")))[1]
+        if len(T) == 1:  # one kept point: a short level mark rather than no line
+            T, off = (T[0] - 0.01 * (box.x1 - box.x0), T[0] + 0.01 * (box.x1 - box.x0)), off * 2
+        xs, ys = _clipped(T, off, box)
+        if any(math.isfinite(v) for v in ys):
+            ax.plot(xs, ys, color=colour, linestyle=(0, (5, 2.5)), linewidth=1.4, zorder=2.5)
+            drawn_lines.append(source)
+    # every source whose offset is (partly) off the axis is named with it, also
+    # one whose points were all rejected and so has no line
+    for source, off in _source_offsets(result.points).items():
+        if any(abs(o) > limit for o in off):
+            lo, hi = min(off), max(off)
+            span = _offset_text(lo) if lo == hi else f"{_offset_text(lo)} to {_offset_text(hi)}"
+            off_axis.append(f"{_plain(source)} ({span})")
+    ref_in = [(x, m.ref) for m, x, _ in inside if m.ref is not None and abs(m.ref) <= limit]
+    n_ref = sum(m.ref is not None for m in marks)
     ref_note = ""
-    if ref_pts:
+    if ref_in:
         name = ((result.plot_data or {}).get("reference") or {}).get("name") or "reference"
-        ys = [_clip(p.reference_deviation_percent, limit)[0] for p in ref_pts]
-        ax.scatter([p.T_K for p in ref_pts], ys, marker="D", s=14, facecolors="none",
-                   edgecolors="#777777", linewidths=0.9, zorder=2,
-                   label=f"vs {safe_label(name, 30)}")
+        ax.scatter(*zip(*ref_in), marker="D", s=14, facecolors="none", edgecolors="#777777",
+                   linewidths=0.9, zorder=2, label=f"vs {safe_label(name, 30)}")
         ref_note = "; open grey diamonds: deviation from the reference correlation"
-    left_out = _annotate_rows(ax, labels)
-    ax.set_ylim(-limit, limit)
+        if n_ref > len(ref_in):
+            ref_note += f" ({n_ref - len(ref_in)} beyond the axis not drawn)"
+    _scatter_marks(ax, [(m, x, y) for m, x, y, _ in frame.placed], styles)
+    _draw_frame(ax, frame, {
+        "above": f"▲ {{n}} above {_num(box.y1, True)} %",
+        "below": f"▼ {{n}} below {_num(box.y0, True)} %",
+        "left": f"▲ {{n}} below T = {_num(box.x0)} K",
+        "right": f"▼ {{n}} above T = {_num(box.x1)} K"})
+    left_out = _annotate_rows(ax, [(x, y, m.row) for m, x, y in inside if m.flagged])
     ax.set_xlabel("T / K")
     ax.set_ylabel("100·(p − p_fit)/p_fit")
-    ax.legend(loc="best", frameon=True, framealpha=0.9)
-    note = ("bars are the points' standard uncertainties" + ref_note
-            + (f"; {pinned} point(s) beyond the axis are drawn at its edge, labelled "
-               "'row (deviation)'" if pinned else "")
-            + (f" ({left_out} more flagged rows not labelled)" if left_out else ""))
+    _legend_below(fig, ax, _point_key(styles, marks, drawn_lines))
+    sourced = list(styles) != [None]
+    note = ("points as printed, against the consensus fit of their branch"
+            + ("; colour and shape: source; fill: status" if sourced else "; fill: status")
+            + "; bars: the points' standard uncertainties"
+            + ("; dashed line in a source's colour: the offset the consensus fitted to that "
+               "source and removed before judging its points" if drawn_lines else "")
+            + (f"; fitted offset beyond the axis: {'; '.join(off_axis)}" if off_axis else "")
+            + ref_note
+            + _strip_note(frame, {"above": "upper", "below": "lower", "left": "left",
+                                  "right": "right"})
+            + (f"; {left_out} flagged rows not labelled, to keep the labels apart"
+               if left_out else ""))
     return RenderedPlot(key, title, _to_svg(fig, key), note)
 
 
@@ -580,10 +1037,10 @@ def plot_triple_point(result: AuditResult) -> RenderedPlot:
                 label=f"fit, {fit.branch}")
         ax.plot(1000.0 / T[~inside], y[~inside], color="#999999", linewidth=1.0, linestyle=ls,
                 label=f"fit, {fit.branch} (extrapolated)" if (~inside).any() else None)
-    pts = [p for p in _plottable(result.points) if lo <= p.T_K <= hi]
-    for status in STATUS_STYLE:
-        sel = [p for p in pts if p.status == status]
-        _scatter_status(ax, [1000.0 / p.T_K for p in sel], [math.log(p.P_Pa) for p in sel], status)
+    styles = source_styles(result)
+    marks = [_Mark(p.row, p.source or None, p.status, 1000.0 / p.T_K, math.log(p.P_Pa),
+                   _is_flagged(p)) for p in _plottable(result.points) if lo <= p.T_K <= hi]
+    _scatter_marks(ax, [(m, m.x, m.y) for m in marks], styles)
     x0, y0 = 1000.0 / tp.T_K, math.log(tp.P_Pa)
     xerr = 1000.0 * tp.u_T_K / tp.T_K ** 2 if _finite(tp.u_T_K) else None
     yerr = tp.u_P_Pa / tp.P_Pa if _finite(tp.u_P_Pa) else None
@@ -600,60 +1057,12 @@ def plot_triple_point(result: AuditResult) -> RenderedPlot:
                    label=f"reference T: {safe_label(ref_name, 24)}")
     ax.set_xlabel("1000 K / T")
     ax.set_ylabel("ln(p/Pa)")
+    # the points keep their look from the Clausius–Clapeyron plot, whose legend
+    # names it: a key here would make this figure, printed half-width beside the
+    # enthalpy, twice as tall as that one
     ax.legend(loc="best", frameon=True, framealpha=0.9)
     return RenderedPlot(key, title, _to_svg(fig, key),
-                        f"±{half:.3g} K around the estimated triple point; grey: a fit "
-                        "extrapolated beyond its data")
+                        f"±{_num(half)} K around the estimated triple point; points drawn as in "
+                        "the Clausius–Clapeyron plot; grey: a fit extrapolated beyond its data")
 
 
-# -- 5. deviation by source --------------------------------------------------------------
-def plot_source_deviation(result: AuditResult) -> RenderedPlot:
-    """Deviation from the fitted equation against T, one marker per source, with
-    each source's mean bias as a horizontal line."""
-    key, title = "sources", "Deviation by source"
-    pts = [p for p in _plottable(result.points) if _finite(p.deviation_percent) and p.source]
-    if not pts:
-        why = "no sources named in the data" if not result.dataset.sources else \
-            "no deviations from a fitted equation"
-        return RenderedPlot(key, title, None, f"not drawn: {why}")
-    fig, ax = _new_figure()
-    ax.axhline(0.0, color="#000000", linewidth=0.8, zorder=1)
-    order = list(dict.fromkeys(p.source for p in pts))
-    bias = {s.source: s.bias_percent for s in result.sources if _finite(s.bias_percent)}
-    limit = _deviation_limit(pts)
-    pinned = 0
-    pt, xlim = _pinner([p.T_K for p in _kept(pts)])
-    ax.set_xlim(*xlim)
-    for i, source in enumerate(order):
-        sel = [p for p in pts if p.source == source]
-        colour = _SOURCE_COLOURS[i % len(_SOURCE_COLOURS)]
-        marker = _SOURCE_MARKERS[i % len(_SOURCE_MARKERS)]
-        label = safe_label(source)
-        for rejected in (False, True):
-            group = [p for p in sel if (p.status == "reject") == rejected]
-            if not group:
-                continue
-            xs, ys = [], []
-            for p in group:
-                y, out_y = _clip(p.deviation_percent, limit)
-                x, out_x = pt(p.T_K)
-                pinned += out_x or out_y
-                xs.append(x)
-                ys.append(y)
-            if rejected:
-                ax.scatter(xs, ys, marker=marker, s=40, facecolors="none",
-                           edgecolors=colour, linewidths=1.2, zorder=3, label=f"{label} (rejected)")
-            else:
-                ax.scatter(xs, ys, marker=marker, s=26, color=colour,
-                           edgecolors="#000000", linewidths=0.4, zorder=3, label=label)
-        if source in bias and abs(bias[source]) <= limit:
-            T = [p.T_K for p in sel]
-            ax.hlines(bias[source], min(T), max(T), colors=colour, linestyles="--", linewidth=1.0)
-    ax.set_ylim(-limit, limit)
-    scale_note = (f"; {pinned} point(s) beyond the axis are drawn at its edge" if pinned else "")
-    ax.set_xlabel("T / K")
-    ax.set_ylabel("100·(p − p_fit)/p_fit")
-    ax.legend(loc="best", frameon=True, framealpha=0.9, ncols=2 if len(order) > 5 else 1)
-    return RenderedPlot(key, title, _to_svg(fig, key),
-                        "one marker per source; dashed lines: the source's mean bias; open "
-                        "markers: rejected points" + scale_note)

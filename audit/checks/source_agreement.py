@@ -171,7 +171,6 @@ class SourceAgreement_(Check):
             # it: one biased source would otherwise make every other look off in the opposite way.
             # an offset is measured only where other sources overlap in temperature
             # (judged on every readable row of the source, also those rejected already)
-            src_arr = np.array(src, dtype=object)
             everyone = [p for p in ctx.dataset.points if p.readable and p.source and ctx.phase(p) == branch]
             T_all = np.array([p.T_K for p in everyone])
             src_all = np.array([p.source for p in everyone], dtype=object)

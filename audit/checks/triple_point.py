@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
 
 from ..results import Cause, CheckResult, PointFlag, TriplePointRecord
 from ._fits import corrected_crossing, known_triple_point, recommended, solid_meeting_liquid

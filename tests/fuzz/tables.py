@@ -53,7 +53,7 @@ import re
 import time
 import traceback
 import warnings
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 from functools import lru_cache
 from pathlib import Path
 from typing import Callable, Sequence
@@ -356,7 +356,6 @@ class _Column:
 
 
 def _pick_header(ch: Chooser, role: str) -> _Column:
-    from audit import units as U
 
     if role == "T":
         unit = ch.pick(tuple(TEMPERATURE_SPELLINGS))

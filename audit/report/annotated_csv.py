@@ -18,7 +18,10 @@ from .atomic import write_file
 
 AUDIT_COLUMNS = ("audit_row", "audit_T_K", "audit_P_Pa", "audit_phase", "audit_status",
                  "audit_residual_sigma", "audit_flags", "audit_cause", "audit_cause_explanation",
-                 "audit_suggested_T_K", "audit_suggested_P_Pa")
+                 "audit_suggested_T_K", "audit_suggested_P_Pa",
+                 # added later (columns are only ever appended)
+                 "audit_deviation_percent", "audit_source_offset_percent", "audit_u_percent",
+                 "audit_dH_J_per_mol", "audit_u_dH_J_per_mol")
 
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 _PLAIN_NUMBER = re.compile(r"^[+-]?(\d+([.,]\d*)?|[.,]\d+)([eE][+-]?\d+)?$")
@@ -45,13 +48,18 @@ def annotated_rows(result: AuditResult):
     width = max([len(ds.header)] + [len(c) for c in ds.cells])
     header = list(ds.header) + [f"(unnamed {i + 1})" for i in range(len(ds.header), width)]
     yield [neutralise(h) for h in header] + list(AUDIT_COLUMNS)
+    # the enthalpy of the row's branch at the row's temperature (findings ``enthalpy``)
+    enthalpy = {(e.branch, e.T_K): e for e in result.enthalpy}
     for cells, v in zip(ds.cells, result.points):
         flags = " | ".join(f"{f.check} ({f.severity}): {f.message}" for f in v.flags)
         cause = v.cause
         audit = [str(v.row), _g(v.T_K), _g(v.P_Pa), v.phase, v.status, _g(v.residual_sigma), flags,
                  "" if cause is None else cause.kind, "" if cause is None else cause.explanation,
                  "" if cause is None else _g(cause.suggested_T_K),
-                 "" if cause is None else _g(cause.suggested_P_Pa)]
+                 "" if cause is None else _g(cause.suggested_P_Pa),
+                 _g(v.deviation_percent), _g(v.source_offset_percent), _g(v.u_percent)]
+        h = enthalpy.get((v.phase, v.T_K))
+        audit += ["", ""] if h is None else [_g(h.dH_J_per_mol), _g(h.u_dH_J_per_mol)]
         row = list(cells) + [""] * (width - len(cells))
         yield [neutralise(c) for c in row] + [neutralise(a) for a in audit]
 

@@ -20,7 +20,10 @@ from dataclasses import dataclass
 from typing import Any, Mapping
 
 from ..results import AuditResult
+from .actions import (SOURCE_LEVEL_CHECKS, check_anchor, row_anchor, rows_only_under_their_source, source_anchor,
+                      suggested_value_text, what_to_fix)
 from .atomic import write_file
+from .numbers import pressure_text
 
 __all__ = ["render_html", "write_html", "report_context", "format_number", "VERDICT_TEXT"]
 
@@ -91,48 +94,121 @@ def _metric_text(metrics: Mapping[str, Any], limit: int = 3) -> str:
 # -- the view model ------------------------------------------------------------------
 @dataclass(frozen=True)
 class FlaggedRow:
+    """One line of the flagged-rows table: short cells, then the row's own note."""
+
     row: int
+    anchor: str
     T_printed: str
     P_printed: str
     T_K: str
-    P_Pa: str
+    P_SI: str
     phase: str
     phase_inferred: bool
     source: str
     status: str
     sigma: str
-    why: tuple[str, ...]
+    cause: str
     suggested: str
+    note: str
+    #: sort keys for the page's sortable table (numbers as text, '' when missing)
+    sort_sigma: str
 
 
-def _flagged_rows(result: AuditResult) -> list[FlaggedRow]:
+#: the most flagged rows the PDF lists (the most severe first); the HTML lists every one and
+#: annotated.csv, attached to the PDF, carries every row
+FLAGGED_ROWS_IN_PRINT = 40
+_STATUS_ORDER = {"reject": 0, "unreadable": 1, "suspect": 2, "ok": 3}
+
+
+def format_T(T_K: Any) -> str:
+    """A temperature for a table column: 6 significant digits [K] ('—' when missing)."""
+    return format_number(T_K, 6)
+
+
+def format_sigma(z: Any) -> str:
+    """A residual in σ: one decimal up to ±999.9, then two significant digits."""
+    if not isinstance(z, (int, float)) or not math.isfinite(z):
+        return "—"
+    return f"{z:+.1f}" if abs(z) < 999.95 else f"{z:+.2g}"
+
+
+def _short_flag(f) -> str:
+    """The part of a flag message that is specific to its row (the σ has its own column)."""
+    if f.check == "outliers":
+        parts = [p.strip() for p in f.message.replace(";", ",").split(",")]
+        deviation = next((p for p in parts if "deviates" in p), "")
+        return deviation.replace(" consensus fit", " consensus") or f.message.split(";")[0]
+    return f.message
+
+
+def _row_note(v, reason: str | None) -> str:
+    notes = []
+    if v.cause is not None:
+        notes.append(v.cause.explanation)
+    elif reason and v.status == "unreadable":
+        notes.append(reason)
+    for f in v.flags:
+        if f.check in SOURCE_LEVEL_CHECKS or (v.cause is not None and f.check == "outliers"):
+            continue
+        text = _short_flag(f)
+        if text and text not in notes and text != reason:
+            notes.append(text if f.check == "outliers" else f"{f.check}: {text}")
+    return "; ".join(notes) or "—"
+
+
+def flagged_rows(result: AuditResult) -> list[FlaggedRow]:
+    """Rows with a verdict other than ok or a remark of their own, in input order.
+
+    A row kept as ok whose only remark is its source's finding is left to the
+    sources table (see :func:`audit.report.actions.rows_only_under_their_source`).
+    """
+    by_row = {p.row: p for p in result.dataset.points}
+    under_source = rows_only_under_their_source(result)
+    out = []
+    for v in result.points:
+        if not (v.status in ("suspect", "reject", "unreadable") or v.flags) or v.row in under_source:
+            continue
+        pt = by_row.get(v.row)
+        out.append(FlaggedRow(
+            row=v.row, anchor=row_anchor(v.row),
+            T_printed=_printed(pt.T_text if pt else "", pt.T_text_unit if pt else ""),
+            P_printed=_printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
+            T_K=format_T(v.T_K), P_SI=pressure_text(v.P_Pa),
+            phase=v.phase, phase_inferred=v.phase_inferred, source=v.source or "—",
+            status=v.status, sigma=format_sigma(v.residual_sigma),
+            cause=v.cause.kind if v.cause is not None else "—",
+            suggested=suggested_value_text(v) or "—",
+            note=_row_note(v, pt.reason if pt is not None else None),
+            sort_sigma=f"{abs(v.residual_sigma):.6g}" if isinstance(v.residual_sigma, (int, float))
+            and math.isfinite(v.residual_sigma) else ""))
+    return out
+
+
+def _rows_for_print(rows: list[FlaggedRow], most: int = FLAGGED_ROWS_IN_PRINT) -> list[FlaggedRow]:
+    """At most ``most`` rows, the most severe first (rejected, unreadable, suspect, remarks),
+    shown in input order."""
+    if len(rows) <= most:
+        return rows
+    keep = sorted(rows, key=lambda r: (_STATUS_ORDER.get(r.status, 9), r.row))[:most]
+    return sorted(keep, key=lambda r: r.row)
+
+
+#: the most entries the first page lists under "what to fix" (the rest: the flagged-rows table)
+MOST_ACTIONS_LISTED = 15
+
+
+def _all_rows(result: AuditResult) -> list[dict]:
+    """Every input row, short, for the page's "show all rows" list (screen only)."""
     by_row = {p.row: p for p in result.dataset.points}
     out = []
     for v in result.points:
-        if not (v.status in ("suspect", "reject", "unreadable") or v.flags):
-            continue
         pt = by_row.get(v.row)
-        why = []
-        if v.cause is not None:
-            why.append(f"likely cause ({v.cause.kind}): {v.cause.explanation}")
-        if pt is not None and pt.reason and v.status == "unreadable":
-            why.append(pt.reason)
-        why.extend(f"{f.check}: {f.message}" for f in v.flags
-                   if not (pt is not None and pt.reason and f.message == pt.reason))
-        suggested = []
-        if v.cause is not None:
-            if v.cause.suggested_T_K is not None:
-                suggested.append(f"T = {format_number(v.cause.suggested_T_K, 6)} K")
-            if v.cause.suggested_P_Pa is not None:
-                suggested.append(f"p = {format_number(v.cause.suggested_P_Pa, 5)} Pa")
-        out.append(FlaggedRow(
-            row=v.row,
-            T_printed=_printed(pt.T_text if pt else "", pt.T_text_unit if pt else ""),
-            P_printed=_printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
-            T_K=format_number(v.T_K, 6), P_Pa=format_number(v.P_Pa, 5),
-            phase=v.phase, phase_inferred=v.phase_inferred, source=v.source or "—",
-            status=v.status, sigma=_fixed(v.residual_sigma, 1),
-            why=tuple(why) or ("(no message)",), suggested="; ".join(suggested) or "—"))
+        out.append({"row": v.row, "T_printed": _printed(pt.T_text if pt else "", pt.T_text_unit if pt else ""),
+                    "P_printed": _printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
+                    "T_K": format_T(v.T_K), "P_SI": pressure_text(v.P_Pa),
+                    "phase": v.phase, "source": v.source or "—", "status": v.status,
+                    "sigma": format_sigma(v.residual_sigma),
+                    "deviation": "—" if not _is_number(v.deviation_percent) else f"{v.deviation_percent:+.3g}"})
     return out
 
 
@@ -143,9 +219,8 @@ def _printed(text: str, unit: str) -> str:
 def _fit_rows(result: AuditResult) -> list[dict]:
     rows = []
     for f in result.fits:
-        names = list(f.parameters)
         params = []
-        for i, name in enumerate(names):
+        for i, name in enumerate(f.parameters):
             u = None
             try:
                 var = f.covariance[i][i]
@@ -154,12 +229,15 @@ def _fit_rows(result: AuditResult) -> list[dict]:
                 u = None
             params.append({"name": name, "value": format_number(f.parameters[name], 8),
                            "u": format_number(u, 2)})
-        extra = {k: v for k, v in f.extra.items() if not isinstance(v, (list, tuple, dict))}
+        strongest = f.strongest_correlation()
         rows.append({"branch": branch_name(f.branch), "equation": f.equation, "params": params,
-                     "range": f"{format_number(f.T_range_K[0], 6)} – {format_number(f.T_range_K[1], 6)}",
+                     "range": f"{format_T(f.T_range_K[0])} – {format_T(f.T_range_K[1])}",
                      "n": f.n_used, "rms": format_number(f.rms_percent, 3),
                      "recommended": f.recommended,
-                     "extra": "; ".join(f"{k} = {format_number(v, 4)}" for k, v in extra.items())})
+                     "description": str(f.extra.get("description") or ""),
+                     "selection": str(f.extra.get("selection") or ""),
+                     "correlation": None if strongest is None else
+                     {"a": strongest[0], "b": strongest[1], "r": f"{strongest[2]:+.4f}"}})
     return rows
 
 
@@ -184,16 +262,55 @@ def _enthalpy_shown(values, most: int = ENTHALPY_ROWS_PER_BRANCH):
 
 
 def _enthalpy_rows(result: AuditResult) -> list[dict]:
+    """The condensed enthalpy table (``result.enthalpy_table``: round temperatures, the
+    normal boiling point, the triple point, each branch's ends); for a result without one,
+    a few data temperatures per branch."""
+    values = result.enthalpy_table or tuple(_enthalpy_shown(result.enthalpy))
     rows = []
-    for e in _enthalpy_shown(result.enthalpy):
+    for e in values:
         corrected = e.dH_J_per_mol if e.real_gas_corrected else None
         apparent = e.dH_apparent_J_per_mol if e.real_gas_corrected else e.dH_J_per_mol
-        rows.append({"branch": branch_name(e.branch), "T": format_number(e.T_K, 6),
+        rows.append({"branch": branch_name(e.branch), "T": format_T(e.T_K), "at": e.at or "",
                      "corrected": _fixed(None if corrected is None else corrected / 1000, 3),
                      "apparent": _fixed(None if apparent is None else apparent / 1000, 3),
                      "dz": _fixed(e.delta_z, 5),
                      "u": _fixed(None if e.u_dH_J_per_mol is None else e.u_dH_J_per_mol / 1000, 3)})
     return rows
+
+
+def _source_rows(result: AuditResult) -> list[dict]:
+    rows = []
+    for i, s in enumerate(result.sources):
+        x = s.extra
+        rng = x.get("T_range_K")
+        rows.append({"anchor": source_anchor(i), "source": s.source,
+                     "n": x.get("n_rows", s.n), "n_used": s.n,
+                     "T_range": (f"{rng[0]:.1f} – {rng[1]:.1f}" if isinstance(rng, (list, tuple)) and len(rng) == 2
+                                 and _is_number(rng[0]) and _is_number(rng[1]) else "—"),
+                     "scatter": format_number(x.get("scatter_percent"), 2),
+                     # fixed decimals per column: a percent to 0.01, a kelvin offset to 0.001
+                     "bias": "—" if not _is_number(s.bias_percent) else
+                     _signed_fixed(s.bias_percent, 2) + (f" ± {s.u_bias_percent:.2f}" if _is_number(s.u_bias_percent) else ""),
+                     "T_offset": "—" if not _is_number(s.temperature_offset_K) else _signed_fixed(s.temperature_offset_K, 3),
+                     "pattern": s.pattern, "status": s.status,
+                     "reason": str(x.get("reason") or "—"),
+                     "rejected": x.get("n_reject", 0)})
+    return rows
+
+
+def _signed_fixed(x: float, decimals: int) -> str:
+    """``x`` with a sign and fixed decimals; large values in exponent form so the cell stays short."""
+    return f"{x:+.{decimals}f}" if abs(x) < 1e4 else f"{x:+.2e}"
+
+
+def _is_number(x: Any) -> bool:
+    return isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x)
+
+
+def _action_rows(result: AuditResult, most: int | None = None) -> tuple[list[dict], int]:
+    actions = what_to_fix(result)
+    shown = actions if most is None else actions[:most]
+    return [{"a": a, "level": a.level, "severity": a.severity} for a in shown], len(actions) - len(shown)
 
 
 def _transitions(result: AuditResult) -> list[dict]:
@@ -230,7 +347,7 @@ def _triple_point(result: AuditResult) -> dict | None:
     return d
 
 
-def report_context(result: AuditResult, *, plots=None) -> dict:
+def report_context(result: AuditResult, *, plots=None, for_print: bool = False) -> dict:
     """Everything the template shows, prepared from ``result`` (strings and lists).
 
     ``plots`` are the :class:`~audit.report.plots.RenderedPlot` objects; by
@@ -246,6 +363,18 @@ def report_context(result: AuditResult, *, plots=None) -> dict:
         plots = render_all(result)
     substance = ds.metadata.substance or "substance not named"
     checks = [c for c in result.checks if c.status != "skipped"]
+    flagged = flagged_rows(result)
+    flagged_shown = _rows_for_print(flagged) if for_print else flagged
+    under = rows_only_under_their_source(result)
+    under_source_counts = sorted(
+        {(p.source or "—"): sum(1 for q in result.points if q.row in under and q.source == p.source)
+         for p in result.points if p.row in under}.items())
+    actions, actions_more = _action_rows(result, MOST_ACTIONS_LISTED)
+    # an entry whose row the PDF does not list points to the table itself
+    shown_anchors = {f.anchor for f in flagged_shown}
+    for item in actions:
+        anchor = item["a"].anchor
+        item["href"] = "flagged" if anchor.startswith("row-") and anchor not in shown_anchors else anchor
     skipped = [c for c in result.checks if c.status == "skipped"]
     return {
         "title": f"Vapor-pressure audit — {substance} — {ds.file_name or 'input'}",
@@ -262,16 +391,23 @@ def report_context(result: AuditResult, *, plots=None) -> dict:
         "columns": ds.columns,
         "constants": sorted(ds.metadata.constants.items()),
         "extra_meta": [(str(k), str(v)) for k, v in ds.metadata.extra.items()],
-        "flagged": _flagged_rows(result),
+        "flagged": flagged,
+        "flagged_shown": flagged_shown,
+        "under_source": under_source_counts,
+        "actions": actions,
+        "actions_more": actions_more,
+        "source_rows": _source_rows(result),
+        "all_rows": [] if for_print else _all_rows(result),
         "fits": _fit_rows(result),
         "enthalpy": _enthalpy_rows(result),
         "triple": _triple_point(result),
         "transitions": _transitions(result),
-        "enthalpy_rows_per_branch": ENTHALPY_ROWS_PER_BRANCH,
         "sources": result.sources,
         "sources_named": bool(ds.sources),
         "plots": [{"p": p, "svg": Markup(p.svg) if p.svg else None} for p in plots],
         "caution": CAUTION,
+        "severity_text": {"fail": "fix", "warn": "check", "note": "look"},
+        "status_rank": _STATUS_ORDER,
         "status_text": STATUS_TEXT,
         "status_mark": STATUS_MARK,
     }
@@ -300,6 +436,7 @@ def _environment():
                       keep_trailing_newline=True)
     env.filters["num"] = format_number
     env.filters["fixed"] = _fixed
+    env.globals["check_anchor"] = check_anchor
     return env
 
 
@@ -316,8 +453,27 @@ def render_html(result: AuditResult, *, plots=None, for_print: bool = False) -> 
     """
     env = _environment()
     css = env.loader.get_source(env, "report.css")[0]
-    ctx = report_context(result, plots=plots)
-    return env.get_template("report.html.j2").render(**ctx, css=css, for_print=for_print)
+    ctx = report_context(result, plots=plots, for_print=for_print)
+    # the page's one script (sorting the flagged rows) is allowed by its hash alone; the
+    # PDF has no use for it
+    script = "" if for_print else sort_script()
+    return env.get_template("report.html.j2").render(**ctx, css=css, for_print=for_print, script=script,
+                                                     script_hash=script_hash(script) if script else "")
+
+
+@functools.cache
+def sort_script() -> str:
+    """The inline script that sorts the flagged-rows table (the page's only script)."""
+    env = _environment()
+    return env.loader.get_source(env, "sort_flagged.js")[0].strip()
+
+
+def script_hash(script: str) -> str:
+    """The CSP source expression allowing exactly ``script`` inline ('sha256-…', CSP Level 2)."""
+    import base64
+    import hashlib
+
+    return "sha256-" + base64.b64encode(hashlib.sha256(script.encode("utf-8")).digest()).decode("ascii")
 
 
 def html_bytes(result: AuditResult, *, plots=None) -> bytes:

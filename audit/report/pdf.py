@@ -101,7 +101,9 @@ def _safe_name(name: str, fallback: str) -> str:
 
 
 def attachment_specs(result: AuditResult, input_bytes: bytes | None) -> list[AttachmentSpec]:
-    """The files the PDF carries: the input (when given), findings.json, the profile."""
+    """The files the PDF carries: the input (when given), findings.json, the profile
+    and annotated.csv (every row with its verdict: the PDF shows the flagged ones)."""
+    from .annotated_csv import annotated_bytes
     from .findings_json import findings_text
 
     specs = []
@@ -117,6 +119,9 @@ def attachment_specs(result: AuditResult, input_bytes: bytes | None) -> list[Att
     specs.append(AttachmentSpec(f"{_safe_name(result.profile_name, 'profile')}.toml",
                                 result.profile_text.encode("utf-8"), "application/toml",
                                 "Supplement", "the rule profile the audit applied"))
+    specs.append(AttachmentSpec("annotated.csv", annotated_bytes(result), "text/csv", "Data",
+                                "every input row as printed, with the audit's verdict, cause and "
+                                "suggested value"))
     return specs
 
 

@@ -18,6 +18,7 @@ class PageScan(HTMLParser):
         self.flagged_rows: list[list[str]] = []
         self._in_flagged = False
         self._row: list[str] | None = None
+        self._note = False
         self._cell: list[str] | None = None
         self.text: list[str] = []
 
@@ -29,6 +30,8 @@ class PageScan(HTMLParser):
         if tag == "table" and ("class", "flagged") in attrs:
             self._in_flagged = True
         elif self._in_flagged and tag == "tr":
+            # a row's note line (class "note") belongs to the row above it: its cells are appended
+            self._note = ("class", "note") in attrs
             self._row = []
         elif self._row is not None and tag == "td":
             self._cell = []
@@ -40,7 +43,9 @@ class PageScan(HTMLParser):
             self._row.append(" ".join("".join(self._cell).split()))
             self._cell = None
         elif tag == "tr" and self._row is not None:
-            if self._row:
+            if self._row and self._note and self.flagged_rows:
+                self.flagged_rows[-1].extend(c for c in self._row if c)
+            elif self._row:
                 self.flagged_rows.append(self._row)
             self._row = None
 

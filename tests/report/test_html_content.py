@@ -27,8 +27,9 @@ def hostile_page(hostile_result):
 
 
 def test_sections_in_the_required_order(rich_page):
-    ids = ["provenance", "checks", "figures", "flagged", "sources", "fits", "enthalpy",
-           "triple", "skipped", "caution"]
+    # what to fix first, then its evidence: sources, rows, figures, checks, equations
+    ids = ["fix", "sources", "flagged", "figures", "checks", "fits", "enthalpy",
+           "triple", "provenance", "skipped", "caution"]
     positions = [rich_page.index(f'id="{i}"') for i in ids]
     assert positions == sorted(positions)
     assert rich_page.index("Verdict: FAIL") < positions[0]
@@ -51,14 +52,16 @@ def test_flagged_table_lists_exactly_the_flagged_rows(rich_page, rich_result):
     r5 = by_row[5]
     assert r5[1].endswith("degC") and r5[2].endswith("kPa")
     assert float(r5[3]) == pytest.approx(float(r5[1].split()[0]) + 273.15, abs=0.006)  # 2 decimals printed
-    assert "rejected" in r5[7] and "decimal-shift" in r5[9]
+    assert "rejected" in r5[7] and r5[9] == "decimal-shift"
     # suggested value = the IAPWS-95 saturation pressure at row 5's temperature (5 digits shown)
     from tests.conftest import iapws_saturation_pressure
 
-    suggested = float(re.search(r"p = ([0-9.e+]+) Pa", r5[10]).group(1))
+    number, prefix = re.search(r"p = ([0-9.e+]+) (k|M|)Pa", r5[10]).groups()
+    suggested = float(number) * {"": 1.0, "k": 1e3, "M": 1e6}[prefix]
     assert suggested == pytest.approx(iapws_saturation_pressure(rich_result.points[4].T_K)[0], rel=1e-4)
     assert "suspect" in by_row[12][7]
-    assert "unreadable" in by_row[25][7] and "not a number" in by_row[25][9]
+    # the row's own note (the line under its cells) says why it is unreadable
+    assert "unreadable" in by_row[25][7] and "not a number" in by_row[25][11]
 
 
 def test_every_section_says_when_it_has_nothing(bare_result):
@@ -79,17 +82,41 @@ def test_fit_table_uncertainties_are_sqrt_of_covariance_diagonal(rich_page, rich
 
 def test_page_is_self_contained(rich_page):
     s = scan(rich_page)
-    assert not {"script", "link", "img", "iframe", "object", "embed", "a"} & set(s.tags)
-    # the only references are fragment links inside the inline SVG figures
+    assert not {"link", "img", "iframe", "object", "embed"} & set(s.tags)
+    # the only references are fragment links: the evidence links and the SVG figures' own
     assert all(v.startswith("#") for _, _, v in s.url_attrs), s.url_attrs[:5]
     assert "@import" not in rich_page and "url(http" not in rich_page
+
+
+def test_the_one_inline_script_is_allowed_by_its_hash_alone(rich_page):
+    import base64
+    import hashlib
+
+    scripts = re.findall(r"<script>(.*?)</script>", rich_page, flags=re.S)
+    assert len(scripts) == 1 and "<script src" not in rich_page
+    csp = re.search(r'http-equiv="Content-Security-Policy" content="([^"]+)"', rich_page).group(1)
+    digest = base64.b64encode(hashlib.sha256(scripts[0].encode("utf-8")).digest()).decode()
+    assert csp == f"default-src 'none'; style-src 'unsafe-inline'; script-src 'sha256-{digest}'"
+
+
+def test_the_pdf_page_has_no_script(rich_result):
+    page = render_html(rich_result, for_print=True)
+    assert "<script" not in page and "script-src" not in page
+
+
+def test_every_evidence_link_of_what_to_fix_has_its_target(rich_page):
+    targets = re.findall(r'class="evidence" href="#([^"]+)"', rich_page)
+    assert targets, "the rich result has findings to fix"
+    for t in targets:
+        assert f'id="{t}"' in rich_page, t
 
 
 def test_hostile_input_is_shown_as_text(hostile_page):
     s = scan(hostile_page)
     assert "<script>alert(1)</script>" not in hostile_page
     assert "&lt;script&gt;alert(1)&lt;/script&gt;" in hostile_page
-    assert not {"script", "img", "a", "iframe"} & set(s.tags)
+    assert s.tags.count("script") == 1  # the page's own sorting script, nothing from the input
+    assert not {"img", "iframe"} & set(s.tags)
     assert all(v.startswith("#") for _, _, v in s.url_attrs)
     text = "".join(s.text)
     assert "file:///etc/passwd" in text and "http://example.invalid/x.png" in text

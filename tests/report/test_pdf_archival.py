@@ -13,6 +13,7 @@ import io
 import pypdf
 import pytest
 
+from audit.report.annotated_csv import annotated_bytes
 from audit.report.findings_json import findings_text
 from audit.report.pdf import RefusingURLFetcher, render_pdf, write_pdf
 
@@ -43,12 +44,14 @@ def test_pdfa_3b_identification(rich_pdf):
     assert desc[0].getAttributeNS(PDFAID, "conformance") == "B"
 
 
-def test_three_attachments_with_identical_bytes(rich_pdf, rich_result):
+def test_four_attachments_with_identical_bytes(rich_pdf, rich_result):
     att = _reader(rich_pdf[0]).attachments
-    assert set(att) == {"water_planted.csv", "findings.json", "default.toml"}
+    assert set(att) == {"water_planted.csv", "findings.json", "default.toml", "annotated.csv"}
     assert att["water_planted.csv"] == [INPUT_BYTES]
     assert att["findings.json"] == [findings_text(rich_result).encode("utf-8")]
     assert att["default.toml"] == [rich_result.profile_text.encode("utf-8")]
+    # every row with its verdict: the PDF lists only the flagged ones
+    assert att["annotated.csv"] == [annotated_bytes(rich_result)]
 
 
 def test_attachments_declare_mime_type_and_relationship(rich_pdf):
@@ -64,7 +67,8 @@ def test_attachments_declare_mime_type_and_relationship(rich_pdf):
     assert found["findings.json"] == ("/application/json", "/Data")
     assert found["water_planted.csv"] == ("/text/csv", "/Source")
     assert found["default.toml"] == ("/application/toml", "/Supplement")
-    assert len(root["/AF"]) == 3  # PDF/A-3 associated files listed in the catalog
+    assert found["annotated.csv"] == ("/text/csv", "/Data")
+    assert len(root["/AF"]) == 4  # PDF/A-3 associated files listed in the catalog
 
 
 def test_document_metadata(rich_pdf):
@@ -83,7 +87,7 @@ def test_nothing_was_fetched(rich_pdf):
 def test_write_pdf_without_input_bytes(tmp_path, bare_result):
     path = tmp_path / "report.pdf"
     write_pdf(bare_result, path)
-    assert set(_reader(path.read_bytes()).attachments) == {"findings.json", "default.toml"}
+    assert set(_reader(path.read_bytes()).attachments) == {"findings.json", "default.toml", "annotated.csv"}
 
 
 def test_refusing_fetcher_refuses_local_files_and_network():

@@ -17,7 +17,7 @@ def test_html_and_pdf_share_one_drawing_of_the_figures(tmp_path, rich_result, mo
     monkeypatch.undo()
     assert written["html"].read_text(encoding="utf-8") == render_html(rich_result)
     text = " ".join(page.extract_text() for page in pypdf.PdfReader(written["pdf"]).pages)
-    assert "Clausius–Clapeyron plot." in text and "Deviation by source." in text
+    assert "Clausius–Clapeyron plot." in text and "Deviation from the consensus fit." in text
 
 
 def test_one_report_alone_draws_its_figures(tmp_path, rich_result, monkeypatch):

@@ -212,8 +212,16 @@ def _all_rows(result: AuditResult) -> list[dict]:
     return out
 
 
+#: longest cell text shown as printed in a table (the row's note and annotated.csv keep all of it)
+PRINTED_CELL_CHARS = 18
+
+
 def _printed(text: str, unit: str) -> str:
-    return f"{text} {unit}".strip() if text else "(empty)"
+    if not text:
+        return "(empty)"
+    if len(text) > PRINTED_CELL_CHARS:
+        text = text[:PRINTED_CELL_CHARS - 1].rstrip() + "…"
+    return f"{text} {unit}".strip()
 
 
 def _fit_rows(result: AuditResult) -> list[dict]:

@@ -11,6 +11,7 @@ up, so the audit itself stays cheap to import.
 
 from __future__ import annotations
 
+import math
 from dataclasses import replace
 
 from .errors import InputError
@@ -18,10 +19,10 @@ from .model import Constant, Dataset
 
 # constant name -> (chemicals function, its *_methods lister, SI unit)
 _LOOKUPS = {
+    "T_boiling": ("phase_change", "Tb", "Tb_methods", "K"),  # first: Tc is checked against it
     "T_critical": ("critical", "Tc", "Tc_methods", "K"),
     "P_critical": ("critical", "Pc", "Pc_methods", "Pa"),
     "acentric_factor": ("acentric", "omega", "omega_methods", "1"),
-    "T_boiling": ("phase_change", "Tb", "Tb_methods", "K"),
     "T_triple": ("triple", "Tt", "Tt_methods", "K"),
     "P_triple": ("triple", "Pt", "Pt_methods", "Pa"),
     "T_melting": ("phase_change", "Tm", "Tm_methods", "K"),
@@ -55,14 +56,44 @@ def library_constants(name_or_cas: str) -> tuple[str, str, dict[str, Constant]]:
     for name, (module, func, lister, unit) in _LOOKUPS.items():
         mod = importlib.import_module(f"chemicals.{module}")
         try:
-            methods = getattr(mod, lister)(cas)
-            value = getattr(mod, func)(cas)
+            methods = list(getattr(mod, lister)(cas))
         except Exception:  # the library has no value: leave the constant unknown
             continue
-        if value is None or not methods:
-            continue
-        consts[name] = Constant(float(value), unit, f"{version}, data set {methods[0]} (CAS {cas})")
+        # the library's first data set is its preferred one, but a set can carry a plain error
+        # (phenanthrene's Tc is 0.869 K in one of them): the first value that is physically
+        # possible is taken, and the ones passed over are named
+        passed_over = []
+        for method in methods:
+            try:
+                value = getattr(mod, func)(cas, method=method)
+            except Exception:
+                continue
+            if value is None or not _plausible(name, float(value), consts):
+                passed_over.append(f"{method}: {value}")
+                continue
+            source = f"{version}, data set {method} (CAS {cas})"
+            if passed_over:
+                source += f"; passed over as impossible: {', '.join(passed_over)}"
+            consts[name] = Constant(float(value), unit, source)
+            break
     return found.common_name or name_or_cas, cas, consts
+
+
+def _plausible(name: str, value: float, known: dict[str, Constant]) -> bool:
+    """Whether a library value can be physical (bounds are generous: they catch unit and
+    transcription errors, not inaccuracy)."""
+    if not math.isfinite(value):
+        return False
+    Tb = known.get("T_boiling")
+    if name in ("T_critical", "T_boiling", "T_triple", "T_melting"):
+        if not 1.0 < value < 10000.0:
+            return False
+        if name == "T_critical" and Tb is not None and value <= Tb.value:
+            return False
+        return True
+    if name in ("P_critical", "P_triple"):
+        return 0.0 < value < 1e9
+    return True
 
 
 def with_library_constants(dataset: Dataset, substance: str | None) -> Dataset:

@@ -44,7 +44,7 @@ class ClapeyronLinearity(Check):
     no runs".
 
     **Options.** ``curvature_alpha``, ``max_abs_dCp_J_per_mol_K``,
-    ``positive_dCp_k``, ``runs_alpha``.
+    ``positive_dCp_k``, ``runs_alpha``, ``min_points``.
     """
 
     id = "clapeyron-linearity"

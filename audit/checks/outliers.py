@@ -141,7 +141,7 @@ class Outliers(Check):
     **Options.** ``reject_alpha``, ``suspect_alpha``, ``correction``,
     ``max_iterations``, ``min_points``, ``min_points_source_scale``,
     ``scale_alpha``, ``source_scale_alpha``, ``max_source_scatter_percent``,
-    ``cause_k``, ``cause_ratio``.
+    ``cause_k``, ``cause_ratio``, ``min_scatter_percent``.
     """
 
     id = "outliers"

@@ -29,7 +29,10 @@ class Readability(Check):
     id = "readability"
     title = "Readable temperature and pressure values"
     method = "Each cell is parsed as a number in the column's unit; failures keep their text."
-    references = ()
+    references = ("Y. Shafranovich, RFC 4180, Common Format and MIME Type for Comma-Separated Values (CSV) "
+                  "Files (IETF, 2005).",
+                  "ISO 80000-1:2009, Quantities and units — Part 1: General, §7.3 (the decimal sign, a comma "
+                  "or a point; digits grouped by thin spaces).")
     options = {}
 
     def run(self, ctx):

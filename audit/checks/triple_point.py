@@ -39,7 +39,8 @@ class TriplePoint(Check):
     = 6.01 ± 0.05 kJ/mol; reference 273.16 K, 611.657 Pa — agrees".
 
     **Options.** ``k``, ``T_tolerance_K``, ``P_tolerance_percent``,
-    ``crossing_margin_K``, ``dH_fus_tolerance_percent``, ``phase_label_k``.
+    ``crossing_margin_K``, ``dH_fus_tolerance_percent``, ``phase_label_k``,
+    ``min_points_per_branch``.
     """
 
     id = "triple-point"

@@ -103,6 +103,8 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
     results: list[CheckResult] = []
     internal_errors: list[str] = []
     for check_id, check_cls in registry.all_checks().items():
+        if check_cls.applies_to != "table":
+            continue
         settings = profile.settings(check_id)
         if not settings.enabled:
             results.append(CheckResult(check_id, check_cls.title, "skipped",

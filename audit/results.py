@@ -257,6 +257,41 @@ class TransitionRecord:
 
 
 @dataclass(frozen=True)
+class SheetRecord:
+    """What a supplier's sheet says and what its coefficients really are (findings ``sheet``).
+
+    ``stated`` and ``decoded`` give the reading (what the equation gives, T and P units);
+    ``evidence`` the best readings with their misfits in ln P and the reasons; ``si`` the
+    coefficients in SI (T in K, P in Pa, log10 and ln); ``reference`` the reference used and the
+    equation's deviation from it over the stated range.
+    """
+
+    form: str
+    expression: str | None
+    coefficients: Mapping[str, float]
+    stated: Mapping[str, Any]
+    decoded: Mapping[str, Any]
+    differs: bool
+    basis: str
+    evidence: tuple[Mapping[str, Any], ...]
+    T_range_K: tuple[float, float] | None
+    si: Mapping[str, Any]
+    reference: Mapping[str, Any] | None
+    supplier: str | None = None
+    product: str | None = None
+
+    def to_dict(self) -> dict:
+        return _jsonable({"form": self.form, "expression": self.expression,
+                          "coefficients": dict(self.coefficients), "stated": dict(self.stated),
+                          "decoded": dict(self.decoded), "differs_from_stated": self.differs,
+                          "decided_by": self.basis, "evidence": [dict(e) for e in self.evidence],
+                          "T_range_K": None if self.T_range_K is None else list(self.T_range_K),
+                          "si_coefficients": dict(self.si),
+                          "reference": None if self.reference is None else dict(self.reference),
+                          "supplier": self.supplier, "product": self.product})
+
+
+@dataclass(frozen=True)
 class AuditResult:
     """Everything one audit of one dataset under one profile found."""
 
@@ -282,6 +317,8 @@ class AuditResult:
     plot_data: Mapping[str, Any] = field(default_factory=dict, compare=False, repr=False)
     #: "check-id: ExceptionType: message" for each check an unexpected exception stopped
     internal_errors: tuple[str, ...] = ()
+    #: a supplier sheet's stated and decoded reading (None for a table audit)
+    sheet: SheetRecord | None = None
 
     @property
     def verdict(self) -> str:
@@ -339,6 +376,7 @@ class AuditResult:
             "internal_errors": list(self.internal_errors),
             "transitions": [t.to_dict() for t in self.transitions],
             "enthalpy_table": [e.to_dict() for e in self.enthalpy_table],
+            **({"sheet": self.sheet.to_dict()} if self.sheet is not None else {}),
         }
 
 

@@ -27,6 +27,12 @@ _CHECK_MODULES = (
     "enthalpy_continuity",
     "enthalpy_plausibility",
     "reference_agreement",
+    # supplier sheets (applies_to = "sheet"): run by audit.sheet.run, not by the table audit
+    "sheet_units",
+    "sheet_table",
+    "sheet_reference",
+    "sheet_enthalpy",
+    "sheet_range",
 )
 
 _loaded = False

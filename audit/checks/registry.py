@@ -70,9 +70,13 @@ class Check:
     references : tuple of str
         Published sources of the method.
     options : dict of str to Option
+    applies_to : {'table', 'sheet'}
+        What the check audits: a table of pressures (:func:`audit.pipeline.run_audit`)
+        or a supplier's sheet (:func:`audit.sheet.run.run_sheet_audit`).
     """
 
     id: ClassVar[str]
+    applies_to: ClassVar[str] = "table"
     title: ClassVar[str]
     method: ClassVar[str] = ""
     references: ClassVar[tuple[str, ...]] = ()

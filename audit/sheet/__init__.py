@@ -1,0 +1,1 @@
+"""Supplier vapor-pressure sheets: an equation with its coefficients, stated units and range."""

@@ -73,6 +73,16 @@ def build_parser() -> argparse.ArgumentParser:
     c.add_argument("--audit-time", metavar="ISO8601",
                    help="time stamp to record (default: now, or SOURCE_DATE_EPOCH)")
 
+    sh = sub.add_parser("sheet", help="check a supplier sheet's vapor-pressure equation (a sheet file) "
+                                      "against its units, its table, a reference and its stated range")
+    sh.add_argument("sheet_file", metavar="SHEET", help="sheet file (.toml; see the README's example)")
+    sh.add_argument("--profile", default="default", help="rule profile name or .toml path (default: default)")
+    sh.add_argument("--out", help="output folder (default: sheet-<sheet file stem>)")
+    sh.add_argument("--format", default=None, help="as for check")
+    sh.add_argument("--strict", action="store_true", help="exit 1 on a warn verdict too")
+    sh.add_argument("--audit-time", metavar="ISO8601",
+                    help="time stamp to record (default: now, or SOURCE_DATE_EPOCH)")
+
     d = sub.add_parser("demo", help="audit the bundled synthetic demo data")
     d.add_argument("--out", default="reports_demo", help="output folder (default: reports_demo)")
     d.add_argument("--format", default=None, help="as for check")
@@ -136,6 +146,43 @@ def cmd_check(args) -> int:
         print(f"vpaudit: internal error in '{check}': {what} — a bug in vpaudit, not in your data; the other "
               "checks ran and the outputs are written; please report it with the input file "
               "(VPAUDIT_DEBUG=1 shows the traceback)", file=sys.stderr)
+    if result.internal_errors:
+        return EXIT_INTERNAL
+    return _exit_code(result.verdict, args.strict)
+
+
+def audit_sheet_file(path: str, *, profile: str = "default", audited_at: str | None = None):
+    """Read and check one sheet file; return (sheet, profile, result)."""
+    from .profiles import load_profile
+    from .sheet.read import read_sheet
+    from .sheet.run import run_sheet_audit
+
+    prof = load_profile(profile)
+    sheet = read_sheet(path)
+    return sheet, prof, run_sheet_audit(sheet, prof, audited_at=audited_at)
+
+
+def cmd_sheet(args) -> int:
+    from .report import parse_formats, write_outputs
+
+    formats = parse_formats(args.format or _available_formats())
+    _, _, result = audit_sheet_file(args.sheet_file, profile=args.profile, audited_at=args.audit_time)
+    out = Path(args.out or f"sheet-{Path(args.sheet_file).stem}")
+    written = write_outputs(result, out, formats, input_bytes=Path(args.sheet_file).read_bytes())
+    sh = result.sheet
+    print(f"{result.dataset.file_name}: verdict {result.verdict.upper()} — "
+          f"{result.dataset.metadata.substance or 'substance not named'}, {sh.form} equation")
+    stated = sh.stated
+    print(f"  stated:  gives {stated.get('gives') or '?'}, T in {stated.get('T_unit') or '?'}, "
+          f"P in {stated.get('P_unit') or '?'}")
+    print(f"  decoded: {sh.decoded['label']} ({sh.basis})" + ("  <- not as stated" if sh.differs else ""))
+    for c in result.checks:
+        if c.status in ("warn", "fail"):
+            print(f"  {c.status:4s} {c.id}: {c.message}")
+    for line in _finding_lines(result):
+        print(line)
+    for fmt, path in written.items():
+        print(f"  {fmt:4s} {path}")
     if result.internal_errors:
         return EXIT_INTERNAL
     return _exit_code(result.verdict, args.strict)
@@ -259,7 +306,7 @@ def main(argv: list[str] | None = None) -> int:
         if args.command is None:
             parser.print_help()
             return EXIT_UNUSABLE
-        handler = {"check": cmd_check, "demo": cmd_demo, "profiles": cmd_profiles,
+        handler = {"check": cmd_check, "sheet": cmd_sheet, "demo": cmd_demo, "profiles": cmd_profiles,
                    "explain": cmd_explain}[args.command]
         return handler(args)
     except InputError as exc:

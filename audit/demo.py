@@ -19,14 +19,23 @@ DEMO_AUDIT_TIME = "2026-12-01T00:00:00Z"
 DATA_SUFFIXES = (".csv", ".tsv", ".txt", ".xlsx", ".json")
 
 
+SHEET_SUFFIX = ".sheet.toml"
+
+
 def demo_inputs() -> list[str]:
     """File names of the bundled demo tables."""
     root = resources.files("audit.demo_data")
     return sorted(p.name for p in root.iterdir() if p.name.endswith(DATA_SUFFIXES))
 
 
+def demo_sheets() -> list[str]:
+    """File names of the bundled demo supplier sheets (``*.sheet.toml``)."""
+    root = resources.files("audit.demo_data")
+    return sorted(p.name for p in root.iterdir() if p.name.endswith(SHEET_SUFFIX))
+
+
 def run_demo(out: Path, formats: str | None = None) -> list[Path]:
-    from .cli import _summary_line, audit_file
+    from .cli import _summary_line, audit_file, audit_sheet_file
     from .pipeline import audit_time
     from .report import available_formats, parse_formats, write_outputs
 
@@ -49,6 +58,18 @@ def run_demo(out: Path, formats: str | None = None) -> list[Path]:
         _, _, result = audit_file(str(data), audited_at=audit_time(fixed))
         write_outputs(result, folder, fmts, input_bytes=data.read_bytes())
         print(_summary_line(result))
+        print(f"  written to {folder}/")
+        folders.append(folder)
+    for name in demo_sheets():
+        folder = out / name[:-len(SHEET_SUFFIX)].replace(".", "_").__add__("_sheet")
+        folder.mkdir(parents=True, exist_ok=True)
+        with resources.as_file(root.joinpath(name)) as path:
+            shutil.copyfile(path, folder / name)
+        sheet_path = folder / name
+        _, _, result = audit_sheet_file(str(sheet_path), audited_at=audit_time(fixed))
+        write_outputs(result, folder, fmts, input_bytes=sheet_path.read_bytes())
+        print(f"{result.dataset.file_name}: verdict {result.verdict.upper()} — sheet decoded as "
+              f"{result.sheet.decoded['label']}" + (" (not as stated)" if result.sheet.differs else ""))
         print(f"  written to {folder}/")
         folders.append(folder)
     return folders

@@ -204,3 +204,39 @@ def test_check_names_each_planted_row_its_cause_and_the_biased_source(tmp_path, 
     bias, u = map(float, re.search(r"Castell et al. 1994' suspect: pattern pressure-scale, "
                                    r"bias \+([\d.]+) ± ([\d.]+) %", out).groups())
     assert abs(bias - 1.2) < 3 * u, out
+
+
+def _demo_sheet(tmp_path) -> Path:
+    from importlib import resources
+
+    src = resources.files("audit.demo_data").joinpath("supplier_toluene.sheet.toml")
+    path = tmp_path / "supplier_toluene.sheet.toml"
+    path.write_bytes(src.read_bytes())
+    return path
+
+
+def test_sheet_command_decodes_the_demo_sheet_and_writes_the_outputs(tmp_path, capsys):
+    sheet = _demo_sheet(tmp_path)
+    before = sheet.read_bytes()
+    out = tmp_path / "out"
+    code = main(["sheet", str(sheet), "--out", str(out), "--format", "json,csv,html",
+                 "--audit-time", "2026-12-01T00:00:00Z"])
+    text = capsys.readouterr().out
+    assert code == 0  # a warning: exit 1 only with --strict
+    assert "decoded: log10(P/mmHg) with T in °C (reference)  <- not as stated" in text
+    assert "row 5 " in text and "reject" in text
+    findings = json.loads((out / "findings.json").read_text(encoding="utf-8"))
+    validate_findings(findings)
+    assert findings["sheet"]["decoded"]["P_unit"] == "mmHg/Torr" and findings["sheet"]["differs_from_stated"]
+    assert (out / "report.html").exists() and (out / "annotated.csv").exists()
+    assert sheet.read_bytes() == before  # the sheet is only read
+    assert main(["sheet", str(sheet), "--out", str(out), "--format", "json", "--strict"]) == 1
+
+
+def test_sheet_command_with_an_unusable_sheet_is_exit_2_with_one_message(tmp_path, capsys):
+    bad = tmp_path / "bad.toml"
+    bad.write_text('[sheet]\nsubstance = "toluene"\n[equation]\nform = "antoine"\ncoefficients = { A = 1 }\n',
+                   encoding="utf-8")
+    assert main(["sheet", str(bad), "--out", str(tmp_path / "o")]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "bad.toml" in err[0] and "needs coefficient(s) B, C" in err[0]

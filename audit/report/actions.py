@@ -34,7 +34,7 @@ Severity = Literal["fail", "warn", "note"]
 #: checks whose row flags restate a finding about the row's whole source
 SOURCE_LEVEL_CHECKS = frozenset({"source-agreement", "copied-values"})
 #: checks whose findings are all carried by row statuses and flags
-ROW_LEVEL_CHECKS = frozenset({"readability", "physical-range", "outliers", "monotonic", "duplicates"})
+ROW_LEVEL_CHECKS = frozenset({"readability", "physical-range", "outliers", "monotonic", "duplicates", "sheet-table"})
 
 _SEVERITY_RANK = {"fail": 0, "warn": 1, "note": 2}
 _LEVEL_RANK = {"source": 0, "block": 1, "row": 2, "dataset": 3}
@@ -58,6 +58,10 @@ _CHECK_ACTION = {
     "enthalpy-plausibility": "check the units and the substance of the whole table",
     "clapeyron-linearity": "check the curvature: a mixed phase, a shifted series or a wrong unit",
     "reference-agreement": "compare the data with the reference correlation's own range and uncertainty",
+    "sheet-units": "ask the supplier to correct the unit note, or use the coefficients in the units decoded",
+    "sheet-reference": "ask the supplier for the source of the coefficients; do not use them beyond the tolerance",
+    "sheet-enthalpy": "do not take enthalpies or boil-off rates from this equation; ask for a better fit",
+    "sheet-range": "use the equation only where the table or the reference supports it",
 }
 
 

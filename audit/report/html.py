@@ -421,6 +421,67 @@ def report_context(result: AuditResult, *, plots=None, for_print: bool = False) 
     }
 
 
+def sheet_context(result: AuditResult) -> dict:
+    """What the sheet report shows beyond the common frame (``result.sheet`` is set)."""
+    from ..sheet.readings import unit_label
+
+    sh = result.sheet
+    ev = {e.get("label"): e for e in sh.evidence}
+    stated_ev = next((e for e in sh.evidence if e.get("as_stated")), None)
+    st = sh.stated
+    stated_parts = [f"gives {st['gives']}" if st.get("gives") else "does not say what it gives (log10, ln, P)",
+                    f"T in {unit_label(st['T_unit'])}" if st.get("T_unit") else "no temperature unit",
+                    f"P in {st['P_unit']}" if st.get("P_unit") else "no pressure unit"]
+    rng = st.get("range")
+    T_K = sh.T_range_K
+    ref = sh.reference
+    reference = "none known (give one in the sheet as [reference_equation])"
+    if ref is not None:
+        reference = ref["name"]
+        if ref.get("max_deviation_percent") is not None:
+            reference += (f"; largest deviation {ref['max_deviation_percent']:+.3g} % at {ref['at_K']:.5g} K, "
+                          f"rms {ref['rms_deviation_percent']:.2g} %, over {ref['compared_K'][0]:.5g}–"
+                          f"{ref['compared_K'][1]:.5g} K")
+    best = ev.get(sh.decoded["label"]) or (sh.evidence[0] if sh.evidence else {})
+    view = {
+        "supplier": sh.supplier, "product": sh.product,
+        "equation": sh.expression or sh.form,
+        "coefficients": ", ".join(f"{k} = {v:.10g}" for k, v in sh.coefficients.items()),
+        "stated": "; ".join(stated_parts),
+        "decoded": sh.decoded["label"], "differs": sh.differs, "basis": sh.basis,
+        "evidence": best.get("summary", "—"),
+        "stated_evidence": stated_ev.get("summary", "—") if stated_ev else "—",
+        "range": ("not stated" if not rng else
+                  f"{rng[0]:g} to {rng[1]:g} (in the decoded unit: {T_K[0]:.5g}–{T_K[1]:.5g} K)" if T_K else
+                  f"{rng[0]:g} to {rng[1]:g}"),
+        "reference": reference,
+    }
+    table_rows = []
+    for v, pt in zip(result.points, result.dataset.points):
+        table_rows.append({"row": v.row, "anchor": row_anchor(v.row),
+                           "T_printed": _printed(pt.T_text, unit_label(pt.T_text_unit)),
+                           "P_printed": _printed(pt.P_text, pt.P_text_unit), "T_K": format_T(v.T_K),
+                           "P_SI": pressure_text(v.P_Pa),
+                           "deviation": "—" if not _is_number(v.deviation_percent) else f"{v.deviation_percent:+.3g}",
+                           "status": v.status, "cause": v.cause.kind if v.cause else "—",
+                           "suggested": suggested_value_text(v) or "—"})
+    si = dict(sh.si)
+    names, rows = [], []
+    for base in ("log10", "ln"):
+        if isinstance(si.get(base), dict):
+            part = si[base]
+            names = [k for k in part if k != "equation"]
+            rows.append({"equation": part["equation"], "values": [format_number(part[k], 10) for k in names]})
+    if si.get("form", "").startswith("wagner"):
+        names = ["a", "b", "c", "d", "Tc_K", "Pc_Pa"]
+        rows.append({"equation": si.get("equation", ""), "values": [format_number(si.get(k), 10) for k in names]})
+    note = ("Exact conversion of the decoded coefficients." if si.get("exact") else
+            si.get("note", "No conversion to SI is available for this form."))
+    return {"sh": view, "table_rows": table_rows, "si_names": names, "si_rows": rows, "si_note": note,
+            "title": f"Supplier sheet check — {result.dataset.metadata.substance or 'substance not named'} — "
+                     f"{result.dataset.file_name or 'sheet'}"}
+
+
 #: how a branch is named to a reader: a branch whose phase is not known may be either process
 _BRANCH_NAMES = {"liquid": "liquid (vaporization)", "solid": "solid (sublimation)",
                  "unknown": "vaporization or sublimation (phase not known)"}
@@ -462,11 +523,16 @@ def render_html(result: AuditResult, *, plots=None, for_print: bool = False) -> 
     env = _environment()
     css = env.loader.get_source(env, "report.css")[0]
     ctx = report_context(result, plots=plots, for_print=for_print)
+    if result.sheet is not None:
+        ctx.update(sheet_context(result))
     # the page's one script (sorting the flagged rows) is allowed by its hash alone; the
     # PDF has no use for it
     script = "" if for_print else sort_script()
-    return env.get_template("report.html.j2").render(**ctx, css=css, for_print=for_print, script=script,
-                                                     script_hash=script_hash(script) if script else "")
+    if result.sheet is not None:
+        script = ""  # the sheet's table is short: nothing to sort
+    template = "sheet.html.j2" if result.sheet is not None else "report.html.j2"
+    return env.get_template(template).render(**ctx, css=css, for_print=for_print, script=script,
+                                             script_hash=script_hash(script) if script else "")
 
 
 @functools.cache

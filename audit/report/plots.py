@@ -157,6 +157,8 @@ def render_all(result: AuditResult) -> tuple[RenderedPlot, ...]:
     There is no separate figure of the deviations by source: the deviation
     plot shows each source's points and fitted offset itself.
     """
+    if result.sheet is not None:
+        return plot_sheet_reference(result), plot_enthalpy(result)
     return (
         plot_clapeyron(result),
         plot_deviation(result),
@@ -1066,3 +1068,48 @@ def plot_triple_point(result: AuditResult) -> RenderedPlot:
                         "the Clausius–Clapeyron plot; grey: a fit extrapolated beyond its data")
 
 
+# -- a supplier's sheet: its equation against the reference -----------------------------
+def plot_sheet_reference(result: AuditResult) -> RenderedPlot:
+    """100·(P_sheet/P_ref − 1) over the stated range: the equation as decoded (solid), as the
+    sheet states it when that differs (dashed), and the sheet's table rows (markers by status)."""
+    key, title = "sheet", "The sheet's equation against the reference"
+    data = (result.plot_data or {}).get("sheet_reference") or {}
+    T = [t for t in data.get("T_K", ())]
+    dev = list(data.get("deviation_percent", ()))
+    pairs = [(t, d) for t, d in zip(T, dev) if _finite(t, d)]
+    if len(pairs) < 2:
+        return RenderedPlot(key, title, None, "not drawn: no reference to compare the equation with over "
+                                              "its stated range")
+    fig, ax = _new_figure()
+    ax.axhline(0.0, color="#000000", linewidth=0.8, zorder=1)
+    ax.plot(*zip(*pairs), color=OKABE_ITO["blue"], linewidth=1.6, label="the equation as decoded", zorder=3)
+    spans = [abs(d) for _, d in pairs]
+    stated = [(t, d) for t, d in zip(T, data.get("stated_deviation_percent", ())) if _finite(t, d)]
+    note_stated = ""
+    if stated:
+        ax.plot(*zip(*stated), color=OKABE_ITO["vermillion"], linewidth=1.4, linestyle="--",
+                label=f"as stated: {safe_label(data.get('stated_label', ''), 40)}", zorder=2)
+        note_stated = ("; dashed: the equation read as the sheet states it"
+                       + (f" (up to {max(abs(d) for _, d in stated):.3g} % off)" if stated else ""))
+    rows = [r for r in data.get("table", ()) if _finite(r.get("T_K"), r.get("deviation_percent"))]
+    for status, marker, fill in (("ok", "o", True), ("reject", "X", False), ("suspect", "^", False)):
+        sel = [r for r in rows if r.get("status") == status]
+        if sel:
+            ax.scatter([r["T_K"] for r in sel], [r["deviation_percent"] for r in sel], marker=marker, s=36,
+                       facecolors=OKABE_ITO["bluish_green"] if fill else "none",
+                       edgecolors=OKABE_ITO["bluish_green"] if fill else "#000000", linewidths=1.0, zorder=4,
+                       label=f"table rows, {STATUS_STYLE[status]['label'] if status in STATUS_STYLE else status}")
+    limit = max(max(spans) * 1.3, 0.5)
+    kept = [r for r in rows if abs(r["deviation_percent"]) <= 4 * limit]
+    limit = max([limit] + [abs(r["deviation_percent"]) * 1.15 for r in kept])
+    beyond = [r["row"] for r in rows if abs(r["deviation_percent"]) > limit]
+    ax.set_ylim(-limit, limit)
+    if stated and max(abs(d) for _, d in stated) > limit:
+        note_stated += ", beyond the axis"
+    ax.set_xlabel("T / K")
+    ax.set_ylabel("100·(p − p_ref)/p_ref")
+    ax.legend(loc="best", frameon=True, framealpha=0.9)
+    note = (f"against {data.get('name', 'the reference')}, over the stated range where it is valid"
+            + note_stated
+            + (f"; table rows beyond the axis: {', '.join(map(str, beyond))}" if beyond else ""))
+    return RenderedPlot(key, title, _to_svg(fig, key), note)

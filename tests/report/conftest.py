@@ -307,3 +307,14 @@ def large_compilation_result(tmp_path_factory) -> AuditResult:
     path = tmp_path_factory.mktemp("large") / "large_compilation.csv"
     path.write_text("\n".join(lines) + "\n", encoding="utf-8")
     return audit_file(str(path), audited_at=AUDIT_TIME)[2]
+
+
+@pytest.fixture(scope="session")
+def demo_sheet_result() -> AuditResult:
+    """The check of the bundled demo supplier sheet (SYNTHETIC, reports_demo/README.md)."""
+    from importlib import resources
+
+    from audit.cli import audit_sheet_file
+
+    with resources.as_file(resources.files("audit.demo_data").joinpath("supplier_toluene.sheet.toml")) as path:
+        return audit_sheet_file(str(path), audited_at=AUDIT_TIME)[2]

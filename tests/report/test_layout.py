@@ -5,7 +5,8 @@ Every report the suite renders is checked here: the constructed results of
 ``conftest`` (water from IAPWS-95 / IAPWS R14-08 with planted faults, a hostile
 input, a bare result, a real pipeline run), the two bundled demo audits
 (SYNTHETIC data, ``reports_demo/README.md``) and a 2 000-row SYNTHETIC
-compilation (IAPWS-IF97 water, four invented series).
+compilation (IAPWS-IF97 water, four invented series), and the check of the
+demo supplier sheet.
 """
 
 from __future__ import annotations
@@ -22,7 +23,8 @@ from ._layout import cell_overflows, non_numbers, overlapping_glyphs, page_count
 from .conftest import LARGE_BIASED_SOURCE, LARGE_KPA_ROWS
 
 EVERY_REPORT = ("rich_result", "hostile_result", "bare_result", "pipeline_fault_result",
-                "demo_literature_result", "demo_supplier_result", "large_compilation_result")
+                "demo_literature_result", "demo_supplier_result", "large_compilation_result",
+                "demo_sheet_result")
 
 _pdf_cache: dict[str, bytes] = {}
 
@@ -94,3 +96,16 @@ def test_a_2000_row_compilation_fits_eight_pages_and_points_to_the_attached_csv(
     # the planted kPa rows are found, and the biased series is a finding of its own
     assert {p.row for p in result.points if p.cause is not None and p.cause.kind == "pressure-unit"} >= set(LARGE_KPA_ROWS[:40])
     assert f"source '{LARGE_BIASED_SOURCE}'" in text
+
+
+def test_the_demo_sheet_says_on_page_one_what_its_coefficients_are_and_which_row_is_wrong(request):
+    pdf = _pdf(request, "demo_sheet_result")
+    first = " ".join(_page_texts(pdf)[0].split())
+    assert "log10(P/mmHg) with T in °C ▲ not as stated" in first
+    assert "the sheet states gives log10; T in °C; P in kPa" in first
+    assert "the sheet states log10(P/kPa) with T in °C, but the coefficients are log10(P/mmHg) with T in °C" in first
+    assert re.search(r"row 5: rejected \([^)]*\), no likely cause found; sheet-table: row 5 \(70 °C, 191\.55\): "
+                     r"-6 % from the equation", first)
+    # how far the equation strays from the reference over its stated range
+    assert re.search(r"largest deviation [+-]0\.\d+ % at [0-9.]+ K, rms [0-9.]+ %, over", first)
+    assert page_count(pdf) <= 3

@@ -65,6 +65,46 @@ def supplier_sheet() -> None:
 R = 8.314462618  # J/(mol K), CODATA 2018
 
 
+def supplier_equation_sheet() -> None:
+    """A supplier's equation sheet for toluene whose unit note is wrong.
+
+    An Antoine equation log10(P/mmHg) = A − B/(t/°C + C) is fitted (weighted least squares
+    in ln P) to the saturation pressure of toluene from the reference equation of state of
+    Lemmon & Span, J. Chem. Eng. Data 51, 785 (2006), via CoolProp, at 0–130 °C; the sheet
+    prints its constants to the usual digits and states them for kPa.  Its table prints the
+    equation's own values in mmHg to 0.01 (also under the kPa note), except the 70 °C row,
+    copied from another grade's sheet (6 % lower).
+    """
+    import CoolProp.CoolProp as CP
+    from scipy.optimize import least_squares
+
+    t = np.linspace(0.0, 130.0, 27)
+    p_mmhg = np.array([CP.PropsSI("P", "T", x + 273.15, "Q", 0, "toluene") for x in t]) / MMHG_PA
+
+    def resid(c):
+        return np.log(10) * (c[0] - c[1] / (t + c[2])) - np.log(p_mmhg)
+
+    A, B, C = least_squares(resid, [7.0, 1345.0, 219.0]).x
+    A, B, C = round(A, 5), round(B, 3), round(C, 3)
+    rows = []
+    for x in (0, 20, 40, 60, 70, 80, 100, 110):
+        p = 10 ** (A - B / (x + C))
+        if x == 70:
+            p *= 0.94  # copied from another grade's sheet
+        rows.append(f"  [{x}, \"{p:.2f}\"],")  # as text: the printed digits are kept
+    text = (
+        "# SYNTHETIC demo: a supplier's vapor-pressure sheet for toluene (invented supplier).\n"
+        "# The constants were fitted for this demo to CoolProp's reference equation of state of\n"
+        "# toluene (Lemmon & Span 2006) in mmHg and degC; the sheet states kPa by mistake, and its\n"
+        "# 70 degC row is copied from another grade. See reports_demo/README.md.\n\n"
+        "[sheet]\nsubstance = \"toluene\"\ncas = \"108-88-3\"\n"
+        "supplier = \"Northfield Solvents (invented)\"\nproduct = \"Toluene, reagent grade, data sheet rev. 3\"\n\n"
+        f"[equation]\nform = \"antoine\"\ncoefficients = {{ A = {A}, B = {B}, C = {C} }}\n"
+        "gives = \"log10\"\nT_unit = \"degC\"\nP_unit = \"kPa\"\nrange = [0.0, 130.0]\n\n"
+        "[table]\nrows = [\n" + "\n".join(rows) + "\n]\n")
+    (OUT / "supplier_toluene.sheet.toml").write_text(text, encoding="utf-8")
+
+
 def _benzene_curves():
     """Liquid and solid vapor-pressure functions of benzene [Pa].
 
@@ -183,4 +223,5 @@ if __name__ == "__main__":
     OUT.mkdir(parents=True, exist_ok=True)
     supplier_sheet()
     literature_merge()
+    supplier_equation_sheet()
     print(f"wrote demo data to {OUT}")

@@ -85,3 +85,45 @@ def test_committed_demo_findings_match_the_current_audit(name, default_profile):
         return f["verdict"], rows, sources
 
     assert verdicts(committed) == verdicts(now), "run `make demo` to regenerate reports_demo/"
+
+
+def _audit_demo_sheet(default_profile):
+    from audit.sheet.read import read_sheet
+    from audit.sheet.run import run_sheet_audit
+
+    path = resources.files("audit") / "demo_data" / "supplier_toluene.sheet.toml"
+    with resources.as_file(path) as p:
+        return run_sheet_audit(read_sheet(p), default_profile, audited_at="2026-12-01T00:00:00Z")
+
+
+def test_supplier_sheet_is_decoded_as_mmhg_and_its_copied_row_found(default_profile):
+    # the sheet states kPa and °C for an Antoine equation fitted (for the demo) to CoolProp's
+    # toluene in mmHg and °C; its 70 °C row was copied from another grade (6 % low)
+    res = _audit_demo_sheet(default_profile)
+    sh = res.sheet
+    assert sh.differs and sh.decoded["P_unit"] == "mmHg/Torr" and sh.decoded["T_unit"] == "degC"
+    assert sh.basis == "reference"
+    checks = {c.id: c for c in res.checks}
+    assert checks["sheet-units"].status == "warn" and "log10(P/mmHg) with T in °C" in checks["sheet-units"].message
+    assert {p.row: p.status for p in res.points if p.status != "ok"} == {5: "reject"}
+    row5 = next(p for p in res.points if p.row == 5)
+    assert row5.cause is None and row5.deviation_percent == pytest.approx(-6.0, abs=0.05)
+    # the fitted equation follows the Lemmon–Span equation of state within a few tenths of a percent,
+    # and the reference (a published Wagner set) within the 5 % tolerance
+    assert checks["sheet-reference"].status == "pass"
+    assert abs(checks["sheet-reference"].metrics["max_deviation_percent"]) < 1.0
+
+
+def test_committed_demo_sheet_findings_match_the_current_check(default_profile):
+    import json
+    from pathlib import Path
+
+    committed = json.loads((Path(__file__).parents[1] / "reports_demo" / "supplier_toluene_sheet" /
+                            "findings.json").read_text(encoding="utf-8"))
+    now = _audit_demo_sheet(default_profile).to_findings()
+
+    def verdicts(f):
+        return (f["verdict"], f["sheet"]["decoded"]["label"], f["sheet"]["differs_from_stated"],
+                [(p["row"], p["status"]) for p in f["points"]], [(c["id"], c["status"]) for c in f["checks"]])
+
+    assert verdicts(committed) == verdicts(now), "run `make demo` to regenerate reports_demo/"

@@ -31,7 +31,6 @@ import tomllib
 from dataclasses import dataclass, field
 from importlib import resources
 from pathlib import Path
-from types import MappingProxyType
 from typing import Any, Mapping
 
 from .checks.registry import Option
@@ -53,8 +52,36 @@ class CheckSettings:
         return self.options[key]
 
 
+class FrozenMapping(Mapping):
+    """A read-only mapping that pickles (``types.MappingProxyType`` does not), so that a
+    resolved profile travels to worker processes and Dask workers with the audit."""
+
+    __slots__ = ("_data",)
+
+    def __init__(self, data=()):
+        object.__setattr__(self, "_data", dict(data))
+
+    def __getitem__(self, key):
+        return self._data[key]
+
+    def __iter__(self):
+        return iter(self._data)
+
+    def __len__(self):
+        return len(self._data)
+
+    def __repr__(self):
+        return f"FrozenMapping({self._data!r})"
+
+    def __reduce__(self):
+        return (FrozenMapping, (self._data,))
+
+    def __setattr__(self, name, value):
+        raise AttributeError("a FrozenMapping cannot be changed")
+
+
 #: what ``[limits]`` may say, declared and validated as a check's options are
-LIMIT_OPTIONS: Mapping[str, Option] = MappingProxyType({
+LIMIT_OPTIONS: Mapping[str, Option] = FrozenMapping({
     "max_rows": Option(int, "most data rows one audit accepts; a larger table is refused with one "
                             "message before its rows become points", unit="rows", minimum=1),
 })
@@ -257,7 +284,7 @@ def load_profile(name_or_path: str | Path = "default") -> Profile:
                              hint=f"known options: {', '.join(sorted(check.options)) or 'none'}; "
                                   f"see 'vpaudit explain {check_id}'")
         checks[check_id] = CheckSettings(enabled=enabled, severity=severity,
-                                         options=MappingProxyType(options))
+                                         options=FrozenMapping(options))
     unknown_checks = sorted(set(merged) - set(known))
     if unknown_checks:
         raise InputError(f"unknown check(s) in profile: {', '.join(unknown_checks)}", file=display0,
@@ -265,7 +292,7 @@ def load_profile(name_or_path: str | Path = "default") -> Profile:
     return Profile(
         name=str(head.get("name", stem0)),
         description=str(head.get("description", "")),
-        checks=MappingProxyType(checks),
+        checks=FrozenMapping(checks),
         limits=_resolve_limits(merged_limits, display0),
         sha256=hashlib.sha256(data0).hexdigest(),
         path=display0,

@@ -83,6 +83,24 @@ def build_parser() -> argparse.ArgumentParser:
     sh.add_argument("--audit-time", metavar="ISO8601",
                     help="time stamp to record (default: now, or SOURCE_DATE_EPOCH)")
 
+    b = sub.add_parser("batch", help="audit a collection: folders, globs, or one long table grouped by columns")
+    b.add_argument("inputs", metavar="INPUT", nargs="+",
+                   help="table files, sheet files (*.sheet.toml), folders or glob patterns")
+    b.add_argument("--out", default="batch-out", help="output folder (default: batch-out)")
+    b.add_argument("--jobs", type=int, default=None, help="worker processes (default: every core)")
+    b.add_argument("--profile", default="default", help="rule profile name or .toml path (default: default)")
+    b.add_argument("--format", default="json,csv",
+                   help="outputs per dataset among json,csv,html,pdf (default: json,csv)")
+    b.add_argument("--group-by", metavar="COLUMNS",
+                   help="one long table: comma-separated columns whose values make one dataset each "
+                        "(a column named 'substance' names the substance)")
+    b.add_argument("--dask", action="store_true", help="run on a Dask LocalCluster of --jobs workers")
+    b.add_argument("--scheduler", metavar="ADDRESS", help="run on the Dask scheduler at ADDRESS (tcp://host:8786)")
+    b.add_argument("--archive", metavar="URL", help="record every audit in this archive (SQLite path or URL)")
+    b.add_argument("--strict", action="store_true", help="exit 1 on a warn verdict too")
+    b.add_argument("--no-progress", action="store_true", help="no progress bar even at a terminal")
+    b.add_argument("--audit-time", metavar="ISO8601", help="time stamp to record in every audit")
+
     d = sub.add_parser("demo", help="audit the bundled synthetic demo data")
     d.add_argument("--out", default="reports_demo", help="output folder (default: reports_demo)")
     d.add_argument("--format", default=None, help="as for check")
@@ -186,6 +204,46 @@ def cmd_sheet(args) -> int:
     if result.internal_errors:
         return EXIT_INTERNAL
     return _exit_code(result.verdict, args.strict)
+
+
+def cmd_batch(args) -> int:
+    from .batch.jobs import collect_jobs, split_long_table
+    from .batch.run import run_batch
+    from .batch.work import BatchSettings
+    from .report import parse_formats
+
+    formats = parse_formats(args.format)
+    from .profiles import load_profile
+
+    load_profile(args.profile)  # a wrong profile is the command's error, before any worker starts
+    out = Path(args.out)
+    out.mkdir(parents=True, exist_ok=True)
+    if args.group_by:
+        if len(args.inputs) != 1:
+            raise InputError("--group-by splits one long table: give exactly one input")
+        columns = tuple(c.strip() for c in args.group_by.split(",") if c.strip())
+        # the groups are kept beside the outputs: they are the inputs the findings name
+        jobs = split_long_table(args.inputs[0], columns, out / "_groups")
+    else:
+        jobs = collect_jobs(args.inputs)
+    if not jobs:
+        raise InputError("no dataset found in the inputs", hint="tables are .csv .tsv .txt .xlsx .json; sheets *.sheet.toml")
+    settings = BatchSettings(out_root=str(out), profile=args.profile, formats=tuple(formats),
+                             audited_at=args.audit_time, archive=args.archive)
+    backend = "dask" if (args.dask or args.scheduler) else "local"
+    summary = run_batch(jobs, settings, workers=args.jobs, backend=backend, scheduler=args.scheduler,
+                        progress=False if args.no_progress else None)
+    print(summary.summary())
+    for o in sorted(summary.outcomes, key=lambda o: o.sort_key())[:10]:
+        if o.severity in ("error", "fail") or (args.strict and o.severity == "warn"):
+            print(f"  {o.severity:5s} {o.name}: {o.error or o.worst_check or ''}")
+    print(f"  index {summary.index_html}")
+    if summary.interrupted:
+        return EXIT_INTERRUPTED
+    worst = {o.severity for o in summary.outcomes}
+    if "error" in worst or "fail" in worst or (args.strict and "warn" in worst):
+        return EXIT_FAIL
+    return EXIT_OK
 
 
 def _summary_line(result) -> str:
@@ -306,8 +364,8 @@ def main(argv: list[str] | None = None) -> int:
         if args.command is None:
             parser.print_help()
             return EXIT_UNUSABLE
-        handler = {"check": cmd_check, "sheet": cmd_sheet, "demo": cmd_demo, "profiles": cmd_profiles,
-                   "explain": cmd_explain}[args.command]
+        handler = {"check": cmd_check, "sheet": cmd_sheet, "batch": cmd_batch, "demo": cmd_demo,
+                   "profiles": cmd_profiles, "explain": cmd_explain}[args.command]
         return handler(args)
     except InputError as exc:
         print(f"vpaudit: error: {exc.message}", file=sys.stderr)

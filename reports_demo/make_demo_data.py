@@ -105,6 +105,60 @@ def supplier_equation_sheet() -> None:
     (OUT / "supplier_toluene.sheet.toml").write_text(text, encoding="utf-8")
 
 
+COLLECTION = Path(__file__).resolve().parent / "collection"
+
+
+def collection() -> None:
+    """A small collection for ``vpaudit batch`` (reports_demo/collection/): five tables and a sheet.
+
+    Saturation pressures from CoolProp's reference equations of state (water: IAPWS-95;
+    ethanol: Schroeder et al. 2014; n-hexane: Span & Wagner 2003; acetone: Lemmon & Span 2006;
+    cyclohexane: Zhou et al. 2014), with seeded noise and a planted fault in some: the
+    laboratories and suppliers are invented.
+    """
+    import CoolProp.CoolProp as CP
+
+    COLLECTION.mkdir(exist_ok=True)
+    rng = np.random.default_rng(20261205)
+
+    def psat(fluid, T_K):
+        return np.array([CP.PropsSI("P", "T", float(t), "Q", 0, fluid) for t in np.atleast_1d(T_K)])
+
+    def write(name, header, rows, comment):
+        text = f"# SYNTHETIC demo data for vpaudit batch: {comment}\n" + header + "\n" + "\n".join(rows) + "\n"
+        (COLLECTION / name).write_text(text, encoding="utf-8")
+        substance = name.split("_")[0]
+        (COLLECTION / name).with_suffix(".toml").write_text(
+            f'# SYNTHETIC demo metadata\nsubstance = "{substance}"\n', encoding="utf-8")
+
+    T = np.arange(280.0, 371.0, 5.0)
+    p = psat("Water", T) * (1 + 0.001 * rng.standard_normal(T.size))
+    write("water_static_cell.csv", "T/K,p/kPa", [f"{t:.2f},{x / 1000:.5g}" for t, x in zip(T, p)],
+          "water, IAPWS-95 via CoolProp, 0.1 % noise; clean")
+    T = np.arange(0.0, 76.0, 5.0)
+    p = psat("Ethanol", T + 273.15) * (1 + 0.002 * rng.standard_normal(T.size)) / 1000
+    rows = [f"{t:.1f},{x:.4g}" for t, x in zip(T, p)]
+    for k in (6, 7, 8):  # printed in Pa under the kPa header
+        rows[k] = f"{T[k]:.1f},{p[k] * 1000:.4g}"
+    write("ethanol_supplier.csv", "t/°C,p/kPa", rows, "ethanol via CoolProp; rows 7-9 printed in Pa")
+    Ta = np.arange(280.0, 341.0, 6.0)
+    Tb = np.arange(283.0, 344.0, 6.0)
+    pa = psat("n-Hexane", Ta) * (1 + 0.002 * rng.standard_normal(Ta.size))
+    pb = psat("n-Hexane", Tb) * 1.03 * (1 + 0.002 * rng.standard_normal(Tb.size))
+    rows = [f"{t:.2f},{x / 1000:.5g},Lab North 1979" for t, x in zip(Ta, pa)]
+    rows += [f"{t:.2f},{x / 1000:.5g},Lab South 2004" for t, x in zip(Tb, pb)]
+    write("hexane_two_labs.csv", "T/K,p/kPa,source", rows, "n-hexane via CoolProp; Lab South 3 % high")
+    T = np.arange(260.0, 331.0, 10.0)
+    p = psat("Acetone", T)
+    write("acetone_handbook.csv", "T/K,p/kPa", [f"{t:.0f},{x / 1000:.3g}" for t, x in zip(T, p)],
+          "acetone via CoolProp, printed to 3 significant digits as a handbook does; clean")
+    T = np.arange(290.0, 351.0, 5.0)
+    p = psat("Cyclohexane", T) * (1 + 0.001 * rng.standard_normal(T.size))
+    rows = [f"{t:.2f},{x:.6g}" for t, x in zip(T, p)]
+    rows[4] = f"{T[4]:.2f},{p[4] * 10:.6g}"  # decimal point one place off
+    write("cyclohexane_lab.csv", "T/K,p/Pa", rows, "cyclohexane via CoolProp; row 5 ten times too high")
+
+
 def _benzene_curves():
     """Liquid and solid vapor-pressure functions of benzene [Pa].
 
@@ -224,4 +278,5 @@ if __name__ == "__main__":
     supplier_sheet()
     literature_merge()
     supplier_equation_sheet()
-    print(f"wrote demo data to {OUT}")
+    collection()
+    print(f"wrote demo data to {OUT} and {COLLECTION}")

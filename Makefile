@@ -19,9 +19,13 @@ demo: $(STAMP)
 
 test: $(STAMP)
 	$(VENV)/bin/python -m pytest
+	# the docstrings' examples, each with its published source's value (alembic's migration
+	# scripts run only inside alembic)
+	$(VENV)/bin/python -m pytest --doctest-modules audit --ignore=audit/archive/migrations -q
 
 bench: $(STAMP)
-	$(VENV)/bin/python benchmarks/run_all.py
+	for b in thermo_accuracy detection literature sheets report_speed scaling large_input batch_speed; do \
+		echo "== benchmarks/$$b.py"; $(VENV)/bin/python benchmarks/$$b.py || exit 1; done
 
 clean:
 	rm -rf $(VENV) build dist *.egg-info

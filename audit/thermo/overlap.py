@@ -63,8 +63,10 @@ def within_span(T_mine, T_others, reach: float = JUDGEABLE_REACH) -> np.ndarray:
 
     Examples
     --------
+    A span of 300–320 K widened by a quarter of its 20 K on each side reaches 295–325 K:
+
     >>> within_span(np.array([280.0, 290.0, 300.0, 320.0]), np.array([300.0, 320.0]))
-    array([False,  True,  True,  True])
+    array([False, False,  True,  True])
     """
     T_mine, T_others = np.asarray(T_mine, dtype=float), np.asarray(T_others, dtype=float)
     if T_others.size == 0:

@@ -53,6 +53,9 @@ def sign_change_brackets(f: Callable[[np.ndarray], np.ndarray], lo: float, hi: f
     sign = np.sign(vals)
     both = ok[:-1] & ok[1:]
     change = both & (sign[:-1] != sign[1:])
+    # a root exactly on a grid point ends one bracket and would start the next: keep it once
+    on_point = np.flatnonzero(change[1:] & change[:-1] & (vals[1:-1] == 0)) + 1
+    change[on_point] = False
     return [(float(grid[i]), float(grid[i + 1])) for i in np.flatnonzero(change)]
 
 
@@ -98,8 +101,12 @@ def bracketed_root(f: Callable[[float], float], a: float, b: float, *, xtol: flo
     from scipy.optimize import brentq
 
     def g(t: float) -> float:
-        with np.errstate(all="ignore"):
-            v = float(f(t))
+        # a curve evaluated on its pole with Python floats raises instead of giving inf
+        try:
+            with np.errstate(all="ignore"):
+                v = float(f(t))
+        except (ZeroDivisionError, OverflowError, ValueError):
+            return math.nan
         return v if math.isfinite(v) else math.copysign(math.inf, v) if not math.isnan(v) else math.nan
 
     fa, fb = g(a), g(b)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 
 import numpy as np
 
@@ -172,9 +174,12 @@ def _from_metadata(table: dict, file_name: str):
             cls = get_form(str(table["form"]))
             eq = cls(**{k: float(v) for k, v in {**params, **table.get("fixed", {})}.items()})
         lo, hi = float(table["valid_from_K"]), float(table["valid_to_K"])
-    except (KeyError, TypeError, ValueError) as exc:
+    except (KeyError, TypeError, ValueError, OverflowError, AttributeError) as exc:
         raise InputError(f"{where} cannot be used: {exc}", file=file_name,
                          hint="see 'vpaudit explain reference-agreement' for the format") from None
+    if not (math.isfinite(lo) and math.isfinite(hi) and 0 < lo < hi):
+        raise InputError(f"{where} valid_from_K = {lo!r}, valid_to_K = {hi!r} must be finite, above 0 K, "
+                         "low then high", file=file_name)
     return branch, (eq, lo, hi, f"{table['form']} ({table['source']})")
 
 

@@ -60,6 +60,14 @@ class SheetEnthalpy(Check):
         eq = ctx.decoding.equation
         model, why = real_gas_model(ctx, ctx.sheet.phase)
         T = np.linspace(lo, hi, 25)
+        with np.errstate(all="ignore"):
+            defined = np.isfinite(eq.ln_p(T)) & np.isfinite(eq.dlnp_dT(T))
+        if not defined.all():
+            bad = T[~defined]
+            return CheckResult(self.id, self.title, "fail",
+                               f"the equation is not defined at {bad[0]:.5g} K ({len(bad)} of 25 temperatures of "
+                               f"the stated range {lo:.5g}–{hi:.5g} K): a pole or a domain limit inside the range",
+                               {"n_undefined": int(len(bad))})
         try:
             h = implied_enthalpy(eq, T, correction=model) if model is not None else implied_enthalpy(eq, T)
             corrected = model is not None
@@ -67,12 +75,17 @@ class SheetEnthalpy(Check):
             h, corrected, why = implied_enthalpy(eq, T), False, f"real-gas correction failed: {exc}"
         dH = np.asarray(h.dH, dtype=float)
         shown = sorted({lo, hi, *round_temperatures(lo, hi)})
-        hs = implied_enthalpy(eq, np.array(shown), correction=model) if corrected else implied_enthalpy(eq, shown)
-        ctx.plot_data["sheet_enthalpy"] = tuple(
-            EnthalpyValue(ctx.sheet.phase, float(t), float(hs.dH[i]), None, corrected,
-                          float(hs.dH_apparent[i]), float(hs.delta_z[i]),
-                          "low end" if t == lo else "high end" if t == hi else "round")
-            for i, t in enumerate(shown))
+        with np.errstate(all="ignore"):
+            # a pole between the 25 points may still sit on a round temperature
+            shown = [t for t in shown if np.isfinite(eq.ln_p(t)).all() and np.isfinite(eq.dlnp_dT(t)).all()]
+        if shown:
+            hs = (implied_enthalpy(eq, np.array(shown), correction=model) if corrected
+                  else implied_enthalpy(eq, np.array(shown)))
+            ctx.plot_data["sheet_enthalpy"] = tuple(
+                EnthalpyValue(ctx.sheet.phase, float(t), float(hs.dH[i]), None, corrected,
+                              float(hs.dH_apparent[i]), float(hs.delta_z[i]),
+                              "low end" if t == lo else "high end" if t == hi else "round")
+                for i, t in enumerate(shown))
         kind = "real-gas corrected" if corrected else "apparent"
         metrics = {"dH_low_J_per_mol": float(dH[0]), "dH_high_J_per_mol": float(dH[-1]), "corrected": corrected}
         ctx.notes.append(f"{ctx.sheet.phase} enthalpy of the sheet's equation: {h.correction} ({why})")

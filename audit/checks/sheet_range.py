@@ -48,6 +48,10 @@ class SheetRange(Check):
         s = ctx.settings(self.id)
         if ctx.sheet.T_range is None:
             return skipped(self, "the sheet states no range of validity")
+        if ctx.T_range_K is None:
+            return CheckResult(self.id, self.title, "fail",
+                               f"the stated range {ctx.sheet.T_range[0]:g} to {ctx.sheet.T_range[1]:g}, read as "
+                               f"{ctx.decoding.best.label}, is not a range of temperatures above 0 K", {})
         lo, hi = ctx.T_range_K
         md = ctx.dataset.metadata
         facts, problems = [f"stated {lo:.5g}–{hi:.5g} K"], []

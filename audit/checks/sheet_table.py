@@ -51,6 +51,7 @@ class SheetTable(Check):
     def run(self, ctx) -> CheckResult:
         from ..diagnose.choose import diagnose_point
         from ..sheet.readings import unit_label
+        from ..thermo.ratios import percent_from_log_ratio
         from ..thermo.rounding import pressure_rounding_u_lnP
         from ._util import skipped
 
@@ -70,7 +71,7 @@ class SheetTable(Check):
         for p in pts:
             with np.errstate(all="ignore"):
                 d = math.log(p.P_Pa) - float(eq.ln_p(p.T_K)) if p.P_Pa > 0 else math.nan
-            ctx.deviation_percent[p.row] = 100 * math.expm1(d) if math.isfinite(d) else math.nan
+            ctx.deviation_percent[p.row] = float(percent_from_log_ratio(d)) if math.isfinite(d) else math.nan
             lim = limit(p)
             z = d / lim if math.isfinite(d) else math.inf
             sigma[p.row] = z
@@ -85,7 +86,8 @@ class SheetTable(Check):
 
             dg = diagnose_point(p, z_of, k=1.0, ratio=s["cause_ratio"])
             dev = ctx.deviation_percent[p.row]
-            what = f"{dev:+.3g} %" if math.isfinite(dev) else "off the equation's range"
+            what = (f"{dev:+.3g} %" if math.isfinite(dev) else
+                    "more than 10^300 times off" if math.isfinite(d) else "where the equation is not defined")
             text = f"row {p.row} ({p.T_text} {unit_label(p.T_text_unit)}, {p.P_text}): {what} from the equation " \
                    f"(limit {100 * math.expm1(lim):.2g} %)"
             if dg.best is not None:

@@ -137,6 +137,8 @@ class ReadingEvidence:
 
 def _percent(d_ln: float) -> str:
     """A misfit in ln P as a percentage of P (or a factor, when large)."""
+    if not math.isfinite(d_ln) or d_ln > 690:  # exp overflows a float near 709
+        return "beyond any factor (P undefined or infinite somewhere)"
     if d_ln > math.log(3):
         return f"×{math.exp(d_ln):.3g}"
     return f"{100 * (math.exp(d_ln) - 1):.3g} %"

@@ -73,7 +73,7 @@ def read_sheet(path) -> Sheet:
 def sheet_from_text(data: bytes, file_name: str = "<sheet>") -> Sheet:
     """Parse the bytes of a sheet file (see the module docstring for the format)."""
     try:
-        text = data.decode("utf-8")
+        text = data.decode("utf-8-sig")  # a byte-order mark, as some editors write, is not text
         doc = tomllib.loads(text)
     except UnicodeDecodeError:
         raise InputError("the sheet is not UTF-8 text", file=file_name,
@@ -167,8 +167,11 @@ def sheet_from_text(data: bytes, file_name: str = "<sheet>") -> Sheet:
     if "table" in doc:
         table = _read_table(_table(doc, "table", file_name, required=True), stated, file_name)
     ref = doc.get("reference_equation")
-    if ref is not None and not isinstance(ref, dict):
-        raise InputError("[reference_equation] must be a table", file=file_name)
+    if ref is not None:
+        # refused now, with the file's name, rather than when the audit reaches for it
+        from ..checks.reference_agreement import _from_metadata
+
+        _from_metadata(ref, file_name)
     return Sheet(file_name=file_name, sha256=hashlib.sha256(data).hexdigest(), substance=substance, cas=cas,
                  form=form, coefficients=coefficients, stated=stated, T_range=T_range, phase=phase,
                  expression=expression, table=table, supplier=_text(head, "supplier", "[sheet]", file_name),
@@ -193,7 +196,7 @@ def _read_table(tab: dict, stated: StatedReading, file_name: str) -> SheetTable:
         cells = []
         for value in r:
             if _is_number(value):
-                cells.append((repr(value) if isinstance(value, float) else str(value), float(value), None))
+                cells.append((repr(float(value)) if isinstance(value, float) else str(value), float(value), None))
             elif isinstance(value, str):
                 comma = "," in value and "." not in value
                 cell = read_number(value, decimal_comma=comma)
@@ -252,7 +255,12 @@ def _coefficients(eq: dict, file_name: str) -> dict[str, float]:
 
 
 def _is_number(v) -> bool:
-    return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+    if not isinstance(v, (int, float)) or isinstance(v, bool):
+        return False
+    try:  # TOML integers have no size limit; one beyond a float is not a usable number
+        return math.isfinite(float(v))
+    except OverflowError:
+        return False
 
 
 def _temperature_unit(table: dict, where: str, file_name: str) -> str | None:

@@ -109,10 +109,17 @@ def y_and_slope(form: str, coefficients: Mapping[str, float], T_u, expression=No
         if form == "clarke-glew":
             from ..thermo.equations import ClarkeGlew
 
-            # p° = one unit of the sheet's pressure unit: the reading supplies the unit
-            eq = ClarkeGlew(dG=c["dG"], dH=c["dH"], dCp=c["dCp"], ddCp_dT=c.get("d_dCp_dT", 0.0),
-                            theta=c["theta"], p_ref=1.0, n_terms=4)
-            return eq.ln_p(T), eq.dlnp_dT(T)
+            y, dy = np.full(T.shape, np.nan), np.full(T.shape, np.nan)
+            try:  # p° = one unit of the sheet's pressure unit: the reading supplies the unit
+                eq = ClarkeGlew(dG=c["dG"], dH=c["dH"], dCp=c["dCp"], ddCp_dT=c.get("d_dCp_dT", 0.0),
+                                theta=c["theta"], p_ref=1.0, n_terms=4)
+            except ValueError:  # a θ no temperature scale has: nowhere defined
+                return y, dy
+            # the form is defined for T > 0 K only; a reading may put the range below that
+            ok = np.isfinite(T) & (T > 0)
+            if ok.any():
+                y[ok], dy[ok] = eq.ln_p(T[ok]), eq.dlnp_dT(T[ok])
+            return y, dy
         if form == "expression":
             return expression.evaluate(T, c), expression.derivative_T(T, c)
     raise ValueError(f"unknown sheet form {form!r}")

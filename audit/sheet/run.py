@@ -115,8 +115,14 @@ def run_sheet_audit(sheet: Sheet, profile: Profile, *, audited_at: str | None = 
     decoding = decode_sheet(sheet, reference, values, decode_settings(profile))
     dataset = sheet_dataset(sheet, decoding, metadata)
     notes = list(sheet.notes) + list(decoding.notes) + ([library_note] if library_note else [])
+    T_range = decoding.best_evidence.T_range_K
+    if T_range is not None and not (math.isfinite(T_range[0]) and math.isfinite(T_range[1])
+                                    and 0 < T_range[0] < T_range[1]):
+        notes.append(f"the range, read as {decoding.best.label}, is {T_range[0]:.5g}–{T_range[1]:.5g} K: not a "
+                     "range of temperatures above 0 K, so nothing is evaluated over it")
+        T_range = None
     ctx = SheetContext(dataset=dataset, profile=profile, sheet=sheet, decoding=decoding, reference=reference,
-                       T_range_K=decoding.best_evidence.T_range_K)
+                       T_range_K=T_range)
     results: list[CheckResult] = []
     internal_errors: list[str] = []
     for check_id, check_cls in all_checks().items():
@@ -129,11 +135,11 @@ def run_sheet_audit(sheet: Sheet, profile: Profile, *, audited_at: str | None = 
         ctx.absorb(result)
         results.append(result)
     eq = decoding.equation
-    T_lo, T_hi = ctx.T_range_K or (math.nan, math.nan)
-    fit = FitRecord(branch=sheet.phase, equation=f"sheet {sheet.form}",
-                    parameters=dict(sheet.coefficients), covariance=(),
-                    T_range_K=(T_lo, T_hi), n_used=0, rms_percent=_rms(ctx.deviation_percent),
-                    extra={"description": eq.describe(), "reading": decoding.best.label}, model=eq)
+    # the equation is a fit of record only over a range; without one the sheet section keeps it
+    fits = () if ctx.T_range_K is None else (FitRecord(
+        branch=sheet.phase, equation=f"sheet {sheet.form}", parameters=dict(sheet.coefficients), covariance=(),
+        T_range_K=ctx.T_range_K, n_used=0, rms_percent=_rms(ctx.deviation_percent),
+        extra={"description": eq.describe(), "reading": decoding.best.label}, model=eq),)
     points = tuple(PointVerdict(
         row=p.row, T_K=p.T_K, P_Pa=p.P_Pa, phase=sheet.phase, source=None, status=ctx.status[p.row],
         flags=tuple(ctx.flags.get(p.row, ())), cause=ctx.causes.get(p.row),
@@ -143,7 +149,7 @@ def run_sheet_audit(sheet: Sheet, profile: Profile, *, audited_at: str | None = 
     return AuditResult(
         dataset=dataset, profile_name=profile.name, profile_sha256=profile.sha256, profile_text=profile.text,
         tool_version=__version__, audited_at=audit_time(audited_at), checks=tuple(results), points=points,
-        fits=(fit,), enthalpy=tuple(ctx.plot_data.get("sheet_enthalpy", ())), notes=tuple(notes + ctx.notes),
+        fits=fits, enthalpy=tuple(ctx.plot_data.get("sheet_enthalpy", ())), notes=tuple(notes + ctx.notes),
         plot_data=dict(ctx.plot_data), internal_errors=tuple(internal_errors),
         sheet=sheet_record(sheet, decoding, reference, ctx))
 

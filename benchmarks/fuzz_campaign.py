@@ -19,8 +19,15 @@ failing input to ``DIR/raw/`` and one minimised reproducer per kind to ``DIR``
 
 Target: 0 failures in >= 10 000 tables; no run over 10 s at <= 300 rows.
 
+``--sheets``: supplier sheets instead of tables, drawn by ``tests/fuzz/sheets.py``
+(families realistic, wild, expression, hostile) and checked by its
+``run_sheet``; ``--save-failures`` then writes each failing sheet as it was
+generated (``DIR/raw/``) and the first of each kind as ``DIR/sheet_<kind>.toml``
+with its traceback beside, not minimised (a sheet is small: cut it by hand
+before it goes to ``tests/fuzz/found/``).
+
 Run:  python benchmarks/fuzz_campaign.py [--tables 10000] [--seed 0] [--jobs 2]
-          [--family realistic] [--save-failures DIR] [--reports 0] [--timeout 120]
+          [--family realistic] [--save-failures DIR] [--reports 0] [--timeout 120] [--sheets]
 """
 
 from __future__ import annotations
@@ -74,6 +81,44 @@ def _run(job) -> dict:
             "message": outcome.message, "warnings": list(outcome.warnings)}
 
 
+def _run_sheet(job) -> dict:
+    """One sheet in a worker, reported like a table (see ``_run``)."""
+    from tests.fuzz.sheets import run_sheet, sheet_for_seed
+
+    seed, family, formats, timeout = job
+    case = sheet_for_seed(seed, family)
+    signal.signal(signal.SIGALRM, _alarm)
+    signal.alarm(timeout)
+    with tempfile.TemporaryDirectory(prefix="vpaudit-fuzz-") as folder:
+        try:
+            outcome = run_sheet(case, Path(folder), formats)
+        except _Timeout:
+            outcome = Outcome("failure", (Failure("timeout", "Timeout", f"no result within {timeout} s"),),
+                              seconds=float(timeout), cpu_seconds=float(timeout))
+        finally:
+            signal.alarm(0)
+    return {"seed": seed, "kind": outcome.kind, "seconds": outcome.seconds, "cpu": outcome.cpu_seconds,
+            "rows": outcome.n_rows, "family": case.family, "layout": "sheet/toml",
+            "failures": [(f.key, f.stage, f.exc_type, f.frame, str(f), f.trace) for f in outcome.failures],
+            "message": outcome.message, "warnings": list(outcome.warnings)}
+
+
+def _save_sheets(out: Path, results: list, by_key: dict, family) -> None:
+    from tests.fuzz.sheets import sheet_for_seed
+
+    (out / "raw").mkdir(parents=True, exist_ok=True)
+    for r in results:
+        if r["failures"]:
+            (out / "raw" / f"sheet-seed-{r['seed']}.toml").write_bytes(sheet_for_seed(r["seed"], family).data)
+    for hits in by_key.values():
+        r, f = hits[0]
+        name = "sheet_" + _slug(f[1], f[2], f[3])
+        if not (out / f"{name}.toml").exists():
+            (out / f"{name}.toml").write_bytes(sheet_for_seed(r["seed"], family).data)
+            (out / f"{name}.txt").write_text(f"seed {r['seed']}\n{f[4]}\n\n{f[5]}\n", encoding="utf-8")
+            print(f"saved {out / name}.toml (seed {r['seed']})")
+
+
 def _same_kind(key_parts):
     stage, exc_type, frame = key_parts
 
@@ -125,6 +170,9 @@ def main(argv=None) -> int:
     ap.add_argument("--reports", type=int, default=0, metavar="K",
                     help="also write HTML and PDF for the first K tables (slow)")
     ap.add_argument("--timeout", type=int, default=120, help="seconds before one table counts as hung")
+    ap.add_argument("--sheets", action="store_true",
+                    help="supplier sheets (tests/fuzz/sheets.py) instead of tables; --family: realistic, wild, "
+                         "expression or hostile")
     args = ap.parse_args(argv)
 
     jobs = [(args.seed + i, args.family,
@@ -133,7 +181,7 @@ def main(argv=None) -> int:
     t0 = time.perf_counter()
     results = []
     with Pool(args.jobs, maxtasksperchild=200) as pool:
-        for k, r in enumerate(pool.imap_unordered(_run, jobs, chunksize=1), start=1):
+        for k, r in enumerate(pool.imap_unordered(_run_sheet if args.sheets else _run, jobs, chunksize=1), start=1):
             results.append(r)
             if k % 200 == 0:
                 n_fail = sum(1 for x in results if x["failures"])
@@ -181,7 +229,9 @@ def main(argv=None) -> int:
             for w, n in warns.most_common(8):
                 print(f"  {n:5d}  {w}")
 
-        if args.save_failures and by_key:
+        if args.save_failures and by_key and args.sheets:
+            _save_sheets(Path(args.save_failures), results, by_key, args.family)
+        elif args.save_failures and by_key:
             out = Path(args.save_failures)
             for r in results:
                 if r["failures"]:

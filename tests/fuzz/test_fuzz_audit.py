@@ -18,19 +18,14 @@ from dataclasses import replace
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, Phase, given, note, settings
+from hypothesis import given, note
 
 from .tables import (PRESSURE_SPELLINGS, TEMPERATURE_SPELLINGS, Table, contract_failures, non_finite_paths,
                      run_table, table_for_seed, table_from_json, tables)
 
+from ._settings import fast
+
 FOUND = Path(__file__).with_name("found")
-
-
-def _fast(max_examples: int):
-    return settings(max_examples=max_examples, derandomize=True, database=None, deadline=None,
-                    phases=(Phase.explicit, Phase.generate), print_blob=False,
-                    suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large,
-                                           HealthCheck.large_base_example])
 
 
 def _report(table: Table, outcome) -> str:
@@ -52,25 +47,25 @@ def _audit_and_check(table: Table) -> None:
     assert not outcome.failures, "; ".join(str(f) for f in outcome.failures)
 
 
-@_fast(90)
+@fast(90)
 @given(tables("realistic"))
 def test_realistic_tables_end_in_findings(table):
     _audit_and_check(table)
 
 
-@_fast(25)
+@fast(25)
 @given(tables("water"))
 def test_water_tables_end_in_findings(table):
     _audit_and_check(table)
 
 
-@_fast(60)
+@fast(60)
 @given(tables("garbage"))
 def test_garbage_tables_end_in_findings_or_input_error(table):
     _audit_and_check(table)
 
 
-@_fast(120)
+@fast(120)
 @given(tables("degenerate"))
 def test_degenerate_tables_end_in_findings_or_input_error(table):
     _audit_and_check(table)

@@ -16,7 +16,6 @@ leaves no output file half-written: the outputs appear together or not at all.
 from __future__ import annotations
 
 import argparse
-import math
 import os
 import sys
 import textwrap
@@ -154,9 +153,7 @@ def cmd_check(args) -> int:
                               audited_at=args.audit_time)
     out = Path(args.out or f"audit-{Path(args.data).stem}")
     written = write_outputs(result, out, formats, input_bytes=Path(args.data).read_bytes())
-    print(_summary_line(result))
-    for line in _finding_lines(result):
-        print(line)
+    print(result.summary(max_rows=CONSOLE_ROWS))
     for fmt, path in written.items():
         print(f"  {fmt:4s} {path}")
     for error in result.internal_errors:
@@ -187,18 +184,7 @@ def cmd_sheet(args) -> int:
     _, _, result = audit_sheet_file(args.sheet_file, profile=args.profile, audited_at=args.audit_time)
     out = Path(args.out or f"sheet-{Path(args.sheet_file).stem}")
     written = write_outputs(result, out, formats, input_bytes=Path(args.sheet_file).read_bytes())
-    sh = result.sheet
-    print(f"{result.dataset.file_name}: verdict {result.verdict.upper()} — "
-          f"{result.dataset.metadata.substance or 'substance not named'}, {sh.form} equation")
-    stated = sh.stated
-    print(f"  stated:  gives {stated.get('gives') or '?'}, T in {stated.get('T_unit') or '?'}, "
-          f"P in {stated.get('P_unit') or '?'}")
-    print(f"  decoded: {sh.decoded['label']} ({sh.basis})" + ("  <- not as stated" if sh.differs else ""))
-    for c in result.checks:
-        if c.status in ("warn", "fail"):
-            print(f"  {c.status:4s} {c.id}: {c.message}")
-    for line in _finding_lines(result):
-        print(line)
+    print(result.summary(max_rows=CONSOLE_ROWS))
     for fmt, path in written.items():
         print(f"  {fmt:4s} {path}")
     if result.internal_errors:
@@ -246,52 +232,8 @@ def cmd_batch(args) -> int:
     return EXIT_OK
 
 
-def _summary_line(result) -> str:
-    return (f"{result.dataset.file_name}: verdict {result.verdict.upper()} — "
-            f"{len(result.points)} rows, {result.count('reject')} rejected, "
-            f"{result.count('suspect')} suspect, {result.count('unreadable')} unreadable")
-
-
 #: flagged rows listed on the console; the rest are in the report and findings.json
 CONSOLE_ROWS = 25
-
-
-def _finding_lines(result) -> list[str]:
-    """One line per flagged row (cause and suggested value) and per flagged source."""
-    lines = []
-    flagged = [p for p in result.points if p.status != "ok"]
-    for p in flagged[:CONSOLE_ROWS]:
-        if p.cause is not None:
-            c = p.cause
-            # the corrected quantity only: the contract repeats the unchanged one
-            changed = []
-            if c.suggested_T_K is not None and not math.isclose(c.suggested_T_K, p.T_K or 0.0, rel_tol=1e-9):
-                changed.append(f"T = {c.suggested_T_K:.6g} K")
-            if c.suggested_P_Pa is not None and not math.isclose(c.suggested_P_Pa, p.P_Pa or 0.0, rel_tol=1e-9):
-                changed.append(f"P = {c.suggested_P_Pa:.6g} Pa")
-            what = f"{c.kind}, suggested " + ", ".join(changed) if changed else f"{c.kind}: {c.explanation}"
-        else:
-            worst = max(p.flags, key=lambda f: f.severity == "fail", default=None)
-            what = "no likely cause found" if worst is None else f"{worst.check}: {worst.message}"
-        lines.append(f"  row {p.row:<5d} {p.status:10s} {what}")
-    if len(flagged) > CONSOLE_ROWS:
-        lines.append(f"  … and {len(flagged) - CONSOLE_ROWS} more flagged rows (see the report)")
-    for src in result.sources:
-        if src.status != "ok":
-            cause = src.extra.get("cause") or {}
-            if src.bias_percent is None or src.u_bias_percent is None:
-                what = src.extra.get("reason", "not compared with the other sources")
-            else:
-                what = (f"pattern {src.pattern}, bias {src.bias_percent:+.3g} ± {src.u_bias_percent:.2g} %"
-                        + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
-                           if src.pattern == "temperature-offset" and src.temperature_offset_K is not None
-                           else ""))
-            if cause.get("kind") in ("pressure-unit", "temperature-unit") and cause.get("real_unit"):
-                what += f"; cause {cause['kind']}: printed in {cause['real_unit']}, not {cause['printed_unit']}"
-            elif cause.get("kind"):
-                what += f"; cause {cause['kind']} ({cause['n_rows']} rows)"
-            lines.append(f"  source '{src.source}' {src.status}: {what}")
-    return lines
 
 
 def _exit_code(verdict: str, strict: bool) -> int:

@@ -35,7 +35,7 @@ def demo_sheets() -> list[str]:
 
 
 def run_demo(out: Path, formats: str | None = None) -> list[Path]:
-    from .cli import _summary_line, audit_file, audit_sheet_file
+    from .cli import audit_file, audit_sheet_file
     from .pipeline import audit_time
     from .report import available_formats, parse_formats, write_outputs
 
@@ -57,7 +57,7 @@ def run_demo(out: Path, formats: str | None = None) -> list[Path]:
         data = folder / name
         _, _, result = audit_file(str(data), audited_at=audit_time(fixed))
         write_outputs(result, folder, fmts, input_bytes=data.read_bytes())
-        print(_summary_line(result))
+        print(result.summary().splitlines()[0])
         print(f"  written to {folder}/")
         folders.append(folder)
     for name in demo_sheets():

@@ -332,6 +332,31 @@ class AuditResult:
     def count(self, status: str) -> int:
         return sum(1 for p in self.points if p.status == status)
 
+    def summary(self, max_rows: int = 25) -> str:
+        """The audit in a few lines, as ``vpaudit check`` and ``vpaudit sheet`` print it.
+
+        The verdict and counts; for a sheet, what it states and what it was decoded as, and the
+        checks that warn or fail; one line per flagged row (its cause and the corrected value,
+        at most ``max_rows``) and per source found off.
+        """
+        lines = [f"{self.dataset.file_name}: verdict {self.verdict.upper()} — {len(self.points)} rows, "
+                 f"{self.count('reject')} rejected, {self.count('suspect')} suspect, "
+                 f"{self.count('unreadable')} unreadable"]
+        if self.sheet is not None:
+            st = self.sheet.stated
+            lines.append(f"  stated:  gives {st.get('gives') or '?'}, T in {st.get('T_unit') or '?'}, "
+                         f"P in {st.get('P_unit') or '?'}")
+            lines.append(f"  decoded: {self.sheet.decoded['label']} ({self.sheet.basis})"
+                         + ("  <- not as stated" if self.sheet.differs else ""))
+            lines += [f"  {c.status:4s} {c.id}: {c.message}" for c in self.checks if c.status in ("warn", "fail")]
+        flagged = [p for p in self.points if p.status != "ok"]
+        for p in flagged[:max_rows]:
+            lines.append(f"  row {p.row:<5d} {p.status:10s} {_row_text(p)}")
+        if len(flagged) > max_rows:
+            lines.append(f"  … and {len(flagged) - max_rows} more flagged rows (see the report)")
+        lines += [f"  source '{s.source}' {s.status}: {_source_text(s)}" for s in self.sources if s.status != "ok"]
+        return "\n".join(lines)
+
     @property
     def usable_points(self) -> list[PointVerdict]:
         return [p for p in self.points if p.status in ("ok", "suspect")]
@@ -378,6 +403,35 @@ class AuditResult:
             "enthalpy_table": [e.to_dict() for e in self.enthalpy_table],
             **({"sheet": self.sheet.to_dict()} if self.sheet is not None else {}),
         }
+
+
+def _row_text(p: "PointVerdict") -> str:
+    """A flagged row's cause and the corrected quantity only (the contract repeats the unchanged one)."""
+    if p.cause is not None:
+        c = p.cause
+        changed = []
+        if c.suggested_T_K is not None and not math.isclose(c.suggested_T_K, p.T_K or 0.0, rel_tol=1e-9):
+            changed.append(f"T = {c.suggested_T_K:.6g} K")
+        if c.suggested_P_Pa is not None and not math.isclose(c.suggested_P_Pa, p.P_Pa or 0.0, rel_tol=1e-9):
+            changed.append(f"P = {c.suggested_P_Pa:.6g} Pa")
+        return f"{c.kind}, suggested " + ", ".join(changed) if changed else f"{c.kind}: {c.explanation}"
+    worst = max(p.flags, key=lambda f: f.severity == "fail", default=None)
+    return "no likely cause found" if worst is None else f"{worst.check}: {worst.message}"
+
+
+def _source_text(src: "SourceAgreement") -> str:
+    cause = src.extra.get("cause") or {}
+    if src.bias_percent is None or src.u_bias_percent is None:
+        what = src.extra.get("reason", "not compared with the other sources")
+    else:
+        what = (f"pattern {src.pattern}, bias {src.bias_percent:+.3g} ± {src.u_bias_percent:.2g} %"
+                + (f", thermometer offset {src.temperature_offset_K:+.3g} K"
+                   if src.pattern == "temperature-offset" and src.temperature_offset_K is not None else ""))
+    if cause.get("kind") in ("pressure-unit", "temperature-unit") and cause.get("real_unit"):
+        what += f"; cause {cause['kind']}: printed in {cause['real_unit']}, not {cause['printed_unit']}"
+    elif cause.get("kind"):
+        what += f"; cause {cause['kind']} ({cause['n_rows']} rows)"
+    return what
 
 
 def _branch_fields(branch: str) -> dict:

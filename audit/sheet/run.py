@@ -18,7 +18,7 @@ from ..context import AuditContext
 from ..errors import InputError
 from ..model import ColumnRole, Constant, Dataset, Metadata, Point
 from ..profiles import Profile
-from ..results import AuditResult, CheckResult, EnthalpyValue, FitRecord, PointVerdict, SheetRecord
+from ..results import AuditResult, CheckResult, FitRecord, PointVerdict, SheetRecord
 from ..units import kelvin_affine, pascal_per
 from .decode import DecodeSettings, Decoding, decode_sheet, pressure_unit_name
 from .model import Sheet

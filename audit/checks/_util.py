@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from ..results import CheckResult, PointFlag
+from ..results import CheckResult
 
 
 def worst_status(n_findings: int, severity: str) -> str:
@@ -19,10 +19,6 @@ def rows_text(rows, limit: int = 12) -> str:
 
 def fmt(x: float, digits: int = 6) -> str:
     return f"{x:.{digits}g}"
-
-
-def flags_for(rows, check_id: str, severity: str, message_of) -> tuple[PointFlag, ...]:
-    return tuple(PointFlag(r, check_id, severity, message_of(r)) for r in rows)
 
 
 def skipped(check_cls, why: str, **metrics) -> CheckResult:

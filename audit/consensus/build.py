@@ -396,7 +396,6 @@ class _BranchAnalysis:
         self.offsets = offsets
         self.uPrel, self.uT_eff, self.floorP = uPrel, uT_eff, floorP
         self.rel = rel
-        self.scale_factor = max(birge, 1.0) if u_given else birge
 
     @staticmethod
     def _scales(r, active, src, s, inv_T):

@@ -23,9 +23,6 @@ R: float = 8.314462618
 #: Standard atmosphere [Pa] (definition); default reference pressure p°.
 P_ATM: float = 101325.0
 
-#: Offset between the Celsius and Kelvin scales [K] (definition).
-T_ZERO_CELSIUS: float = 273.15
-
 #: Triple-point temperature of water [K] [2, 3].
 WATER_T_TRIPLE: float = 273.16
 #: Triple-point pressure of water [Pa] [3].

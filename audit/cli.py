@@ -23,6 +23,7 @@ from pathlib import Path
 
 from . import __version__
 from .errors import InputError
+from .files import audit_file, audit_sheet_file  # noqa: F401 (public here too: tests and scripts use them)
 
 EXIT_OK, EXIT_FAIL, EXIT_UNUSABLE, EXIT_INTERNAL = 0, 1, 2, 3
 #: the shell's convention, 128 + the signal number
@@ -130,20 +131,6 @@ def _overrides(args):
     )
 
 
-def audit_file(data: str, *, profile: str = "default", overrides=None, metadata: str | None = None,
-               substance: str | None = None, audited_at: str | None = None):
-    """Read, enrich and audit one file; return (dataset, profile, result)."""
-    from .ingest import read_table
-    from .pipeline import run_audit
-    from .profiles import load_profile
-    from .substances import with_library_constants
-
-    prof = load_profile(profile)
-    dataset = read_table(data, overrides, metadata_path=metadata, row_limit=prof.row_limit)
-    dataset = with_library_constants(dataset, substance)
-    return dataset, prof, run_audit(dataset, prof, audited_at=audited_at)
-
-
 def cmd_check(args) -> int:
     from .report import parse_formats, write_outputs
 
@@ -164,17 +151,6 @@ def cmd_check(args) -> int:
     if result.internal_errors:
         return EXIT_INTERNAL
     return _exit_code(result.verdict, args.strict)
-
-
-def audit_sheet_file(path: str, *, profile: str = "default", audited_at: str | None = None):
-    """Read and check one sheet file; return (sheet, profile, result)."""
-    from .profiles import load_profile
-    from .sheet.read import read_sheet
-    from .sheet.run import run_sheet_audit
-
-    prof = load_profile(profile)
-    sheet = read_sheet(path)
-    return sheet, prof, run_sheet_audit(sheet, prof, audited_at=audited_at)
 
 
 def cmd_sheet(args) -> int:

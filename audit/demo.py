@@ -35,7 +35,7 @@ def demo_sheets() -> list[str]:
 
 
 def run_demo(out: Path, formats: str | None = None) -> list[Path]:
-    from .cli import audit_file, audit_sheet_file
+    from .files import audit_file, audit_sheet_file
     from .pipeline import audit_time
     from .report import available_formats, parse_formats, write_outputs
 

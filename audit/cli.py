@@ -72,6 +72,7 @@ def build_parser() -> argparse.ArgumentParser:
     g.add_argument("--sheet", metavar="NAME", help="XLSX sheet (default: the first)")
     c.add_argument("--audit-time", metavar="ISO8601",
                    help="time stamp to record (default: now, or SOURCE_DATE_EPOCH)")
+    c.add_argument("--archive", metavar="URL", help="record the audit in this archive (SQLite path or URL)")
 
     sh = sub.add_parser("sheet", help="check a supplier sheet's vapor-pressure equation (a sheet file) "
                                       "against its units, its table, a reference and its stated range")
@@ -82,6 +83,7 @@ def build_parser() -> argparse.ArgumentParser:
     sh.add_argument("--strict", action="store_true", help="exit 1 on a warn verdict too")
     sh.add_argument("--audit-time", metavar="ISO8601",
                     help="time stamp to record (default: now, or SOURCE_DATE_EPOCH)")
+    sh.add_argument("--archive", metavar="URL", help="record the check in this archive (SQLite path or URL)")
 
     b = sub.add_parser("batch", help="audit a collection: folders, globs, or one long table grouped by columns")
     b.add_argument("inputs", metavar="INPUT", nargs="+",
@@ -100,6 +102,10 @@ def build_parser() -> argparse.ArgumentParser:
     b.add_argument("--strict", action="store_true", help="exit 1 on a warn verdict too")
     b.add_argument("--no-progress", action="store_true", help="no progress bar even at a terminal")
     b.add_argument("--audit-time", metavar="ISO8601", help="time stamp to record in every audit")
+
+    from .cli_archive import add_archive_commands
+
+    add_archive_commands(sub)
 
     d = sub.add_parser("demo", help="audit the bundled synthetic demo data")
     d.add_argument("--out", default="reports_demo", help="output folder (default: reports_demo)")
@@ -141,6 +147,8 @@ def cmd_check(args) -> int:
     out = Path(args.out or f"audit-{Path(args.data).stem}")
     written = write_outputs(result, out, formats, input_bytes=Path(args.data).read_bytes())
     print(result.summary(max_rows=CONSOLE_ROWS))
+    if args.archive:
+        _record(args.archive, result, written, args.data, args.metadata)
     for fmt, path in written.items():
         print(f"  {fmt:4s} {path}")
     for error in result.internal_errors:
@@ -161,6 +169,8 @@ def cmd_sheet(args) -> int:
     out = Path(args.out or f"sheet-{Path(args.sheet_file).stem}")
     written = write_outputs(result, out, formats, input_bytes=Path(args.sheet_file).read_bytes())
     print(result.summary(max_rows=CONSOLE_ROWS))
+    if args.archive:
+        _record(args.archive, result, written, args.sheet_file, None)
     for fmt, path in written.items():
         print(f"  {fmt:4s} {path}")
     if result.internal_errors:
@@ -210,6 +220,17 @@ def cmd_batch(args) -> int:
 
 #: flagged rows listed on the console; the rest are in the report and findings.json
 CONSOLE_ROWS = 25
+
+
+def _record(url: str, result, written, input_path, metadata) -> None:
+    """Record an audit, its outputs (absolute paths) and its input in the archive at ``url``."""
+    from .archive import metadata_file_for, open_archive
+
+    with open_archive(url) as archive:
+        audit_id = archive.record(result, outputs={f: Path(p).resolve() for f, p in written.items()},
+                                  input_path=Path(input_path).resolve(),
+                                  metadata_path=metadata_file_for(input_path, metadata))
+    print(f"  archived as audit #{audit_id} in {url}")
 
 
 def _exit_code(verdict: str, strict: bool) -> int:
@@ -282,8 +303,10 @@ def main(argv: list[str] | None = None) -> int:
         if args.command is None:
             parser.print_help()
             return EXIT_UNUSABLE
+        from .cli_archive import cmd_archive
+
         handler = {"check": cmd_check, "sheet": cmd_sheet, "batch": cmd_batch, "demo": cmd_demo,
-                   "profiles": cmd_profiles, "explain": cmd_explain}[args.command]
+                   "profiles": cmd_profiles, "explain": cmd_explain, "archive": cmd_archive}[args.command]
         return handler(args)
     except InputError as exc:
         print(f"vpaudit: error: {exc.message}", file=sys.stderr)

@@ -136,13 +136,13 @@ def run_job(job: Job, settings: BatchSettings) -> Outcome:
         written = write_outputs(result, out, settings.formats, input_bytes=Path(job.path).read_bytes())
         archive_id = None
         if settings.archive:
-            from ..archive import open_archive
+            from ..archive import metadata_file_for, open_archive
 
-            archive = open_archive(settings.archive)
-            try:
-                archive_id = archive.record(result, outputs=written, input_path=job.path)
-            finally:
-                archive.close()
+            # each worker opens the archive itself: a connection must not cross a fork
+            with open_archive(settings.archive) as archive:
+                archive_id = archive.record(result, outputs={f: Path(p).resolve() for f, p in written.items()},
+                                            input_path=Path(job.path).resolve(),
+                                            metadata_path=None if job.kind == "sheet" else metadata_file_for(job.path))
         report = written.get("html") or written.get("pdf") or written.get("json")
         return Outcome(
             name=job.name, path=job.path, kind=job.kind, verdict=result.verdict, n_rows=len(result.points),

@@ -33,7 +33,7 @@ from importlib import resources
 from pathlib import Path
 from typing import Any, Mapping
 
-from .checks.registry import Option
+from .options import Option
 from .errors import InputError
 
 SEVERITIES = ("warn", "fail")

@@ -277,7 +277,7 @@ def cmd_explain(args) -> int:
     width = 88
     print(f"{cls.id} — {cls.title}\n")
     print(textwrap.dedent(cls.__doc__ or "").strip() + "\n")
-    print("Method:\n" + textwrap.fill(cls.method, width, initial_indent="  ", subsequent_indent="  "))
+    print("Method in brief:\n" + textwrap.fill(cls.method, width, initial_indent="  ", subsequent_indent="  "))
     if cls.references:
         print("Published sources:")
         for ref in cls.references:

@@ -49,6 +49,35 @@ class BranchSplit(Check):
     makes good points look like outliers.  A break with the shallower side
     at low temperature is not a triple point and is left alone.
 
+    **Method.** Unlabelled usable rows are sorted by temperature. With a known
+    triple point no break is searched for: rows below T_triple are solid, the
+    others liquid (a side of fewer than ``min_points_per_side`` rows that are
+    all gross errors joins the other side). Otherwise, in this order: (1)
+    gross errors are set aside — Siegel's repeated-median line of ln P on 1/T
+    drops rows more than a factor 3 off it, then a Tukey-robust three-constant
+    (constant-ΔCp) fit drops rows more than 10 robust σ (normal-consistent
+    MAD) and 5 % off it; (2) two straight lines ln P = a + b/T are fitted by
+    least squares on each side of every split between distinct temperature
+    neighbours (weighted by the stated u(T), u(P) when given), and the F-test
+    of two lines against one (Chow's test) gives the best split, its p-value
+    Bonferroni-adjusted over the splits tried; (3) the best break is judged:
+    significant with a gap of the two lines' ln P at the break beyond
+    ``max_gap_sigma`` u and ``min_jump_percent`` is a level jump; it must be
+    significant at ``alpha``; the ratio of the low-T to high-T apparent ΔH =
+    −R·b must reach ``min_dH_ratio``; (4) the split is refined by refitting
+    each side (constant-ΔCp form with six temperatures or more, else a line)
+    and moving to the neighbouring split of least total squared residual; (5)
+    an F-test of the two sides (line below, curve above, Huber-weighted)
+    against one constant-ΔCp curve, Bonferroni-adjusted, must be significant
+    at ``alpha`` (else it is curvature); (6) with two sources or more, a hinge
+    in ln P vs 1/T with a level per source (weighted by each source's own MAD
+    scatter when no uncertainties are given) must be a significant drop of ΔH
+    against ΔH linear in T and against ΔH quadratic in T (four-term
+    Clarke–Glew), the larger adjusted p counting. An accepted break makes the
+    rows below it solid and the rows above liquid; the same procedure among
+    the solid rows, with ``min_transition_dH_ratio``, finds a second crystal
+    form.
+
     **Example.** ice + water 230–300 K unlabelled → "break at 273.2 K (adjusted
     p = 1e-15): slopes 51.1 and 45.0 kJ/mol; rows 1–12 solid, 13–25 liquid".
 
@@ -64,19 +93,21 @@ class BranchSplit(Check):
     references = (
         "G. C. Chow, Econometrica 28, 591 (1960), doi:10.2307/1910133 — test for a break.",
         "ΔH_sub = ΔH_vap + ΔH_fus at the triple point (Kirchhoff/Hess), e.g. Atkins' Physical Chemistry, §4B.",
+        "A. F. Siegel, Biometrika 69, 242 (1982), doi:10.1093/biomet/69.1.242 — repeated medians (gross-error "
+        "screen).",
     )
     options = {
-        "alpha": Option(float, "significance level (adjusted) of the slope break", "", 1e-15, 0.5),
-        "min_points_per_side": Option(int, "fewest distinct temperatures on each side of a break", "", 3, 1000),
+        "alpha": Option(float, "significance level (adjusted) of the slope break [-]", "", 1e-15, 0.5),
+        "min_points_per_side": Option(int, "fewest distinct temperatures on each side of a break [-]", "", 3, 1000),
         "min_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH taken as a "
-                               "solid/liquid break", "", 1.0, 3.0),
+                               "solid/liquid break [-]", "", 1.0, 3.0),
         "max_gap_sigma": Option(float, "largest difference of the two lines' ln P at the break, in standard "
-                                "uncertainties of that difference, for a phase change", "", 1.0, 100.0),
+                                "uncertainties of that difference, for a phase change [-]", "", 1.0, 100.0),
         "min_jump_percent": Option(float, "smallest difference of the two lines' P at the break taken as a "
                                    "level jump (straight lines through curved branches miss by a few %)",
                                    "%", 0.0, 1000.0),
         "min_transition_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH_sub taken as "
-                                          "a transition between two crystal forms", "", 1.0, 3.0),
+                                          "a transition between two crystal forms [-]", "", 1.0, 3.0),
     }
 
     def run(self, ctx):

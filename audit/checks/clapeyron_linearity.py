@@ -64,14 +64,14 @@ class ClapeyronLinearity(Check):
         "J. Durbin, G. S. Watson, Biometrika 37, 409 (1950), doi:10.1093/biomet/37.3-4.409.",
     )
     options = {
-        "curvature_alpha": Option(float, "significance level of the curvature test", "", 1e-9, 0.5),
+        "curvature_alpha": Option(float, "significance level of the curvature test [-]", "", 1e-9, 0.5),
         "max_abs_dCp_J_per_mol_K": Option(float, "largest plausible |ΔCp| of the phase change "
                                           "(common practice: about 200 for ordinary liquids)",
                                           "J mol⁻¹ K⁻¹", 1, 2000),
-        "positive_dCp_k": Option(float, "ΔCp > 0 is flagged when ΔCp − k·u(ΔCp) > 0 (liquid branch)",
+        "positive_dCp_k": Option(float, "ΔCp > 0 is flagged when ΔCp − k·u(ΔCp) > 0 (liquid branch) [-]",
                                  "", 0, 10),
-        "runs_alpha": Option(float, "significance level of the runs test on residual signs", "", 1e-9, 0.5),
-        "min_points": Option(int, "fewest distinct temperatures of a branch for these tests", "", 4, 1000),
+        "runs_alpha": Option(float, "significance level of the runs test on residual signs [-]", "", 1e-9, 0.5),
+        "min_points": Option(int, "fewest distinct temperatures of a branch for these tests [-]", "", 4, 1000),
     }
 
     def run(self, ctx):

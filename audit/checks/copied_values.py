@@ -439,7 +439,7 @@ class CopiedValues(Check):
                                               "about a constant ratio)", "%",
                                               1e-6, 100),
         "alpha": Option(float, "largest chance probability of a run between independent sources that is "
-                        "still taken as chance", "", 0, 1),
+                        "still taken as chance [-]", "", 0, 1),
         "max_shift_K": Option(float, "largest constant temperature shift of a copied series", "K", 0, 1000),
     }
 

@@ -177,9 +177,9 @@ class Duplicates(Check):
         "P_tolerance_percent": Option(float, "floor: a replicate departing less than this from its group's "
                                       "median is never flagged, whatever its scatter", "%", 0, 100),
         "k": Option(float, "coverage factor applied to a replicate's expected scatter and to the combined "
-                    "u(T) when grouping", "", 0.5, 10),
+                    "u(T) when grouping [-]", "", 0.5, 10),
         "min_scatter_differences": Option(int, "fewest within-group differences of a source's other "
-                                          "replicate groups to estimate its own scatter", "", 1, 1000),
+                                          "replicate groups to estimate its own scatter [-]", "", 1, 1000),
     }
 
     def run(self, ctx):

@@ -39,6 +39,24 @@ class EnthalpyContinuity(Check):
     cluster of bad points that a global fit spreads thin; a step shows
     where two data sets do not join.
 
+    **Method.** Per branch, on the points the fit of record uses, weighted by
+    the σ it gave them. (1) Points are grouped by source and sorted by T;
+    every window of ``window`` consecutive distinct temperatures (replicates
+    included) gets a weighted straight line ln P = a + b/T, whose local
+    apparent enthalpy is −R·b. (2) Each is compared with the fit of record's
+    smooth apparent ΔH(T) at the window's centre; the standard uncertainty of
+    the difference combines the window's, the curve's and their covariance
+    (the window's points are in the fit, as in Hausman's test). A window
+    beyond ``k`` u and ``tolerance_percent`` is flagged. (3) With eight
+    distinct temperatures or more, a continuous hinge in ln P vs 1/T (a step
+    in ΔH) with a level per source is fitted at every split with at least four
+    points a side; its F-test p-value is Bonferroni-adjusted over the splits,
+    once against ΔH linear in T and once against the fit of record's form plus
+    ``step_smooth_terms`` Legendre terms in 1/T; a step is reported when the
+    larger p is below ``step_alpha`` and it exceeds ``step_tolerance_percent``
+    of the median ΔH. (4) A window below zero by more than ``k`` u, or a
+    smooth ΔH ≤ 0 on 64 temperatures of the fit's range, fails.
+
     **Example.** "liquid: step of +1.9 kJ/mol in ΔH at 331.2 K (p = 2e-5);
     window at 305 K: 47.1 ± 0.4 kJ/mol vs 43.8 smooth (8 σ, 7 %)".
 
@@ -62,13 +80,13 @@ class EnthalpyContinuity(Check):
         "an efficient and a consistent estimator.",
     )
     options = {
-        "window": Option(int, "distinct temperatures per local window (replicates at them included)", "", 3, 50),
-        "k": Option(float, "coverage factor on the local window's uncertainty", "", 0.5, 20),
+        "window": Option(int, "distinct temperatures per local window (replicates at them included) [-]", "", 3, 50),
+        "k": Option(float, "coverage factor on the local window's uncertainty [-]", "", 0.5, 20),
         "tolerance_percent": Option(float, "smallest relative departure worth flagging", "%", 0, 100),
-        "step_alpha": Option(float, "significance level (adjusted) of a step in ΔH(T)", "", 1e-12, 0.5),
+        "step_alpha": Option(float, "significance level (adjusted) of a step in ΔH(T) [-]", "", 1e-12, 0.5),
         "step_tolerance_percent": Option(float, "smallest step in ΔH worth reporting", "%", 0, 100),
         "step_smooth_terms": Option(int, "smooth terms (Legendre polynomials in 1/T) added to the fit of "
-                                    "record's form before a step is called", "", 0, 6),
+                                    "record's form before a step is called [-]", "", 0, 6),
     }
 
     def run(self, ctx):

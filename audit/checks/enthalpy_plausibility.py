@@ -35,6 +35,20 @@ class EnthalpyPlausibility(Check):
     is wrong.  Agreement with calorimetry is the classic independent test
     of vapor-pressure data.
 
+    **Method.** ΔH is computed from the slope of each branch's fit of record
+    by the Clapeyron equation, ΔH = −R·Δz·d ln P/d(1/T), with Δz from the
+    second virial coefficient when the critical constants allow (else
+    apparent, Δz = 1). (1) Trouton: the normal boiling point is taken from the
+    metadata or substance library, else found by a bracketed root of ln P(T) =
+    ln 101 325 Pa; the test applies only when Tb lies within ``Tb_margin_K``
+    of the data's temperatures, and then ΔH_vap(Tb)/Tb must lie within
+    ``trouton_band``. (2) Where a solid branch meets the liquid, ΔH_sub and
+    ΔH_vap are computed at the midpoint between the solid's highest and the
+    liquid's lowest temperature; ΔH_sub must exceed ΔH_vap. (3) A calorimetric
+    ΔH_vap or ΔH_sub given at a temperature is compared with the implied value
+    there: the deviation must not exceed ``k``·√(u_implied² + u_cal²) +
+    ``tolerance_percent`` of the calorimetric value.
+
     **Example.** toluene: "Trouton ΔH_vap(383.75 K)/Tb = 86.7 J mol⁻¹ K⁻¹,
     within 75–120".
 
@@ -55,7 +69,7 @@ class EnthalpyPlausibility(Check):
         "trouton_band": Option(list, "plausible ΔH_vap(Tb)/Tb [low, high] (wide; common practice)",
                                "J mol⁻¹ K⁻¹"),
         "Tb_margin_K": Option(float, "how far outside the data Tb may lie for the Trouton test", "K", 0, 200),
-        "k": Option(float, "coverage factor on the combined uncertainty", "", 0.5, 10),
+        "k": Option(float, "coverage factor on the combined uncertainty [-]", "", 0.5, 10),
         "tolerance_percent": Option(float, "allowed departure from calorimetry on top of k·u", "%", 0, 100),
     }
 

@@ -36,8 +36,17 @@ class Monotonic(Check):
     neighbour into a pair — the falls it makes are counted in the message
     and metrics (``pairs_left_to_explained``), not flagged.
 
-    **Method.** Sort each branch-and-source series by T, merge replicates
-    into their median-pressure row, compare consecutive rows.
+    **Method.** Sort each branch-and-source series by T, leaving out rows
+    already rejected or given a cause; group replicates (temperatures within
+    ``T_tolerance_K``, their printed resolution or ``k`` times their combined
+    u(T)) and let each group enter through its median-pressure row; then
+    compare consecutive rows.  The fall P_a − P_b allowed between neighbours
+    a and b is the larger of ``P_tolerance_percent`` of P_a and ``k`` times
+    the combined scatter √(u_a² + u_b²), each u the larger of the row's
+    stated u(P) and its expected scatter (printed digits, or what the
+    outliers check found it to scatter).  Both rows of a pair beyond it are
+    suspect.  Falls involving a row already rejected or explained are
+    counted and left to that row, not flagged.
 
     **Example.** 300 K → 3.54 kPa, 305 K → 3.45 kPa → "P falls from row 4 to
     row 5 as T rises by 5 K".
@@ -57,7 +66,7 @@ class Monotonic(Check):
                                 "are replicates, left to the duplicates check", "K", 0, 5),
         "P_tolerance_percent": Option(float, "allowed relative fall in pressure (noise)", "%", 0, 100),
         "k": Option(float, "coverage factor applied to the combined u(P), and to the combined u(T) "
-                    "when grouping replicates", "", 0.5, 10),
+                    "when grouping replicates [-]", "", 0.5, 10),
     }
 
     def run(self, ctx):

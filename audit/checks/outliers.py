@@ -134,6 +134,42 @@ class Outliers(Check):
     of the range bends it most and hides its own residual.  Heavily rounded
     low pressures of old tables are not wrong for being 10 % off.
 
+    **Method.** Per branch with at least ``min_points`` usable points, the
+    consensus is built in this order. (1) Gross-error screen: Siegel's
+    repeated-median line of ln P on 1/T, then a robust three-constant fit
+    whose zero-weight points start out rejected. (2) Equation choice: the form
+    of least AICc among the physically sane candidates (critical constants
+    used where known), chosen once. (3) Standard uncertainty of each point in
+    ln P: the effective variance u² = u_r(P)² + (d ln P/dT)²·u(T)² when the
+    table states uncertainties (replaced by the estimated scale when a χ² test
+    at ``scale_alpha`` finds the data scatter more than stated), else the
+    normal-consistent MAD of the residuals — per source when the source has
+    ``min_points_source_scale`` points or more and the Brown–Forsythe test
+    (Levene's test about the median) at ``source_scale_alpha`` finds the
+    sources' scatters different — floored by the rounding of the printed
+    digits, u = δ/(2√3), and by ``min_scatter_percent``. (4) Reject-and-refit
+    loop, at most ``max_iterations`` times, until the rejected points and
+    biased sources stop changing: a robust (Huber, then Tukey biweight)
+    weighted fit of the points not rejected; a classical weighted fit of the
+    points it kept; each point's leave-one-out residual from the weighted hat
+    matrix — externally studentized inside the fit, the prediction residual
+    outside it, and by temperature (distance to where the curve reaches its
+    pressure, through the slope) far outside the fitted range; with two named
+    sources or more, group-deletion residuals per source, a source beyond the
+    source-agreement limits being scored after removing its offset (constant,
+    or a thermometer offset ΔT·d ln P/dT). (5) A point whose |z| exceeds the
+    family-wise critical value — the two-sided normal quantile at the
+    per-point level 1 − (1 − α)^(1/n) (Šidák) or α/n (Bonferroni), α =
+    ``reject_alpha`` or ``suspect_alpha`` — is rejected or suspect; Cook's
+    distance is reported for each. (6) For each suspect or rejected point the
+    cause hypotheses (pressure unit, temperature unit, decimal shift,
+    transposed digits) are re-scored against the final curve; a cause is named
+    when its corrected point lies within ``cause_k`` σ and the next-best
+    reading and the printed value are ``cause_ratio`` times worse; a
+    contiguous block of two rows or more sharing one power-of-ten slip is
+    renamed a pressure-unit slip, and rows the physical-range check rejected
+    are diagnosed against their branch's curve too.
+
     **Example.** Water, 20 points 280–370 K; row 12 printed 47.37 kPa where
     the curve gives 47.73 kPa → reject, "digit-swap: P printed '47.37' would
     read '47.73' …; residual −15.2 σ as printed, +0.3 σ corrected".
@@ -163,28 +199,29 @@ class Outliers(Check):
         "(equality of variances).",
     )
     options = {
-        "reject_alpha": Option(float, "family-wise false-rejection probability per branch", "", 1e-6, 0.5),
-        "suspect_alpha": Option(float, "family-wise false-suspicion probability per branch", "", 1e-6, 0.9),
-        "correction": Option(str, "multiple-testing correction over the n points", "",
+        "reject_alpha": Option(float, "family-wise false-rejection probability per branch [-]", "", 1e-6, 0.5),
+        "suspect_alpha": Option(float, "family-wise false-suspicion probability per branch [-]", "", 1e-6, 0.9),
+        "correction": Option(str, "multiple-testing correction over the n points (a method's name, not a "
+                             "quantity: no unit)", "",
                              choices=("sidak", "bonferroni")),
-        "max_iterations": Option(int, "cap on reject-and-refit rounds", "", 1, 100),
+        "max_iterations": Option(int, "cap on reject-and-refit rounds [-]", "", 1, 100),
         "min_scatter_percent": Option(float, "floor on the relative scatter a consensus curve is trusted to "
                                       "(common practice: vapor-pressure equations reproduce the best data to "
                                       "a few hundredths of a percent)", "%", 0, 10),
-        "min_points": Option(int, "fewest usable points of a branch to test it", "", 4, 1000),
-        "min_points_source_scale": Option(int, "fewest points of a source to estimate its own scatter",
+        "min_points": Option(int, "fewest usable points of a branch to test it [-]", "", 4, 1000),
+        "min_points_source_scale": Option(int, "fewest points of a source to estimate its own scatter [-]",
                                           "", 3, 1000),
         "scale_alpha": Option(float, "significance at which data that state u(P), u(T) are taken to "
-                              "scatter more than stated (χ² test); then the scale is estimated", "", 1e-6, 0.5),
+                              "scatter more than stated (χ² test); then the scale is estimated [-]", "", 1e-6, 0.5),
         "max_source_scatter_percent": Option(float, "largest scatter a source's rows can have as measurement "
                                              "scatter about the consensus; beyond it the source's scatter is "
                                              "measured about its own trend in 1/T", "%", 1, 1e6),
         "source_scale_alpha": Option(float, "significance at which the sources' scatters are taken as "
-                                     "different (Brown–Forsythe test) and each source gets its own scale",
+                                     "different (Brown–Forsythe test) and each source gets its own scale [-]",
                                      "", 1e-6, 0.5),
-        "cause_k": Option(float, "a corrected point must lie within this many σ of the curve", "", 0.5, 10),
+        "cause_k": Option(float, "a corrected point must lie within this many σ of the curve [-]", "", 0.5, 10),
         "cause_ratio": Option(float, "the next-best cause, and the value as printed, must be this many "
-                              "times worse", "", 1, 100),
+                              "times worse [-]", "", 1, 100),
     }
 
     def run(self, ctx):

@@ -23,9 +23,14 @@ class PhysicalRange(Check):
     column or a sign slip; a pressure above Pc is a unit slip or a
     supercritical state point pasted into a saturation table.
 
-    **Method.** Direct comparison with the thermodynamic limits; the
-    ``critical_allowance_percent`` absorbs the uncertainty of the critical
-    constants themselves.
+    **Method.** Direct comparison with the thermodynamic limits, row by row,
+    on every readable row (converted to K and Pa by the ingest): T must be a
+    finite number above 0 K and P a finite number above 0 Pa; where the
+    metadata give them, T ≤ Tc·(1 + a) and P ≤ Pc·(1 + a) with
+    a = ``critical_allowance_percent``/100, which absorbs the uncertainty of
+    the critical constants themselves; a row labelled solid must lie at or
+    below T_triple + ``triple_allowance_K``.  A row breaking any limit is
+    rejected, with every limit it breaks named, and no later check fits it.
 
     **Example.** ``T/K = -10`` → reject: "T = -10 K is not above 0 K".
 

@@ -20,6 +20,14 @@ class Readability(Check):
     hand; silently dropping it would make the audit look cleaner than the
     table is.
 
+    **Method.** The check computes nothing of its own: the ingest has already
+    tried to parse every temperature and pressure cell as a finite number in
+    its column's unit, and marked each cell it could not read as unreadable,
+    with the reason and the original text. The check collects the rows so
+    marked, flags each with that reason at the profile's severity, and counts
+    them against the number of data rows; the status is the severity when one
+    row or more is unreadable, else pass. No row is dropped or changed.
+
     **Example.** ``T/K = 300.0, P/kPa = 3.54*`` → row unreadable: "pressure
     cell '3.54*' is not a number".
 
@@ -30,7 +38,7 @@ class Readability(Check):
     title = "Readable temperature and pressure values"
     method = "Each cell is parsed as a number in the column's unit; failures keep their text."
     references = ("Y. Shafranovich, RFC 4180, Common Format and MIME Type for Comma-Separated Values (CSV) "
-                  "Files (IETF, 2005).",
+                  "Files (IETF, 2005), doi:10.17487/RFC4180.",
                   "ISO 80000-1:2009, Quantities and units — Part 1: General, §7.3 (the decimal sign, a comma "
                   "or a point; digits grouped by thin spaces).")
     options = {}

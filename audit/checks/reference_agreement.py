@@ -35,6 +35,18 @@ class ReferenceAgreement(Check):
     any single table; a systematic departure from it is the first sign of a
     biased source, and a new data set should say where it stands.
 
+    **Method.** (1) The reference equations in force are taken from the
+    metadata's ``[reference_equation]`` table(s), else, for water, the
+    built-in IAPWS equations for liquid and ice. (2) For each usable point of
+    a branch the reference covers, the relative deviation 100·(P −
+    P_ref)/P_ref is computed; points outside the reference's validity range
+    are flagged as compared by extrapolation, and points where the reference
+    is undefined are left out. (3) Per branch, and per source when there are
+    two or more, the bias (mean deviation), the RMS and the standard error of
+    the mean s/√n (sample standard deviation, n − 1 degrees of freedom) are
+    computed; a bias beyond ``k`` times its standard error plus
+    ``tolerance_percent`` is reported.
+
     **Example.** "liquid vs IAPWS-95 auxiliary equation: bias +0.012 ± 0.010 %,
     RMS 0.05 % over 25 points".
 
@@ -52,7 +64,7 @@ class ReferenceAgreement(Check):
         "doi:10.1063/1.3657937 — sublimation pressure of ice Ih.",
     )
     options = {
-        "k": Option(float, "coverage factor on the bias's standard error", "", 0.5, 10),
+        "k": Option(float, "coverage factor on the bias's standard error [-]", "", 0.5, 10),
         "tolerance_percent": Option(float, "bias always tolerated (reference's own uncertainty)", "%", 0, 100),
     }
 

@@ -27,6 +27,17 @@ class SheetEnthalpy(Check):
     over — and the slope is what an enthalpy, a heat load or a boil-off rate
     is computed from.
 
+    **Method.** (1) The decoded equation's ln P and its analytic derivative d
+    ln P/dT are evaluated at 25 evenly spaced temperatures of the stated
+    range; an undefined value (a pole or a domain limit) fails. (2) ΔH =
+    −R·Δz·d ln P/d(1/T) = R·Δz·T²·d ln P/dT at each, with Δz from the second
+    virial coefficient when the critical constants and acentric factor are
+    known (else apparent, Δz = 1); a ΔH ≤ 0 anywhere fails. (3) For a liquid,
+    the rise 100·(max ΔH/ΔH(T_low) − 1) must not exceed
+    ``rise_tolerance_percent``. (4) When ln P increases across the range and
+    passes 101.325 kPa, Tb is interpolated on the grid and ΔH(Tb)/Tb must lie
+    within ``trouton_band``.
+
     **Example.** "ΔH from 38.9 kJ/mol (273.2 K) to 33.1 kJ/mol (403.2 K),
     falling; Trouton ΔH(Tb)/Tb = 87.3 J/(mol K) at 383.8 K".
 

@@ -24,6 +24,14 @@ class SheetRange(Check):
     sheet's equation ends up used at the critical point or below the melting
     point.
 
+    **Method.** Plain comparisons of the stated range [T_low, T_high], in
+    kelvin as decoded: with the temperatures of the sheet's table (how many
+    kelvin of the range lie beyond them), with the reference's range of
+    validity, with ``near_critical_fraction``·Tc (T_high above it takes the
+    profile's severity) and, for a liquid equation, with T_triple −
+    ``triple_allowance_K`` (T_low below it takes the profile's severity). A
+    range that does not decode to temperatures above 0 K fails.
+
     **Example.** "stated 273.2–573.2 K; the table covers 293.2–373.2 K, the
     reference 309–591.7 K; reaches 0.97 Tc (591.7 K)".
 
@@ -37,7 +45,7 @@ class SheetRange(Check):
     references = ("B. E. Poling, J. M. Prausnitz, J. P. O'Connell, The Properties of Gases and Liquids, 5th ed. "
                   "(McGraw-Hill, 2000), ch. 7 (ranges of the vapor-pressure correlations).",)
     options = {
-        "near_critical_fraction": Option(float, "a range reaching above this fraction of Tc warns", "", 0.5, 1.0),
+        "near_critical_fraction": Option(float, "a range reaching above this fraction of Tc warns [-]", "", 0.5, 1.0),
         "triple_allowance_K": Option(float, "a liquid range may start this far below the triple point", "K",
                                      0, 100),
     }

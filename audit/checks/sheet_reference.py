@@ -28,6 +28,16 @@ class SheetReference(Check):
     range, far from the few temperatures anyone checks by hand; this is how
     far it strays from the best available knowledge there.
 
+    **Method.** (1) The compared interval is the intersection of the stated
+    range (or the table's) with the reference's range of validity; an empty
+    intersection is reported. (2) At 41 evenly spaced temperatures of it, the
+    deviation 100·(P_sheet/P_ref − 1) is computed from the difference of ln P,
+    temperatures where the reference is undefined being left out. (3) The
+    largest absolute deviation and the rms deviation are reported; a largest
+    deviation beyond ``gross_percent`` (or undefined) fails as another
+    substance's coefficients, one beyond ``tolerance_percent`` takes the
+    profile's severity.
+
     **Example.** "largest deviation −3.1 % at 403.2 K from the Wagner 3-6
     coefficients of McGarry (1983) over 273.2–403.2 K (limit 5 %)".
 
@@ -40,7 +50,7 @@ class SheetReference(Check):
     method = ("Deviation 100·(P_sheet/P_ref − 1) at 41 temperatures of the stated range within the reference's "
               "range of validity; largest and rms deviation against two limits.")
     references = ("IAPWS R6-95(2018) and its auxiliary saturation equation (W. Wagner, A. Pruss, J. Phys. Chem. "
-                  "Ref. Data 31, 387 (2002)); IAPWS R14-08(2011) for ice.",
+                  "Ref. Data 31, 387 (2002), doi:10.1063/1.1461829); IAPWS R14-08(2011) for ice.",
                   "C. Bell et al., chemicals: chemical properties component of Chemical Engineering Design "
                   "Library (ChEDL), https://github.com/CalebBell/chemicals (the coefficient tables it carries).")
     options = {

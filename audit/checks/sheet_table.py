@@ -29,6 +29,17 @@ class SheetTable(Check):
     value from another product grade, or a sign that the table and the
     equation come from different sources.
 
+    **Method.** For each readable row of the sheet's table: (1) the deviation
+    d = ln P_row − ln P_eq(T_row) from the decoded equation; (2) the row's
+    limit is the larger of ln(1 + ``tolerance_percent``/100) and half a unit
+    of the last printed digit (√3 times the rectangular standard uncertainty
+    of the rounding, u = δ/(2√3)); (3) a row with |d| beyond its limit is
+    rejected, and the cause hypotheses (another pressure unit, a misplaced
+    decimal point, transposed digits, another temperature unit) are scored by
+    z = d/limit for each corrected reading: one is named when its corrected
+    value lands within the limit (|z| ≤ 1) and the next-best reading and the
+    printed value are at least ``cause_ratio`` times worse.
+
     **Example.** "row 7 (40 °C, 7.88): −94.2 % from the equation (limit 1 %);
     likely cause pressure-unit: written in kPa".
 
@@ -45,7 +56,7 @@ class SheetTable(Check):
         "tolerance_percent": Option(float, "largest deviation of a table row from the sheet's equation", "%",
                                     0.001, 100),
         "cause_ratio": Option(float, "a cause's corrected value must be this many times closer than the "
-                              "printed one", "", 1, 100),
+                              "printed one [-]", "", 1, 100),
     }
 
     def run(self, ctx) -> CheckResult:

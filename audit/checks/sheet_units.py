@@ -26,6 +26,23 @@ class SheetUnits(Check):
     property sheet, and it moves every pressure by a constant factor — a
     factor a relief-valve calculation silently inherits.
 
+    **Method.** Every candidate reading — what the equation gives (log10 P, ln
+    P or P) × temperature unit (K, °C, °F) × one pressure unit per size — is
+    scored by the evidence available, in ln P: the rms of ln(P_sheet/P_ref)
+    over the stated range where the reference is valid; the median
+    |ln(P_sheet/P_table)| over the sheet's own table; without a reference,
+    |ln(P_sheet(Tb)/101.325 kPa)| at the normal boiling point; and physics — P
+    defined over the range, the implied enthalpy positive and between
+    ``min_dH_kJ_per_mol`` and ``max_dH_kJ_per_mol``, below the critical point
+    (violations, weighed heavily), Trouton's ratio within ``trouton_band`` and
+    Antoine's C in its usual range (doubts, weighed lightly). The reading of
+    least total misfit is the decoded one; the stated reading stands unless
+    another is better by more than ``decisive_percent`` and by a factor of
+    two, or the stated one violates physics where another does not. The check
+    fails when no reading is physical, and warns when the decoded reading
+    differs from the stated one or when missing units could be decided by
+    physics only.
+
     **Example.** "the sheet states log10(P/kPa) with T in °C, but the
     coefficients are log10(P/mmHg) with T in °C: reference rms 0.3 % (as
     stated ×7.5)".

@@ -29,6 +29,17 @@ class SolidTransition(Check):
     rejected.  Where the forms' curves cross is the transition temperature,
     a property a curator can compare with calorimetry.
 
+    **Method.** The solid branches whose labels name a crystal form and whose
+    fits of record rest on at least ``min_points_per_branch`` points are
+    ordered by temperature; for each pair adjacent in temperature: (1) the two
+    fits are intersected (root of the difference of ln P bracketed and found
+    by Brent's method); (2) u(T), u(P) and u(ΔH_trs) follow from both
+    parameter covariances by the delta method; ΔH_trs = Δz·ΔH_sub,app(low-T
+    form) − Δz·ΔH_sub,app(high-T form) at the crossing, real-gas corrected
+    when the constants allow; (3) the check fails when the curves do not
+    cross, cross farther than ``crossing_margin_K`` from the junction of the
+    two forms' data, or give ΔH_trs ≤ 0.
+
     **Example.** forms II (250–300 K) and I (300–340 K) → "II → I at
     300.2 ± 0.4 K, 1.23 ± 0.05 kPa; ΔH_trs = 2.9 ± 0.3 kJ/mol".
 
@@ -44,11 +55,14 @@ class SolidTransition(Check):
         "Clapeyron equation for each solid–vapor equilibrium; at a solid–solid transition both forms "
         "have one vapor pressure and ΔH_trs = ΔH_sub,low − ΔH_sub,high (Hess), e.g. Atkins' Physical "
         "Chemistry, §4B.",
+        "R. P. Brent, Algorithms for Minimization without Derivatives (Prentice-Hall, 1973), ch. 4 — the "
+        "root finder.",
+        "JCGM 100:2008 (GUM) §5.1 — propagation of uncertainty (delta method).",
     )
     options = {
         "crossing_margin_K": Option(float, "how far outside the junction of the two forms' data the "
                                     "curves may cross", "K", 0, 200),
-        "min_points_per_branch": Option(int, "fewest points on each form's branch", "", 3, 1000),
+        "min_points_per_branch": Option(int, "fewest points on each form's branch [-]", "", 3, 1000),
     }
 
     def run(self, ctx):

@@ -69,6 +69,31 @@ class SourceAgreement_(Check):
     value of a source; the points look consistent among themselves and
     pass any point-by-point test, yet bias the recommended curve.
 
+    **Method.** Per branch of the outliers check's consensus with two named
+    sources or more, using each point's consensus standard uncertainty in ln P
+    (never below the rounding of its printed digits) and leaving out rows
+    already rejected. (1) A source whose temperatures no other source reaches
+    is not analysed (an offset there would be an extrapolation). (2) For each
+    source, a curve of the consensus equation form is fitted to the other
+    sources' points, and the source's constant offset Δln P and, as an
+    alternative one-parameter model, its temperature offset ΔT (Δln P = −(d ln
+    P/dT)·ΔT) are estimated by generalised least squares with covariance
+    diag(σ²) + J·C·Jᵀ (its own scatter plus the uncertainty C of the others'
+    curve), the uncertainty inflated by the Birge ratio; the two models are
+    compared by their Δχ² (equal to ΔAIC, each having one parameter). (3) The
+    worst source beyond both ``k``·u and ``tolerance_percent`` is excluded
+    from the consensus and the others are re-assessed without it, repeated
+    while candidates remain and at least two sources stay in. (4) Each flagged
+    source is suspect, or reject beyond ``reject_tolerance_percent``; with
+    three sources or more the consensus is refitted without it. (5) A flagged
+    source is then diagnosed in turn: its offset read as the ratio of two
+    pressure units (within ``unit_tolerance_percent``, or
+    ``unit_ratio_tolerance``·|ln r| when its slope is the substance's), its
+    temperatures read in another scale, and its own apparent enthalpy against
+    the consensus's (beyond ``k``·u and ``other_compound_dH_percent``, or an
+    offset beyond ``max_gauge_error_percent`` and ``max_thermometer_error_K``)
+    as another compound.
+
     **Example.** Three sources of water data; source "B" reads 3.1 ± 0.2 %
     high everywhere → "B: pressures +3.1 % (u 0.2 %) vs. the other sources;
     pattern: pressure-scale".
@@ -112,22 +137,22 @@ class SourceAgreement_(Check):
         "JCGM 100:2008 (GUM), §5.2 (correlated input quantities).",
     )
     options = {
-        "k": Option(float, "coverage factor on the offset's standard uncertainty", "", 0.5, 10),
+        "k": Option(float, "coverage factor on the offset's standard uncertainty [-]", "", 0.5, 10),
         "tolerance_percent": Option(float, "smallest offset worth flagging", "%", 0, 100),
         "reject_tolerance_percent": Option(float, "offset beyond which the source record says reject",
                                            "%", 0, 1000),
-        "pattern_delta_chi2": Option(float, "Δχ² needed to name pressure-scale vs temperature-offset",
+        "pattern_delta_chi2": Option(float, "Δχ² needed to name pressure-scale vs temperature-offset [-]",
                                      "", 0, 100),
-        "min_points": Option(int, "fewest usable points of a source to assess it", "", 2, 1000),
+        "min_points": Option(int, "fewest usable points of a source to assess it [-]", "", 2, 1000),
         "other_compound_dH_percent": Option(float, "departure of a flagged source's own apparent enthalpy "
                                                    "from the consensus's beyond which it is taken for "
                                                    "another compound", "%", 0, 100),
         "unit_tolerance_percent": Option(float, "largest offset left after reading a source's pressures in "
                                                 "another unit, for that reading to be its cause", "%", 0, 50),
         "min_block_rows": Option(int, "fewest contiguous rejected rows of one source read as a block of their "
-                                 "own (another unit, scale or compound)", "", 2, 1000),
+                                 "own (another unit, scale or compound) [-]", "", 2, 1000),
         "unit_ratio_tolerance": Option(float, "for a unit ratio r, the offset left may also reach this fraction "
-                                       "of |ln r| when the source keeps the substance's slope", "", 0, 0.5),
+                                       "of |ln r| when the source keeps the substance's slope [-]", "", 0, 0.5),
         "max_gauge_error_percent": Option(float, "largest pressure-scale error a gauge or calibration gives; a "
                                           "flagged source further off (and beyond max_thermometer_error_K) with "
                                           "no unit ratio is taken for another compound", "%", 1, 10000),

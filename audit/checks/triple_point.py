@@ -35,6 +35,24 @@ class TriplePoint(Check):
     in one branch, and an ice point labelled liquid is a common
     transcription slip.
 
+    **Method.** Needs a solid branch meeting the liquid and the fits of record
+    of both with at least ``min_points_per_branch`` points. (1) The two
+    recommended equations are intersected: the root of ln P_s(T) − ln P_l(T)
+    is bracketed and found by Brent's method. (2) u(T) and u(P) of the
+    crossing follow from both fits' parameter covariances by the delta method
+    (the implicit-function theorem gives dT/dθ at the crossing); ΔH_fus =
+    Δz_s·ΔH_sub,app − Δz_l·ΔH_vap,app there, with Δz from the second virial
+    coefficient when the critical constants allow, else apparent. (3) The
+    crossing must lie within ``crossing_margin_K`` of the junction of the two
+    branches' data and ΔH_fus must be positive, else the check fails. (4)
+    Against a reference triple point (metadata, substance library, or IAPWS
+    for water): |T − T_ref| ≤ ``k``·√(u(T)² + u(T_ref)²) + ``T_tolerance_K``
+    and likewise for P in percent; ΔH_fus against the metadata's enthalpy of
+    fusion with ``dH_fus_tolerance_percent``. (5) A row the outlier screening
+    marked suspect or rejected whose residual, in robust (MAD) scales of each
+    fit, lies within ``phase_label_k`` σ of the other branch and beyond twice
+    that of its own gets the cause phase-label.
+
     **Example.** "branches cross at 273.17 ± 0.01 K, 611.9 ± 0.6 Pa; ΔH_fus
     = 6.01 ± 0.05 kJ/mol; reference 273.16 K, 611.657 Pa — agrees".
 
@@ -54,9 +72,11 @@ class TriplePoint(Check):
         "W. Wagner, T. Riethmann, R. Feistel, A. H. Harvey, J. Phys. Chem. Ref. Data 40, 043103 (2011), "
         "doi:10.1063/1.3657937 — sublimation and melting pressures of ice Ih.",
         "JCGM 100:2008 (GUM) §5.1 — propagation of uncertainty (delta method).",
+        "R. P. Brent, Algorithms for Minimization without Derivatives (Prentice-Hall, 1973), ch. 4 — the "
+        "root finder.",
     )
     options = {
-        "k": Option(float, "coverage factor for agreement with the reference", "", 0.5, 10),
+        "k": Option(float, "coverage factor for agreement with the reference [-]", "", 0.5, 10),
         "T_tolerance_K": Option(float, "allowed |T − T_ref| on top of k·u", "K", 0, 50),
         "P_tolerance_percent": Option(float, "allowed |P − P_ref| on top of k·u", "%", 0, 100),
         "crossing_margin_K": Option(float, "how far outside the branches' junction the crossing may lie",
@@ -64,8 +84,8 @@ class TriplePoint(Check):
         "dH_fus_tolerance_percent": Option(float, "allowed departure from a reference ΔH_fus on top of k·u",
                                            "%", 0, 100),
         "phase_label_k": Option(float, "a marked point fits the other branch when its residual there "
-                                "is within this many σ", "", 0.5, 10),
-        "min_points_per_branch": Option(int, "fewest points on each branch", "", 3, 1000),
+                                "is within this many σ [-]", "", 0.5, 10),
+        "min_points_per_branch": Option(int, "fewest points on each branch [-]", "", 3, 1000),
     }
 
     def run(self, ctx):

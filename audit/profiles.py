@@ -33,6 +33,7 @@ from importlib import resources
 from pathlib import Path
 from typing import Any, Mapping
 
+from .frozen import FrozenMapping
 from .options import Option
 from .errors import InputError
 
@@ -50,34 +51,6 @@ class CheckSettings:
 
     def __getitem__(self, key: str) -> Any:
         return self.options[key]
-
-
-class FrozenMapping(Mapping):
-    """A read-only mapping that pickles (``types.MappingProxyType`` does not), so that a
-    resolved profile travels to worker processes and Dask workers with the audit."""
-
-    __slots__ = ("_data",)
-
-    def __init__(self, data=()):
-        object.__setattr__(self, "_data", dict(data))
-
-    def __getitem__(self, key):
-        return self._data[key]
-
-    def __iter__(self):
-        return iter(self._data)
-
-    def __len__(self):
-        return len(self._data)
-
-    def __repr__(self):
-        return f"FrozenMapping({self._data!r})"
-
-    def __reduce__(self):
-        return (FrozenMapping, (self._data,))
-
-    def __setattr__(self, name, value):
-        raise AttributeError("a FrozenMapping cannot be changed")
 
 
 #: what ``[limits]`` may say, declared and validated as a check's options are

@@ -70,6 +70,9 @@ class CheckResult:
     #: what the phases in ``phase_inferred`` were inferred from (e.g. "the known triple point …")
     phase_basis: str = ""
 
+    def __post_init__(self):
+        _freeze(self, "metrics", "point_status", "causes", "residual_sigma", "phase_inferred")
+
     def to_dict(self) -> dict:
         return {"id": self.id, "title": self.title, "status": self.status,
                 "message": self.message, "metrics": _jsonable(dict(self.metrics))}
@@ -143,6 +146,9 @@ class FitRecord:
     #: the fitted equation object, for plotting (not serialised)
     model: Any = field(default=None, compare=False, repr=False)
 
+    def __post_init__(self):
+        _freeze(self, "parameters", "extra")
+
     @property
     def correlation(self) -> tuple[tuple[float, ...], ...]:
         """The parameters' correlation matrix, from ``covariance`` [-] (NaN where a variance is not positive)."""
@@ -206,6 +212,9 @@ class SourceAgreement:
     status: str
     extra: Mapping[str, Any] = field(default_factory=dict)
 
+    def __post_init__(self):
+        _freeze(self, "extra")
+
     def to_dict(self) -> dict:
         d = {"source": self.source, "n": self.n, "bias_percent": _num(self.bias_percent),
              "u_bias_percent": _num(self.u_bias_percent),
@@ -224,6 +233,9 @@ class TriplePointRecord:
     dH_fus_J_per_mol: float | None
     u_dH_fus_J_per_mol: float | None
     reference: Mapping[str, Any] | None
+
+    def __post_init__(self):
+        _freeze(self, "reference")
 
     def to_dict(self) -> dict:
         return {"T_K": _num(self.T_K), "u_T_K": _num(self.u_T_K), "P_Pa": _num(self.P_Pa),
@@ -280,6 +292,9 @@ class SheetRecord:
     supplier: str | None = None
     product: str | None = None
 
+    def __post_init__(self):
+        _freeze(self, "coefficients", "stated", "decoded", "evidence", "si", "reference")
+
     def to_dict(self) -> dict:
         return _jsonable({"form": self.form, "expression": self.expression,
                           "coefficients": dict(self.coefficients), "stated": dict(self.stated),
@@ -319,6 +334,9 @@ class AuditResult:
     internal_errors: tuple[str, ...] = ()
     #: a supplier sheet's stated and decoded reading (None for a table audit)
     sheet: SheetRecord | None = None
+
+    def __post_init__(self):
+        _freeze(self, "plot_data")
 
     @property
     def verdict(self) -> str:
@@ -432,6 +450,15 @@ def _source_text(src: "SourceAgreement") -> str:
     elif cause.get("kind"):
         what += f"; cause {cause['kind']} ({cause['n_rows']} rows)"
     return what
+
+
+def _freeze(obj, *names) -> None:
+    """Make the named fields of a frozen dataclass read-only all the way down (its mappings
+    and lists), so that a result handed to a report, a worker or an archive cannot change."""
+    from .frozen import frozen
+
+    for name in names:
+        object.__setattr__(obj, name, frozen(getattr(obj, name)))
 
 
 def _branch_fields(branch: str) -> dict:

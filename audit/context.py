@@ -3,7 +3,7 @@
 Checks run in registry order.  Each sees the dataset, its own settings and
 the verdicts of the checks before it: a point rejected by ``physical-range``
 (T <= 0) or by ``outliers`` no longer bends the fits of later checks.
-Products that later checks and the summary use are typed attributes of the
+Products that later checks and ``audit.products`` use are typed attributes of the
 context, each set by one named check: the consensus model (``outliers``;
 ``source-agreement`` may replace a branch), the source records
 (``source-agreement``), the triple point (``triple-point``), the deviations
@@ -37,7 +37,7 @@ class AuditContext:
     ``plot_data``: ``"local_enthalpy"`` (enthalpy-continuity) and
     ``"reference"`` (reference-agreement); ``fallback_fits``: the fit of a
     branch the consensus could not fit, made when first asked for
-    (:func:`audit.checks._fits.recommended`).
+    (:func:`audit.checks.fits.recommended`).
     """
 
     dataset: Dataset

@@ -114,15 +114,15 @@ def run_audit(dataset: Dataset, profile: Profile, *, audited_at: str | None = No
         ctx.absorb(result)
         results.append(result)
 
-    from .summary import Products, summarise  # fits, enthalpy, sources, triple point from the final state
+    from .products import AuditProducts, gather_products  # fits, enthalpy, sources, triple point from the final state
 
     try:
-        products = summarise(ctx)
+        products = gather_products(ctx)
     except Exception as exc:  # the last guard: see _run_guarded
         if os.environ.get("VPAUDIT_DEBUG"):
             raise
         internal_errors.append(f"summary: {_one_line(exc)}")
-        products = Products(notes=("internal error while gathering fits and enthalpies: "
+        products = AuditProducts(notes=("internal error while gathering fits and enthalpies: "
                                    f"{_one_line(exc)}; the sections fits, enthalpy, sources "
                                    "and triple_point are empty",))
     points = []

@@ -15,7 +15,7 @@ from audit.model import from_arrays
 from audit.pipeline import run_audit
 from audit.profiles import load_profile
 from audit.substances import with_library_constants
-from audit.summary import round_temperatures
+from audit.products import round_temperatures
 from audit.thermo.constants import WATER_MOLAR_MASS
 
 

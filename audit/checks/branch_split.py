@@ -8,7 +8,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..results import CheckResult, PointFlag
-from ._fits import known_triple_point, points_data
+from .fits import known_triple_point, points_data
 from ._util import skipped
 from .registry import Check, Option, register
 

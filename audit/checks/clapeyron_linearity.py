@@ -6,7 +6,7 @@ import numpy as np
 
 from ..model import is_solid
 from ..results import CheckResult, PointFlag
-from ._fits import MIN_POINTS_FOR_FIT, recommended
+from .fits import MIN_POINTS_FOR_FIT, recommended
 from ._util import skipped
 from .registry import Check, Option, register
 

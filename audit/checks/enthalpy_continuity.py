@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..results import CheckResult, PointFlag
-from ._fits import recommended
+from .fits import recommended
 from ._util import skipped
 from .registry import Check, Option, register
 

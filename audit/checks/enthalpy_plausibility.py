@@ -7,7 +7,7 @@ import math
 import numpy as np
 
 from ..results import CheckResult
-from ._fits import implied, recommended, solid_meeting_liquid
+from .fits import implied, recommended, solid_meeting_liquid
 from ._util import skipped
 from .registry import Check, Option, register
 

@@ -9,7 +9,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..results import CheckResult, PointFlag
-from ._fits import is_water
+from .fits import is_water
 from ._util import skipped
 from .registry import Check, Option, register
 

@@ -59,9 +59,9 @@ class SheetEnthalpy(Check):
     }
 
     def run(self, ctx) -> CheckResult:
-        from ..summary import round_temperatures
+        from ..products import round_temperatures
         from ..thermo.enthalpy import implied_enthalpy
-        from ._fits import real_gas_model
+        from .fits import real_gas_model
         from ._util import skipped
 
         s = ctx.settings(self.id)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from ..model import crystal_form_of, is_solid
 from ..results import CheckResult, TransitionRecord
-from ._fits import corrected_crossing, recommended
+from .fits import corrected_crossing, recommended
 from ._util import skipped
 from .registry import Check, Option, register
 

@@ -6,7 +6,7 @@ import math
 
 
 from ..results import Cause, CheckResult, PointFlag, TriplePointRecord
-from ._fits import corrected_crossing, known_triple_point, recommended, solid_meeting_liquid
+from .fits import corrected_crossing, known_triple_point, recommended, solid_meeting_liquid
 from ._util import skipped
 from .registry import Check, Option, register
 

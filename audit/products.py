@@ -21,7 +21,7 @@ from .results import EnthalpyValue, FitRecord, SourceAgreement, TriplePointRecor
 
 
 @dataclass(frozen=True)
-class Products:
+class AuditProducts:
     fits: tuple[FitRecord, ...] = ()
     enthalpy: tuple[EnthalpyValue, ...] = ()
     enthalpy_table: tuple[EnthalpyValue, ...] = ()
@@ -53,8 +53,8 @@ def _fit_record(branch: str, choice) -> FitRecord:
                      rms_percent=float(fit.rms_percent), extra=extra, model=eq)
 
 
-def summarise(ctx: AuditContext) -> Products:
-    from .checks._fits import implied, recommended
+def gather_products(ctx: AuditContext) -> AuditProducts:
+    from .checks.fits import implied, recommended
 
     fits: list[FitRecord] = []
     enthalpy: list[EnthalpyValue] = []
@@ -78,7 +78,7 @@ def summarise(ctx: AuditContext) -> Products:
                 u_dH_J_per_mol=_finite(h.u_dH[i]), real_gas_corrected=corrected,
                 dH_apparent_J_per_mol=float(h.dH_apparent[i]), delta_z=float(h.delta_z[i])))
         table.extend(_enthalpy_at_chosen_temperatures(ctx, branch, record.T_range_K))
-    return Products(
+    return AuditProducts(
         fits=tuple(fits),
         enthalpy=tuple(enthalpy),
         enthalpy_table=tuple(table),
@@ -118,7 +118,7 @@ def round_temperatures(T_lo: float, T_hi: float, most: int = ROUND_TEMPERATURES_
 def _enthalpy_at_chosen_temperatures(ctx: AuditContext, branch: str, T_range) -> list[EnthalpyValue]:
     """The branch's enthalpy at its ends, at round temperatures between them, and at the
     normal boiling point (liquid) or the triple point when they lie within its range."""
-    from .checks._fits import implied, known_triple_point
+    from .checks.fits import implied, known_triple_point
 
     lo, hi = float(T_range[0]), float(T_range[1])
     marks: dict[float, str] = {lo: "low end", hi: "high end"}

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Mapping
 
-__all__ = ["FrozenMapping", "frozen"]
+__all__ = ["FrozenMapping", "frozen", "thawed"]
 
 
 class FrozenMapping(Mapping):
@@ -44,4 +44,13 @@ def frozen(value):
         return FrozenMapping({k: frozen(v) for k, v in value.items()})
     if isinstance(value, list):
         return tuple(frozen(v) for v in value)
+    return value
+
+
+def thawed(value):
+    """The plain-JSON shape of a frozen value: mappings as dicts, tuples as lists (at any depth)."""
+    if isinstance(value, Mapping):
+        return {k: thawed(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [thawed(v) for v in value]
     return value

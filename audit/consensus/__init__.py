@@ -6,7 +6,7 @@ section with the limits the loop applies), and kept on the audit context
 as a frozen :class:`ConsensusModel`; ``source-agreement`` may replace a
 branch with one whose fit leaves a systematically off source out
 (:func:`refit_without_sources`).  Every later check and the summary read
-their curve from :func:`audit.checks._fits.recommended`, which returns this
+their curve from :func:`audit.checks.fits.recommended`, which returns this
 fit of record — there is no second fit of the same branch.
 """
 

@@ -130,6 +130,16 @@ def judgeable_range(fit) -> tuple[float, float]:
 
     The fitted range widened by a quarter of its span on each side; further
     out, the extrapolation's σ grows with the slope until anything "fits".
+
+    Parameters
+    ----------
+    fit : VaporPressureFit
+        The fit of record (an object, no unit).
+
+    Returns
+    -------
+    (float, float)
+        Lowest and highest judgeable temperature [K].
     """
     lo, hi = fit.T_range  # of the points the fit used
     span = hi - lo
@@ -621,7 +631,20 @@ class _BranchAnalysis:
 
 
 def points_data(branch: str, points) -> BranchData:
-    """Points as arrays (SI), sorted by T (stable: replicates keep their input order)."""
+    """Points as arrays (SI), sorted by T (stable: replicates keep their input order).
+
+    Parameters
+    ----------
+    branch : str
+        Name of the branch.
+    points : sequence of Point
+        The branch's points (objects carrying T [K], P [Pa] and uncertainties).
+
+    Returns
+    -------
+    BranchData
+        T [K], P [Pa], u_T [K] and u_P [Pa] (None unless every point has one).
+    """
     pts = sorted(points, key=lambda p: (p.T_K, p.row))
     T = np.array([p.T_K for p in pts], float)
     P = np.array([p.P_Pa for p in pts], float)
@@ -669,15 +692,23 @@ def build_branch_consensus(points, settings, source_settings, Tc, Pc, branch: st
     Parameters
     ----------
     points : sequence of Point
-        The branch's usable points, in input order.
+        The branch's usable points (objects carrying T [K], P [Pa] and
+        their uncertainties), in input order.
     settings : Mapping
-        The ``outliers`` profile section (α, correction, iterations, scale options).
+        The ``outliers`` profile section by name (α [-], correction, iterations, scale options).
     source_settings : Mapping or None
-        The ``source-agreement`` section (``k``, ``tolerance_percent``), or None
+        The ``source-agreement`` section by name (``k`` [-], ``tolerance_percent`` [%]), or None
         when sources are not to be judged.
     Tc, Pc : float or None
         Critical constants [K], [Pa] for the equation choice (None for a solid).
     branch : str
+        Name of the branch ('liquid', 'solid', ...).
+
+    Returns
+    -------
+    BranchConsensus
+        Fit of record (T [K], P [Pa], residuals [ln Pa]), per-point scores
+        [-] and deviations [%], and the source judgements.
 
     Raises
     ------
@@ -721,14 +752,22 @@ def refit_without_sources(consensus: BranchConsensus, points, keep, sigma_rel, s
 
     Parameters
     ----------
+    consensus : BranchConsensus
+        The branch's consensus to refit (an object, no unit).
     points : sequence of Point
-        The branch's usable points (input order).
+        The branch's usable points (input order; objects carrying T [K] and P [Pa]).
     keep : array_like of bool
-        Points that may enter the fit (not rejected).
+        Flag per point [-]: points that may enter the fit (not rejected).
     sigma_rel : array_like
         Each point's relative standard uncertainty in P [-].
     sources : sequence of str
-        Sources to leave out.
+        Names of the sources to leave out.
+
+    Returns
+    -------
+    BranchConsensus
+        The new consensus: fit of record (T [K], P [Pa], ln P residuals
+        [ln Pa]) and deviations [%] against it.
     """
     from ..thermo.fitting import fit_equation
 

@@ -169,6 +169,18 @@ class BranchConsensus:
         return {r: float(percent_from_log_ratio(o)) for r, o in zip(self.rows, self.offsets_lnP)}
 
     def index(self, row: int) -> int:
+        """Position of an input row in this branch's arrays.
+
+        Parameters
+        ----------
+        row : int
+            Row number of the point in the input (a label, no unit).
+
+        Returns
+        -------
+        int
+            Index [-] into the branch's per-point arrays.
+        """
         return self.rows.index(row)
 
     def summary(self) -> str:
@@ -194,6 +206,18 @@ class ConsensusModel:
     not_fitted: Mapping[str, str] = field(default_factory=dict)
 
     def get(self, branch: str) -> BranchConsensus | None:
+        """The consensus of one branch.
+
+        Parameters
+        ----------
+        branch : str
+            Name of the branch.
+
+        Returns
+        -------
+        BranchConsensus or None
+            None when the branch has no consensus.
+        """
         return self.branches.get(branch)
 
     def __contains__(self, branch: str) -> bool:
@@ -203,6 +227,17 @@ class ConsensusModel:
         return bool(self.branches)
 
     def with_branch(self, branch: BranchConsensus) -> "ConsensusModel":
+        """A copy with one branch's consensus added or replaced.
+
+        Parameters
+        ----------
+        branch : BranchConsensus
+            The new consensus (an object, no unit); replaces any of the same name.
+
+        Returns
+        -------
+        ConsensusModel
+        """
         return ConsensusModel({**self.branches, branch.branch: branch}, dict(self.not_fitted))
 
     def _every_branch(self, by_row: str) -> dict[int, float]:
@@ -233,5 +268,16 @@ class ConsensusModel:
 
 
 def finite_or_inf(x: float) -> float:
-    """A deviation that cannot be computed (curve overflow) is reported as infinite, not NaN."""
+    """A deviation that cannot be computed (curve overflow) is reported as infinite, not NaN.
+
+    Parameters
+    ----------
+    x : float
+        A deviation [%] (or any quantity [unit of x]).
+
+    Returns
+    -------
+    float
+        `x` [unit of x], or +inf when `x` is NaN.
+    """
     return float(x) if not math.isnan(x) else math.inf

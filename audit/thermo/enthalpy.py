@@ -31,6 +31,7 @@ import numpy as np
 from scipy import stats
 
 from .constants import R
+from .data import InsufficientData, as_data, as_uncertainty, weighted_lstsq
 from .equations import as_temperature
 
 __all__ = [
@@ -74,7 +75,8 @@ def apparent_enthalpy(eq, T):
 
     Parameters
     ----------
-    eq : equation or VaporPressureFit
+    eq : VaporPressureEquation or VaporPressureFit
+        The curve (an object, no unit).
     T : array_like
         Temperature [K].
 
@@ -94,6 +96,19 @@ def enthalpy_uncertainty(fit, T):
     u(ΔH) = R sqrt(g C gᵀ), g = ∂(d ln p/d(1/T))/∂parameters, C the fit's
     parameter covariance.  Verified against a parametric bootstrap in
     ``tests/thermo/test_triple_point_water.py``.
+
+    Parameters
+    ----------
+    fit : VaporPressureFit
+        A fit with a parameter covariance (an object, no unit); a bare
+        equation raises ``ValueError``.
+    T : float or array_like
+        Temperature [K].
+
+    Returns
+    -------
+    float or ndarray
+        u(ΔH/Δz) [J/mol], shaped like `T`.
     """
     eq, cov = _equation_and_cov(fit)
     if cov is None:
@@ -118,6 +133,27 @@ def heat_capacity_change(fit_or_eq, T) -> HeatCapacityChange:
 
     The uncertainty (delta method) is NaN for a bare equation.  For the
     three-parameter Clausius-Clapeyron form this is exactly R·C.
+
+    Parameters
+    ----------
+    fit_or_eq : VaporPressureFit or VaporPressureEquation
+        The curve (an object, no unit); a fit also gives the uncertainty.
+    T : float or array_like
+        Temperature [K].
+
+    Returns
+    -------
+    HeatCapacityChange
+        ``T`` [K], ``value`` and ``uncertainty`` [J/(mol K)].
+
+    Examples
+    --------
+    The identity ΔCp = R·C for ln P = A + B/T + C ln T (C = -3 here):
+
+    >>> from .equations import ClausiusClapeyron3
+    >>> cp = heat_capacity_change(ClausiusClapeyron3(A=50.0, B=-6000.0, C=-3.0), 300.0)
+    >>> round(float(cp.value / R), 9)
+    -3.0
     """
     eq, cov = _equation_and_cov(fit_or_eq)
     Ta = np.atleast_1d(as_temperature(T))
@@ -152,7 +188,8 @@ def tsonopoulos_polar_terms(kind: str, dipole_debye: float | None = None, Tc: fl
     Parameters
     ----------
     kind : {'nonpolar', 'water', 'alkanol', 'methanol', 'ketone', 'aldehyde', 'ether', 'ester', 'nitrile'}
-        'alkanol' means aliphatic alcohols other than methanol.
+        Name of the compound class; 'alkanol' means aliphatic alcohols
+        other than methanol.
     dipole_debye : float, optional
         Dipole moment [D]; needed for 'alkanol' and the ketone-like kinds.
     Tc, Pc : float, optional
@@ -161,8 +198,8 @@ def tsonopoulos_polar_terms(kind: str, dipole_debye: float | None = None, Tc: fl
     Returns
     -------
     PolarTerms
-        With the reduced dipole moment μr = 1e5 μ²(Pc/101325 Pa)/Tc² (μ in
-        debye, Tc in K) where used.
+        Polar terms a and b [-], with the reduced dipole moment [-]
+        μr = 1e5 μ²(Pc/101325 Pa)/Tc² (μ in debye, Tc in K) where used.
     """
     kind = kind.lower()
     if kind == "nonpolar":
@@ -193,9 +230,14 @@ def tsonopoulos_B(T, Tc: float, Pc: float, omega: float, a: float = 0.0, b: floa
     T : array_like
         Temperature [K].
     Tc, Pc, omega : float
-        Critical temperature [K], pressure [Pa], acentric factor [1].
+        Critical temperature [K], pressure [Pa], acentric factor [-].
     a, b : float
-        Polar terms (:func:`tsonopoulos_polar_terms`); 0 for nonpolar gases.
+        Polar terms [-] (:func:`tsonopoulos_polar_terms`); 0 for nonpolar gases.
+
+    Returns
+    -------
+    float or ndarray
+        B [m³/mol], shaped like `T`.
     """
     if not (Tc > 0 and Pc > 0 and math.isfinite(omega)):
         raise ValueError("Tsonopoulos B needs Tc > 0, Pc > 0 and a finite acentric factor")
@@ -215,6 +257,16 @@ def water_second_virial(T):
     B = Σ aᵢ (T/100 K)^bᵢ with a = (0.34404, -0.75826, -24.219, -3978.2)
     dm³/mol and b = (-0.5, -0.8, -3.35, -8.3) [2]; stated range 273-1273 K.
 
+    Parameters
+    ----------
+    T : float or array_like
+        Temperature [K].
+
+    Returns
+    -------
+    float or ndarray
+        B [m³/mol], shaped like `T`.
+
     Notes
     -----
     The coefficients give B in dm³/mol (L/mol).  Verified against the
@@ -229,7 +281,25 @@ def water_second_virial(T):
 
 # -- condensed volume ------------------------------------------------------------------
 def yamada_gunn_z_ra(omega: float) -> float:
-    """Rackett compressibility from the acentric factor, Z_RA = 0.29056 - 0.08775 ω [3]."""
+    """Rackett compressibility from the acentric factor, Z_RA = 0.29056 - 0.08775 ω [3].
+
+    Parameters
+    ----------
+    omega : float
+        Acentric factor [-].
+
+    Returns
+    -------
+    float
+        Z_RA [-].
+
+    Examples
+    --------
+    The correlation's own identity at ω = 0:
+
+    >>> yamada_gunn_z_ra(0.0)
+    0.29056
+    """
     return 0.29056 - 0.08775 * omega
 
 
@@ -243,11 +313,16 @@ def rackett_volume(T, Tc: float, Pc: float, omega: float | None = None, Z_RA: fl
     T : array_like
         Temperature [K], below Tc.
     Tc, Pc : float
-        [K], [Pa].
+        Critical temperature [K] and pressure [Pa].
     omega : float, optional
-        Acentric factor; gives Z_RA by Yamada-Gunn when `Z_RA` is not given.
+        Acentric factor [-]; gives Z_RA by Yamada-Gunn when `Z_RA` is not given.
     Z_RA : float, optional
-        Rackett compressibility.
+        Rackett compressibility [-].
+
+    Returns
+    -------
+    float or ndarray
+        Saturated-liquid molar volume [m³/mol], shaped like `T`.
 
     Notes
     -----
@@ -277,13 +352,25 @@ def delta_z(T, P, B, V_condensed):
     Parameters
     ----------
     T : array_like
-        [K].
+        Temperature [K].
     P : array_like
-        [Pa].
+        Pressure [Pa].
     B : array_like
         Second virial coefficient [m³/mol].
     V_condensed : array_like
         Condensed-phase molar volume [m³/mol].
+
+    Returns
+    -------
+    ndarray
+        Δz [-].
+
+    Examples
+    --------
+    An ideal gas over a condensed phase of no volume gives Δz = 1 (identity):
+
+    >>> float(delta_z(300.0, 1000.0, 0.0, 0.0))
+    1.0
     """
     T = as_temperature(T)
     P = np.asarray(P, dtype=float)
@@ -312,17 +399,18 @@ class RealGasModel:
     Tc, Pc : float
         Critical constants [K], [Pa].
     omega : float
-        Acentric factor.
+        Acentric factor [-].
     polar_kind : str
         Tsonopoulos class (:func:`tsonopoulos_polar_terms`), or
         'water-harvey-lemmon' to use :func:`water_second_virial`.
     dipole_debye : float, optional
+        Dipole moment [D].
     phase : {'liquid', 'solid'}
     V_condensed : float, optional
         Condensed molar volume [m³/mol]; when omitted a liquid uses Rackett
         and a solid's volume is neglected (P V_s/RT < 1e-5 for ice at Tt).
     Z_RA : float, optional
-        Rackett compressibility (else Yamada-Gunn from ω).
+        Rackett compressibility [-] (else Yamada-Gunn from ω).
     """
 
     Tc: float
@@ -335,12 +423,39 @@ class RealGasModel:
     Z_RA: float | None = None
 
     def second_virial(self, T):
+        """Second virial coefficient of the vapor by this model's correlation.
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+
+        Returns
+        -------
+        float or ndarray
+            B [m³/mol]: Harvey-Lemmon for 'water-harvey-lemmon', else Tsonopoulos.
+        """
         if self.polar_kind == "water-harvey-lemmon":
             return water_second_virial(T)
         terms = tsonopoulos_polar_terms(self.polar_kind, self.dipole_debye, self.Tc, self.Pc)
         return tsonopoulos_B(T, self.Tc, self.Pc, self.omega, terms.a, terms.b)
 
     def evaluate(self, T, P) -> DeltaZCorrection:
+        """Δz = z_vapor - z_condensed at each (T, P).
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+        P : float or array_like
+            Pressure [Pa]; broadcast against `T`.
+
+        Returns
+        -------
+        DeltaZCorrection
+            T [K], P [Pa], B and V_condensed [m³/mol], Δz [-] and a description
+            of the models used.
+        """
         T = np.atleast_1d(as_temperature(T))
         P = np.broadcast_to(np.asarray(P, dtype=float), T.shape).copy()
         if not (np.all(np.isfinite(P)) and np.all(P > 0)):
@@ -408,18 +523,20 @@ def implied_enthalpy(fit_or_eq, T, P=None, correction=None) -> ImpliedEnthalpy:
     Parameters
     ----------
     fit_or_eq : VaporPressureFit or equation
-        With a fit, uncertainties come from its covariance.
+        The curve (an object, no unit).  With a fit, uncertainties come
+        from its covariance.
     T : array_like
-        [K].
+        Temperature [K].
     P : array_like, optional
-        [Pa]; default the curve's own pressure at T.
+        Pressure [Pa]; default the curve's own pressure at T.
     correction : None, 'ideal', RealGasModel, DeltaZCorrection or array_like
-        None/'ideal': Δz = 1.  A :class:`RealGasModel` is evaluated at (T, P).
-        A number or array is used as Δz directly.
+        Δz [-].  None/'ideal': Δz = 1.  A :class:`RealGasModel` is evaluated
+        at (T, P).  A number or array is used as Δz directly.
 
     Returns
     -------
     ImpliedEnthalpy
+        Apparent and corrected enthalpies [J/mol] and Δz [-] at `T` [K].
     """
     eq, cov = _equation_and_cov(fit_or_eq)
     Ta = np.atleast_1d(as_temperature(T))
@@ -496,20 +613,22 @@ def local_enthalpy(T, P, u_T=None, u_P=None, window: int = 5) -> LocalEnthalpy:
     u_T, u_P : array_like, optional
         Standard uncertainties [K], [Pa].
     window : int
-        Distinct temperatures per window (at least 3).
+        Distinct temperatures per window (a count, at least 3).
 
     Returns
     -------
     LocalEnthalpy
+        Window temperatures [K] and apparent enthalpies with uncertainties
+        [J/mol].
 
     Raises
     ------
     InsufficientData
         Fewer distinct temperatures than `window`.
     """
-    from .fitting import InsufficientData, _as_data, _as_uncertainty, fit_equation
+    from .fitting import fit_equation  # lazy: fitting imports this module
 
-    T, P = _as_data(T, P)
+    T, P = as_data(T, P)
     n = T.size
     window = int(window)
     if window < 3:
@@ -523,8 +642,8 @@ def local_enthalpy(T, P, u_T=None, u_P=None, window: int = 5) -> LocalEnthalpy:
         raise InsufficientData(f"windows of {window} temperatures need at least {window} distinct "
                                f"temperatures; got {n} points at {n_T}")
     given = u_T is not None or u_P is not None
-    uT = _as_uncertainty(u_T, n, "u_T")[order]
-    uP = _as_uncertainty(u_P, n, "u_P")[order]
+    uT = as_uncertainty(u_T, n, "u_T")[order]
+    uP = as_uncertainty(u_P, n, "u_P")[order]
     Tc, dH, u = [], [], []
     starts = firsts[:n_T - window + 1]
     stops = firsts[window:]
@@ -605,15 +724,17 @@ def window_departures(fit, window: int = 5, groups=None) -> WindowDepartures:
     fit : VaporPressureFit
         The fit of record (its ``T``, ``P``, ``sigma_lnP``, ``weights``,
         ``covariance`` and equation); points of zero weight are left out.
+        (An object, no unit.)
     window : int
-        Distinct temperatures per window (at least 3).
+        Distinct temperatures per window (a count, at least 3).
     groups : sequence, optional
-        A label per point of the fit (e.g. its source); windows never span two.
+        Labels, one per point of the fit (e.g. its source); windows never span two.
 
     Returns
     -------
     WindowDepartures
-        Empty arrays when no group has `window` distinct temperatures.
+        Window temperatures [K], local and smooth enthalpies and their
+        difference with its uncertainty [J/mol].  Empty arrays when no group has `window` distinct temperatures.
 
     References
     ----------
@@ -719,16 +840,18 @@ def running_moments(x, w, Z=None):
     Parameters
     ----------
     x, w : ndarray, shape (n,)
-        Values and positive weights.
+        Values [unit of x] (e.g. 1/T [1/K]) and positive weights [unit of w].
     Z : ndarray, shape (n, q), optional
-        Further columns whose running sums Σ Z and Σ Z·x are wanted.
+        Further columns [unit of Z] whose running sums Σ Z and Σ Z·x are wanted.
 
     Returns
     -------
     W, mean, C : ndarray, shape (n,)
-        Σ w, weighted mean of x and co-moment over the first k points.
+        Σ w [unit of w], weighted mean of x [unit of x] and co-moment
+        [unit of w × (unit of x)²] over the first k points.
     SZ, SZx : ndarray, shape (n, q)
-        Only when Z is given: Σ Z and Σ Z·x over the first k points.
+        Only when Z is given: Σ Z [unit of Z] and Σ Z·x [unit of Z × unit
+        of x] over the first k points.
     """
     W = np.cumsum(w)
     mean = np.cumsum(w * x) / W
@@ -741,7 +864,23 @@ def running_moments(x, w, Z=None):
 
 def running_comoment(x, y, w, mean_x, mean_y):
     """Σ_{i<k} w_i (x_i − x̄_k)(y_i − ȳ_k) for k = 1..n by the same update as
-    :func:`running_moments` (running means passed in) [units of x·y]."""
+    :func:`running_moments` (running means passed in) [units of x·y].
+
+    Parameters
+    ----------
+    x, y : ndarray, shape (n,)
+        Values [unit of x], [unit of y] (e.g. 1/T [1/K] and ln P [ln Pa]).
+    w : ndarray, shape (n,)
+        Positive weights [unit of w].
+    mean_x, mean_y : ndarray, shape (n,)
+        Running weighted means of x and y over the first k points
+        [unit of x], [unit of y] (from :func:`running_moments`).
+
+    Returns
+    -------
+    ndarray, shape (n,)
+        Co-moment over the first k points [unit of w × unit of x × unit of y].
+    """
     prev_x = np.concatenate([x[:1], mean_x[:-1]])
     return np.cumsum(w * (x - prev_x) * (y - mean_y))
 
@@ -823,6 +962,30 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     the critical point, where it goes as (1 − T/Tc)^0.38 (Watson 1943) — is then
     taken up by smooth terms, while a kink (a step in ΔH) is not.
 
+    Parameters
+    ----------
+    T, P : array_like
+        Temperatures [K] and pressures [Pa].
+    u_T, u_P : float or array_like, optional
+        Standard uncertainties [K], [Pa].
+    min_points_per_side : int
+        Distinct temperatures each side of a split needs (a count).
+    groups : sequence, optional
+        Labels, one per point (e.g. its source); each group gets its own level.
+    form : type or str
+        Name (or class) of the base equation form, as in
+        :func:`~audit.thermo.fitting.fit_equation`.
+    fixed : dict, optional
+        Quantities held fixed in `form`, by name, each in the unit
+        :func:`~audit.thermo.fitting.fit_equation` takes ([K] for Tc, [Pa] for Pc).
+    smooth_terms : int
+        Number of extra Legendre columns in 1/T (a count).
+
+    Returns
+    -------
+    EnthalpyStep
+        The best split's temperature [K], step size [J/mol] and F test.
+
     With `groups` (a label per point, e.g. its source) the base model gives
     each group a level of its own: two series that agree in slope but not
     in level — a question for the comparison of sources — then make no
@@ -840,9 +1003,9 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     former O(n²) scan) to rounding.  A split whose hinge lies numerically in
     the span of the base columns is passed over.
     """
-    from .fitting import InsufficientData, _as_data, _as_uncertainty, _weighted_lstsq, fit_equation
+    from .fitting import fit_equation  # lazy: fitting imports this module
 
-    T, P = _as_data(T, P)
+    T, P = as_data(T, P)
     n = T.size
     m = int(min_points_per_side)
     if m < 2:
@@ -857,15 +1020,15 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
         raise InsufficientData(f"need at least {max(2 * m, 6)} distinct temperatures to look for a step; "
                                f"got {n} points at {n_T}")
     given = u_T is not None or u_P is not None
-    base = fit_equation(Ts, np.exp(y), form, _as_uncertainty(u_T, n, "u_T")[order] if given else None,
-                        _as_uncertainty(u_P, n, "u_P")[order] if given else None, robust=False, **(fixed or {}))
+    base = fit_equation(Ts, np.exp(y), form, as_uncertainty(u_T, n, "u_T")[order] if given else None,
+                        as_uncertainty(u_P, n, "u_P")[order] if given else None, robust=False, **(fixed or {}))
     w = 1.0 / base.sigma_lnP ** 2
     X0 = base.equation.jacobian_ln_p(Ts)
     y = y - base.equation.ln_p(Ts)  # residuals: the fit's normal equations make them orthogonal to X0
     rss0 = base.chi2
     if smooth_terms > 0:
         X0 = np.column_stack([X0, _smooth_columns(1.0 / Ts, X0, w, int(smooth_terms))])
-        b0, _ = _weighted_lstsq(X0, y, w)
+        b0, _ = weighted_lstsq(X0, y, w)
         rss0 = float(np.sum(w * (y - X0 @ b0) ** 2))
     if groups is not None:
         labels = np.asarray([str(g) for g in groups], dtype=object)
@@ -876,7 +1039,7 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
             X0 = np.column_stack([X0] + [(code == j).astype(float) for j in range(1, names.size)])
             if n - X0.shape[1] - 1 <= 0:
                 raise InsufficientData(f"{n} points cannot hold a level for each of {names.size} groups and a step")
-            b0, _ = _weighted_lstsq(X0, y, w)
+            b0, _ = weighted_lstsq(X0, y, w)
             rss0 = float(np.sum(w * (y - X0 @ b0) ** 2))
     # split k has points 0..k-1 below; candidates as in a scan over k = 1..n-1
     k_all = np.arange(1, n)
@@ -918,7 +1081,7 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     def exact(i):
         hinge = np.minimum(0.0, 1.0 / Ts - inv[i])
         X = np.column_stack([X0, hinge])
-        b, cov = _weighted_lstsq(X, y, w)
+        b, cov = weighted_lstsq(X, y, w)
         return float(np.sum(w * (y - X @ b) ** 2)), (b, cov)
 
     found = _refit_candidates(rss_fast, rss0_fast, exact)

@@ -62,7 +62,23 @@ _LN10 = math.log(10.0)
 
 
 def as_temperature(T) -> np.ndarray:
-    """Return `T` as a float array, raising ``ValueError`` unless finite and > 0 K."""
+    """Return `T` as a float array, raising ``ValueError`` unless finite and > 0 K.
+
+    Parameters
+    ----------
+    T : float or array_like
+        Temperature(s) [K].
+
+    Returns
+    -------
+    ndarray
+        The same temperatures as floats [K] (0-d for a scalar).
+
+    Examples
+    --------
+    >>> as_temperature(273.16).item()
+    273.16
+    """
     arr = np.asarray(T, dtype=float)
     if arr.size == 0:
         raise ValueError("temperature array is empty")
@@ -86,12 +102,48 @@ class VaporPressureEquation:
 
     # -- interface every form implements -------------------------------------------
     def ln_p(self, T):  # pragma: no cover - abstract
+        """Natural logarithm of the vapor pressure.
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+
+        Returns
+        -------
+        float or ndarray
+            ln(P/Pa) [ln Pa].
+        """
         raise NotImplementedError
 
     def dlnp_dT(self, T):  # pragma: no cover - abstract
+        """First temperature derivative of ln P.
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+
+        Returns
+        -------
+        float or ndarray
+            d ln P/dT [1/K].
+        """
         raise NotImplementedError
 
     def d2lnp_dT2(self, T):  # pragma: no cover - abstract
+        """Second temperature derivative of ln P.
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+
+        Returns
+        -------
+        float or ndarray
+            d² ln P/dT² [1/K²].
+        """
         raise NotImplementedError
 
     def describe(self) -> str:  # pragma: no cover - abstract
@@ -99,12 +151,34 @@ class VaporPressureEquation:
 
     # -- shared ---------------------------------------------------------------------
     def dlnp_dinvT(self, T):
-        """d ln P / d(1/T) = -T^2 d ln P/dT [K]."""
+        """d ln P / d(1/T) = -T^2 d ln P/dT [K].
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+
+        Returns
+        -------
+        float or ndarray
+            d ln P/d(1/T) [K]; times -R it is the apparent enthalpy.
+        """
         T = as_temperature(T)
         return -T * T * self.dlnp_dT(T)
 
     def p(self, T):
-        """Pressure [Pa]."""
+        """Pressure [Pa].
+
+        Parameters
+        ----------
+        T : float or array_like
+            Temperature [K].
+
+        Returns
+        -------
+        float or ndarray
+            Vapor pressure exp(ln_p(T)) [Pa].
+        """
         return np.exp(self.ln_p(T))
 
     @property
@@ -130,7 +204,19 @@ class VaporPressureEquation:
                 if f.init and f.name not in self.parameter_names}
 
     def with_params(self, vector) -> "VaporPressureEquation":
-        """A copy with the fitted parameters replaced by `vector`."""
+        """A copy with the fitted parameters replaced by `vector`.
+
+        Parameters
+        ----------
+        vector : array_like, shape (n_params,)
+            New parameter values, in the order and units of ``parameter_names``
+            and ``parameter_units`` [units of parameter_units].
+
+        Returns
+        -------
+        VaporPressureEquation
+            Same form and fixed quantities, new parameters.
+        """
         vector = np.asarray(vector, dtype=float).ravel()
         if vector.size != self.n_params:
             raise ValueError(f"{type(self).__name__} takes {self.n_params} parameters, got {vector.size}")
@@ -152,12 +238,14 @@ class VaporPressureEquation:
         Parameters
         ----------
         quantity : {'ln_p', 'dlnp_dT', 'd2lnp_dT2', 'dlnp_dinvT'}
+            Name of the method to differentiate (a name, no unit).
         T : array_like
             Temperature [K].
 
         Returns
         -------
         ndarray, shape (len(T), n_params)
+            ∂quantity/∂parameter [unit of quantity per unit of parameter].
             Exact for the linear forms (evaluation with unit coefficient
             vectors); central differences for nonlinear forms unless overridden.
         """
@@ -183,7 +271,18 @@ class VaporPressureEquation:
         return out
 
     def jacobian_ln_p(self, T) -> np.ndarray:
-        """d ln P / d parameters, shape (len(T), n_params)."""
+        """d ln P / d parameters, shape (len(T), n_params).
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray, shape (len(T), n_params)
+            ∂ ln P/∂parameter [ln Pa per unit of parameter].
+        """
         return self.param_gradient("ln_p", T)
 
 
@@ -224,14 +323,51 @@ class ClausiusClapeyron2(VaporPressureEquation):
         return 2.0 * self.B / T ** 3
 
     def design_matrix(self, T) -> np.ndarray:
+        """Columns of the linear model ln P = X b + offset.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray, shape (len(T), 2)
+            Basis [1, 1/T] [-], [1/K].
+        """
         T = np.atleast_1d(as_temperature(T))
         return np.column_stack([np.ones_like(T), 1.0 / T])
 
     def design_offset(self, T) -> np.ndarray:
+        """Part of ln P not multiplied by a fitted parameter.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray
+            Zeros [ln Pa]: this form has no fixed offset.
+        """
         return np.zeros_like(np.atleast_1d(as_temperature(T)))
 
     @classmethod
     def from_coefficients(cls, vector, **fixed) -> "ClausiusClapeyron2":
+        """Build the form from a coefficient vector of :meth:`design_matrix`.
+
+        Parameters
+        ----------
+        vector : array_like, shape (2,)
+            (A [ln Pa], B [K]).
+        **fixed
+            Unused: this form holds nothing fixed.
+
+        Returns
+        -------
+        ClausiusClapeyron2
+        """
         a, b = np.asarray(vector, dtype=float)
         return cls(A=float(a), B=float(b))
 
@@ -284,14 +420,52 @@ class ClausiusClapeyron3(VaporPressureEquation):
         return 2.0 * self.B / T ** 3 - self.C / (T * T)
 
     def design_matrix(self, T) -> np.ndarray:
+        """Columns of the linear model ln P = X b + offset.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray, shape (len(T), 3)
+            Basis [1, 1/T, ln T] [-], [1/K], [-].
+        """
         T = np.atleast_1d(as_temperature(T))
         return np.column_stack([np.ones_like(T), 1.0 / T, np.log(T)])
 
     def design_offset(self, T) -> np.ndarray:
+        """Part of ln P not multiplied by a fitted parameter.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray
+            Zeros [ln Pa]: this form has no fixed offset.
+        """
         return np.zeros_like(np.atleast_1d(as_temperature(T)))
 
     @classmethod
     def from_coefficients(cls, vector, **fixed) -> "ClausiusClapeyron3":
+        """Build the form from a coefficient vector of :meth:`design_matrix`.
+
+        Parameters
+        ----------
+        vector : array_like, shape (3,)
+            Coefficients of the columns of :meth:`design_matrix`, in the units
+            of ``parameter_units`` [ln Pa], [K], [-].
+        **fixed
+            Unused: this form holds nothing fixed.
+
+        Returns
+        -------
+        ClausiusClapeyron3
+        """
         a, b, c = np.asarray(vector, dtype=float)
         return cls(A=float(a), B=float(b), C=float(c))
 
@@ -401,7 +575,32 @@ class Antoine(VaporPressureEquation):
 
     def converted(self, base: str | None = None, P_unit: str | None = None,
                   T_unit: str | None = None) -> "Antoine":
-        """The same curve with constants for another base and units."""
+        """The same curve with constants for another base and units.
+
+        Parameters
+        ----------
+        base : {'log10', 'ln'}, optional
+            Logarithm base of the new constants (a name, no unit); default: this one's.
+        P_unit : str, optional
+            Name of the new pressure unit (e.g. 'mmHg'); default: this one's.
+        T_unit : str, optional
+            Name of the new temperature unit (e.g. 'degC'); default: this one's.
+
+        Returns
+        -------
+        Antoine
+            Constants A [log_base(P_unit)], B and C [T_unit] of the same curve.
+
+        Examples
+        --------
+        Converting mmHg to Pa in log10 adds log10(133.322387415) = 2.1249 to A
+        (the mmHg is 13.5951 kg/L × 9.80665 m/s² × 1 mm = 133.322387415 Pa) and
+        leaves B and C alone:
+
+        >>> a = Antoine(8.0, 1700.0, -40.0, base="log10", P_unit="mmHg", T_unit="K")
+        >>> round(a.converted(P_unit="Pa").A - 8.0, 4)
+        2.1249
+        """
         return antoine_convert(self, self.base, base or self.base, self.P_unit,
                                P_unit or self.P_unit, self.T_unit, T_unit or self.T_unit)
 
@@ -419,13 +618,15 @@ def antoine_convert(params, from_base: str, to_base: str, from_P_unit: str, to_P
     Parameters
     ----------
     params : Antoine or sequence of 3 floats
-        (A, B, C) as published for `from_base`, `from_P_unit`, `from_T_unit`.
+        (A, B, C) as published for `from_base`, `from_P_unit`, `from_T_unit`:
+        A [log_base(P/from_P_unit)], B and C [from_T_unit].
     from_base, to_base : {'log10', 'ln'}
+        Name of the logarithm base before and after.
     from_P_unit, to_P_unit : str
-        Pressure units in any spelling :mod:`audit.units` accepts (e.g.
+        Names of the pressure units, in any spelling :mod:`audit.units` accepts (e.g.
         'mmHg', 'Torr', 'kPa', 'Pa', 'bar').
     from_T_unit, to_T_unit : str
-        Temperature units ('K', 'degC', '°C', ...).
+        Names of the temperature units ('K', 'degC', '°C', ...).
 
     Returns
     -------
@@ -535,14 +736,57 @@ class ClarkeGlew(VaporPressureEquation):
         return np.column_stack(cols[: self.n_terms]) / R
 
     def design_matrix(self, T) -> np.ndarray:
+        """Columns of the linear model ln P = X b + offset (the Clarke-Glew basis).
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray, shape (len(T), n_terms)
+            Basis functions multiplying ΔG, ΔH, ΔCp, dΔCp/dT [mol/J], [mol/J],
+            [mol K/J], [mol K²/J].
+        """
         return self._basis(T)
 
     def design_offset(self, T) -> np.ndarray:
+        """Part of ln P not multiplied by a fitted parameter: ln p_ref.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray
+            ln(p_ref/Pa) at every T [ln Pa].
+        """
         return np.full(np.atleast_1d(as_temperature(T)).shape, math.log(self.p_ref))
 
     @classmethod
     def from_coefficients(cls, vector, theta: float = 298.15, p_ref: float = P_ATM,
                           n_terms: int | None = None) -> "ClarkeGlew":
+        """Build the form from a coefficient vector of :meth:`design_matrix`.
+
+        Parameters
+        ----------
+        vector : array_like, shape (n_terms,)
+            ΔG° [J/mol], ΔH° [J/mol], ΔCp° [J/(mol K)], dΔCp/dT [J/(mol K²)], the
+            first `n_terms` of them.
+        theta : float
+            Reference temperature θ [K].
+        p_ref : float
+            Standard pressure [Pa].
+        n_terms : int, optional
+            Number of fitted terms (a count, 2-4); default: ``len(vector)``.
+
+        Returns
+        -------
+        ClarkeGlew
+        """
         v = [float(x) for x in np.asarray(vector, dtype=float).ravel()]
         n = len(v) if n_terms is None else int(n_terms)
         if len(v) != n:
@@ -588,9 +832,21 @@ class ClarkeGlew(VaporPressureEquation):
 def reduced_power_series(T, Tc: float, coefficients: Sequence[float], exponents: Sequence[float]):
     """f = (Tc/T) Σ a_i τ^e_i with τ = 1 - T/Tc, and its first two T-derivatives.
 
+    Parameters
+    ----------
+    T : array_like
+        Temperature [K]; below `Tc`.
+    Tc : float
+        Critical (reducing) temperature [K].
+    coefficients : sequence of float
+        a_i [-].
+    exponents : sequence of float
+        e_i [-].
+
     Returns
     -------
     f, df/dT [1/K], d2f/dT2 [1/K^2] : ndarray
+        f is dimensionless [-] (ln(P/Pc) for the Wagner form).
     """
     T = as_temperature(T)
     if np.any(T >= Tc):
@@ -670,6 +926,18 @@ class Wagner(VaporPressureEquation):
         return self._series(T)[2]
 
     def design_matrix(self, T) -> np.ndarray:
+        """Columns of the linear model ln P = X b + offset.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K]; below Tc.
+
+        Returns
+        -------
+        ndarray, shape (len(T), 4)
+            (Tc/T) τ^e_i for the variant's exponents e_i [-].
+        """
         T = np.atleast_1d(as_temperature(T))
         if np.any(T >= self.Tc):
             raise ValueError(f"Wagner equation needs T below Tc = {self.Tc} K")
@@ -677,10 +945,39 @@ class Wagner(VaporPressureEquation):
         return np.column_stack([self.Tc / T * tau ** e for e in self.exponents])
 
     def design_offset(self, T) -> np.ndarray:
+        """Part of ln P not multiplied by a fitted parameter: ln Pc.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray
+            ln(Pc/Pa) at every T [ln Pa].
+        """
         return np.full(np.atleast_1d(as_temperature(T)).shape, math.log(self.Pc))
 
     @classmethod
     def from_coefficients(cls, vector, Tc: float = 0.0, Pc: float = 0.0, variant: str = "2.5-5") -> "Wagner":
+        """Build the form from a coefficient vector of :meth:`design_matrix`.
+
+        Parameters
+        ----------
+        vector : array_like, shape (4,)
+            Wagner coefficients a, b, c, d [-].
+        Tc : float
+            Critical temperature [K].
+        Pc : float
+            Critical pressure [Pa].
+        variant : {'2.5-5', '3-6'}
+            Name of the exponent set.
+
+        Returns
+        -------
+        Wagner
+        """
         a, b, c, d = (float(x) for x in np.asarray(vector, dtype=float).ravel())
         return cls(a=a, b=b, c=c, d=d, Tc=float(Tc), Pc=float(Pc), variant=variant)
 
@@ -705,7 +1002,24 @@ FORMS: dict[str, type] = {
 
 
 def get_form(form) -> type:
-    """Resolve a form given as a class or a short name."""
+    """Resolve a form given as a class or a short name.
+
+    Parameters
+    ----------
+    form : type or str
+        A :class:`VaporPressureEquation` subclass, or its short name ('cc2',
+        'cc3', 'antoine', 'clarke-glew', 'wagner'); no unit.
+
+    Returns
+    -------
+    type
+        The equation class.
+
+    Examples
+    --------
+    >>> get_form("cc2") is ClausiusClapeyron2
+    True
+    """
     if isinstance(form, type) and issubclass(form, VaporPressureEquation):
         return form
     if isinstance(form, str) and form.lower() in FORMS:
@@ -723,6 +1037,7 @@ def ln_p_where_defined(equation: VaporPressureEquation, T) -> np.ndarray:
     Parameters
     ----------
     equation : VaporPressureEquation
+        The curve (an object, no unit).
     T : array_like
         Temperatures [K].
 

@@ -41,6 +41,7 @@ from typing import Sequence
 import numpy as np
 from scipy import optimize
 
+from .data import InsufficientData, as_data, as_uncertainty, readonly, weighted_lstsq
 from .enthalpy import apparent_enthalpy, heat_capacity_change
 from .ratios import percent_from_log_ratio
 from .equations import (Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner,
@@ -64,11 +65,11 @@ HUBER_C = 1.345
 #: Tukey biweight tuning constant (95 % efficiency at the normal).
 TUKEY_C = 4.685
 
-
-def _readonly(a) -> np.ndarray:
-    a = np.array(a, dtype=float)
-    a.setflags(write=False)
-    return a
+# Old private names, kept because tests/thermo/test_scaling_equivalence.py
+# (outside this package) still imports them from here.
+_as_data = as_data
+_as_uncertainty = as_uncertainty
+_weighted_lstsq = weighted_lstsq
 
 
 @dataclass(frozen=True)
@@ -206,12 +207,6 @@ class VaporPressureFit:
 
 
 # -- input handling -------------------------------------------------------------------
-class InsufficientData(ValueError):
-    """The data cannot determine the fit asked for (too few points or distinct
-    temperatures, or parameters not separable).  A property of the data, not
-    a bug: callers skip or degrade the analysis and say why, with the counts."""
-
-
 def distinct_temperatures(T) -> int:
     """Number of distinct temperatures among `T` [K].
 
@@ -219,40 +214,22 @@ def distinct_temperatures(T) -> int:
     on the shape of ln P(T): a curve with k parameters needs k distinct
     temperatures, however many points there are.
 
+    Parameters
+    ----------
+    T : array_like
+        Temperatures [K].
+
+    Returns
+    -------
+    int
+        Count of distinct values [-].
+
     Examples
     --------
     >>> distinct_temperatures([300.0, 300.0, 300.0, 310.0])
     2
     """
     return int(np.unique(np.asarray(T, dtype=float)).size)
-
-
-def _as_data(T, P):
-    T = np.asarray(T, dtype=float).ravel()
-    P = np.asarray(P, dtype=float).ravel()
-    if T.size != P.size:
-        raise ValueError(f"T and P differ in length ({T.size} vs {P.size})")
-    if T.size == 0:
-        raise ValueError("no data points")
-    if not (np.all(np.isfinite(T)) and np.all(T > 0)):
-        raise ValueError("temperatures must be finite and above 0 K")
-    if not (np.all(np.isfinite(P)) and np.all(P > 0)):
-        raise ValueError("pressures must be finite and positive")
-    return T, P
-
-
-def _as_uncertainty(u, n, name):
-    if u is None:
-        return np.zeros(n)
-    arr = np.asarray(u, dtype=float)
-    if arr.ndim == 0:
-        arr = np.full(n, float(arr))
-    arr = arr.ravel()
-    if arr.size != n:
-        raise ValueError(f"{name} has {arr.size} values for {n} points")
-    if not (np.all(np.isfinite(arr)) and np.all(arr >= 0)):
-        raise ValueError(f"{name} must be finite and non-negative")
-    return arr
 
 
 def _default_fixed(cls, T, fixed: dict) -> dict:
@@ -287,21 +264,6 @@ def _n_params(cls, fixed) -> int:
 
 
 # -- numerical kernels -----------------------------------------------------------------
-def _weighted_lstsq(X, y, w):
-    """Solve min Σ w (y - X b)²; return b and (XᵀWX)⁻¹ (column-scaled for conditioning)."""
-    sw = np.sqrt(w)
-    A = X * sw[:, None]
-    norms = np.linalg.norm(A, axis=0)
-    norms[norms == 0] = 1.0
-    U, s, Vt = np.linalg.svd(A / norms, full_matrices=False)
-    if s[-1] <= s[0] * 1e-14:
-        raise InsufficientData("the fit is ill-posed (parameters not determined by the data)")
-    b = (Vt.T @ ((U.T @ (y * sw)) / s)) / norms
-    cov = (Vt.T / s ** 2) @ Vt
-    cov = cov / np.outer(norms, norms)
-    return b, cov
-
-
 def _robust_weights(z, kind):
     a = np.abs(z)
     if kind == "huber":
@@ -322,7 +284,7 @@ def _qn_scale(z) -> float:
 
 
 def _antoine_start(T, y, w, fixed) -> Antoine:
-    b, _ = _weighted_lstsq(ClausiusClapeyron2(0, 0).design_matrix(T), y, w)
+    b, _ = weighted_lstsq(ClausiusClapeyron2(0, 0).design_matrix(T), y, w)
     # ln P = a + b/T is the Antoine curve with C = 0 (T in K, natural log).
     start = Antoine(A=b[0], B=-b[1], C=0.0, base="ln", P_unit="Pa", T_unit="K")
     return start.converted(fixed["base"], fixed["P_unit"], fixed["T_unit"])
@@ -415,7 +377,7 @@ def _solve(cls, template, T, y, w, current):
     """One weighted solve; returns (equation, unscaled covariance)."""
     if cls.linear:
         X = template.design_matrix(T)
-        b, cov = _weighted_lstsq(X, y - template.design_offset(T), w)
+        b, cov = weighted_lstsq(X, y - template.design_offset(T), w)
         return cls.from_coefficients(b, **template.fixed_parameters()), cov
     # Antoine is linear in (A, B) once C is fixed: minimise the profiled weighted sum of
     # squares over C alone (variable projection), on the positive side of the pole.  A
@@ -450,14 +412,14 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
         Standard uncertainties [K], [Pa].  Without either, all points weigh
         equally in ln P and the residual scale is estimated.
     robust : bool or {'huber', 'tukey'}, optional
-        True or 'tukey': Huber IRLS then Tukey biweight (outliers get weight
+        Flag or name of the robust scheme.  True or 'tukey': Huber IRLS then Tukey biweight (outliers get weight
         0).  'huber': Huber only (every point keeps some weight).  False:
         plain weighted least squares.
     point_weights : array_like, optional
-        Prior weights in [0, 1] (0 excludes a point), multiplied into the
+        Prior weights [-] in [0, 1] (0 excludes a point), multiplied into the
         robust weights.
     max_iter : int
-        Iteration limit of the effective-variance / IRLS loop.
+        Iteration limit (a count) of the effective-variance / IRLS loop.
     **fixed
         Quantities held fixed: ``theta``, ``p_ref``, ``n_terms`` (Clarke-Glew),
         ``Tc``, ``Pc``, ``variant`` (Wagner), ``base``, ``P_unit``, ``T_unit``
@@ -466,6 +428,8 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     Returns
     -------
     VaporPressureFit
+        Parameters in the units of the form's ``parameter_units``, T [K],
+        P [Pa], residuals in ln P [ln Pa] and the fit statistics.
 
     Notes
     -----
@@ -475,12 +439,12 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     ``tests/thermo/test_fitting_robust.py``.
     """
     cls = get_form(form)
-    T, P = _as_data(T, P)
+    T, P = as_data(T, P)
     n = T.size
-    uT = _as_uncertainty(u_T, n, "u_T")
-    uP = _as_uncertainty(u_P, n, "u_P")
+    uT = as_uncertainty(u_T, n, "u_T")
+    uP = as_uncertainty(u_P, n, "u_P")
     given = u_T is not None or u_P is not None
-    prior = np.ones(n) if point_weights is None else _as_uncertainty(point_weights, n, "point_weights")
+    prior = np.ones(n) if point_weights is None else as_uncertainty(point_weights, n, "point_weights")
     if np.any(prior > 1):
         raise ValueError("point_weights must lie in [0, 1]")
     active = prior > 0
@@ -572,9 +536,9 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     bic = m * math.log(rss / m) + (k + 1) * math.log(m)
     Tu = T[used]
     return VaporPressureFit(
-        equation=eq, params=_readonly(eq.params), parameter_names=tuple(eq.parameter_names),
-        covariance=_readonly(covariance), standard_errors=_readonly(se), T=_readonly(T), P=_readonly(P),
-        residuals_lnP=_readonly(resid), sigma_lnP=_readonly(sigma), weights=_readonly(weights),
+        equation=eq, params=readonly(eq.params), parameter_names=tuple(eq.parameter_names),
+        covariance=readonly(covariance), standard_errors=readonly(se), T=readonly(T), P=readonly(P),
+        residuals_lnP=readonly(resid), sigma_lnP=readonly(sigma), weights=readonly(weights),
         scale=scale, scale_estimated=not given, n_used=n_used, dof=dof, chi2=chi2, rms_percent=rms,
         aicc=aicc, bic=bic, T_range=(float(Tu.min()), float(Tu.max())),
         T_ref=float(1.0 / np.mean(1.0 / Tu)), converged=converged, iterations=it,
@@ -624,6 +588,23 @@ class EquationChoice:
     point_weights: np.ndarray = field(repr=False, default=None)
 
     def candidate(self, name: str) -> CandidateAssessment:
+        """The assessment of one candidate form.
+
+        Parameters
+        ----------
+        name : str
+            Name of the candidate, a key of :data:`CANDIDATES`.
+
+        Returns
+        -------
+        CandidateAssessment
+            Its fit, AICc and BIC [-] and reasons for rejection.
+
+        Raises
+        ------
+        KeyError
+            When `name` was not among the candidates assessed.
+        """
         for c in self.candidates:
             if c.name == name:
                 return c
@@ -659,26 +640,28 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
     u_T, u_P : float or array_like, optional
         Standard uncertainties [K], [Pa].
     candidates : sequence of str
-        Names from :data:`CANDIDATES`.
+        Names of candidates from :data:`CANDIDATES`.
     Tc, Pc : float, optional
         Critical constants [K], [Pa]; the Wagner forms are offered only with them.
     branch : {'liquid', 'solid', 'unknown'}
-        Condensed phase.  The ΔCp < 0 rule is applied to 'liquid' and
+        Name of the condensed phase.  The ΔCp < 0 rule is applied to 'liquid' and
         'unknown' only: for solids ΔCp = Cp,gas - Cp,solid may be positive at
         low temperature (ice below about 240 K).
     robust : bool
-        Screen gross errors with a robust Clausius-Clapeyron fit first; the
+        Flag: screen gross errors with a robust Clausius-Clapeyron fit first; the
         resulting weights are used for all candidates so that their AICc
         values refer to the same points.
     significance : float
-        Coverage factor for "significantly positive ΔCp" (ΔCp - k u > 0).
+        Coverage factor [-] for "significantly positive ΔCp" (ΔCp - k u > 0).
     max_params_per_point : float
-        Candidates with more than this fraction of n parameters are not
+        Fraction [-]: candidates with more than this fraction of n parameters are not
         offered (at least 2 parameters always are).
 
     Returns
     -------
     EquationChoice
+        The chosen fit (see :func:`fit_equation` for its units) and every
+        candidate's AICc/BIC [-] and apparent ΔCp at T_ref [J/(mol K)].
 
     Notes
     -----
@@ -689,7 +672,7 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
     AICc wins; when every candidate is rejected the two-parameter
     Clausius-Clapeyron fit is returned and the reason says so.
     """
-    T, P = _as_data(T, P)
+    T, P = as_data(T, P)
     n = T.size
     if branch not in ("liquid", "solid", "unknown"):
         raise ValueError("branch must be 'liquid', 'solid' or 'unknown'")
@@ -766,4 +749,4 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
     if rejected:
         reason += ". Not chosen: " + " | ".join(rejected)
     return EquationChoice(chosen=best.fit, chosen_name=best.name, candidates=tuple(assessed),
-                          reason=reason, point_weights=_readonly(pw))
+                          reason=reason, point_weights=readonly(pw))

@@ -43,13 +43,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .data import readonly
+
 __all__ = ["Influence", "GroupDeletion", "influence_measures", "group_deletion", "fit_influence"]
-
-
-def _readonly(a) -> np.ndarray:
-    a = np.array(a, dtype=float)
-    a.setflags(write=False)
-    return a
 
 
 @dataclass(frozen=True)
@@ -112,13 +108,14 @@ def influence_measures(jacobian, residuals, sigma=None, weights=None) -> Influen
     Parameters
     ----------
     jacobian : array_like, shape (n, p)
-        ∂f/∂β at the solution (the design matrix of a linear model).
+        ∂f/∂β at the solution (the design matrix of a linear model)
+        [unit of the residuals per unit of each parameter].
     residuals : array_like, shape (n,)
         y − f(x; β̂) [y unit].
     sigma : array_like, optional
         Standard uncertainty of each y [y unit]; default 1.
     weights : array_like, optional
-        Extra weights in [0, 1] (robust or prior); 0 leaves a point out of the
+        Extra weights [-] in [0, 1] (robust or prior); 0 leaves a point out of the
         fit.  The fit weight is weights/σ².
 
     Returns
@@ -186,10 +183,10 @@ def influence_measures(jacobian, residuals, sigma=None, weights=None) -> Influen
         known = np.where(inside, e / np.sqrt(one_minus), e_full / np.sqrt(1.0 + h_out))
         cooks = np.where(inside, e ** 2 * h / (p * s2 * one_minus ** 2), 0.0)
     deletion = np.where(inside, r / one_minus, r)
-    return Influence(leverage=_readonly(h), in_fit=np.array(inside), scale=s, scale_loo=_readonly(s_loo),
-                     standardized=_readonly(standardized), studentized=_readonly(studentized),
-                     studentized_known_scale=_readonly(known), deletion_residuals=_readonly(deletion),
-                     cooks_distance=_readonly(cooks), n=n, p=p, dof=dof)
+    return Influence(leverage=readonly(h), in_fit=np.array(inside), scale=s, scale_loo=readonly(s_loo),
+                     standardized=readonly(standardized), studentized=readonly(studentized),
+                     studentized_known_scale=readonly(known), deletion_residuals=readonly(deletion),
+                     cooks_distance=readonly(cooks), n=n, p=p, dof=dof)
 
 
 @dataclass(frozen=True)
@@ -224,9 +221,10 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     Parameters
     ----------
     jacobian, residuals, sigma, weights
-        As for :func:`influence_measures`.
+        As for :func:`influence_measures` (units there: residuals and
+        sigma [ln Pa] for a vapor-pressure fit, weights [-]).
     group : array_like of bool, shape (n,)
-        The points to delete.  Members outside the fit (weight 0) move with
+        Flag per point [-]: the points to delete.  Members outside the fit (weight 0) move with
         the parameters but do not change them.
 
     Returns
@@ -280,7 +278,7 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
         return None
     if not np.all(np.isfinite(curve_variance)):
         return None
-    return GroupDeletion(residuals=_readonly(r[g] + Jall @ delta), curve_variance=_readonly(curve_variance))
+    return GroupDeletion(residuals=readonly(r[g] + Jall @ delta), curve_variance=readonly(curve_variance))
 
 
 def _solve_upper_transposed(R, B):
@@ -295,6 +293,17 @@ def fit_influence(fit) -> Influence:
 
     The fit is linearised at its solution in ln P (exact for the linear forms);
     the fit's final weights (robust and prior) decide which points are in it.
+
+    Parameters
+    ----------
+    fit : VaporPressureFit
+        The fit (an object, no unit).
+
+    Returns
+    -------
+    Influence
+        Leverages [-], residual scales [ln Pa] and studentized residuals and
+        Cook's distances [-], per point.
     """
     J = fit.equation.jacobian_ln_p(fit.T)
     return influence_measures(J, fit.residuals_lnP, fit.sigma_lnP, fit.weights)

@@ -21,7 +21,7 @@ def overlaps_others(T, mine, others) -> bool:
     T : array_like
         Temperatures of all points [K].
     mine, others : array_like of bool
-        Masks of the source's points and of the points it is compared with.
+        Flag masks [-] of the source's points and of the points it is compared with.
 
     Returns
     -------
@@ -60,6 +60,11 @@ def within_span(T_mine, T_others, reach: float = JUDGEABLE_REACH) -> np.ndarray:
         Temperatures [K].
     reach : float
         Widening on each side as a fraction of the span [-].
+
+    Returns
+    -------
+    ndarray of bool
+        Flag [-] per temperature of `T_mine`: True inside the widened span.
 
     Examples
     --------

@@ -72,6 +72,18 @@ class TsonopoulosClass:
 def tsonopoulos_class(cas: str | None, given: str | None = None) -> TsonopoulosClass:
     """The Tsonopoulos kind of a substance: as given, else by its functional group, else nonpolar.
 
+    Parameters
+    ----------
+    cas : str or None
+        CAS registry number (a name, no unit), or None when unknown.
+    given : str, optional
+        Name of the kind stated in the metadata file; wins when present.
+
+    Returns
+    -------
+    TsonopoulosClass
+        The kind's name and the reason for it.
+
     Examples
     --------
     >>> tsonopoulos_class("64-17-5").kind

@@ -137,12 +137,51 @@ ICE_SUBLIMATION = IceSublimationIAPWS2011()
 
 
 def water_saturation_pressure(T):
-    """Saturation pressure of liquid water [Pa] at `T` [K] (Wagner & Pruss)."""
+    """Saturation pressure of liquid water [Pa] at `T` [K] (Wagner & Pruss).
+
+    Parameters
+    ----------
+    T : float or array_like
+        Temperature [K], between the triple point and the critical point.
+
+    Returns
+    -------
+    float or ndarray
+        Saturation pressure [Pa].
+
+    Examples
+    --------
+    At the normal boiling point on ITS-90, 373.1243 K (IAPWS-95), the
+    Wagner & Pruss auxiliary equation gives one standard atmosphere,
+    101 325 Pa, to within about 1 Pa:
+
+    >>> bool(abs(water_saturation_pressure(373.1243) - 101325.0) < 2.0)
+    True
+    """
     return WATER_SATURATION.p(T)
 
 
 def ice_sublimation_pressure(T):
-    """Sublimation pressure of ice Ih [Pa] at `T` [K] (IAPWS R14-08(2011))."""
+    """Sublimation pressure of ice Ih [Pa] at `T` [K] (IAPWS R14-08(2011)).
+
+    Parameters
+    ----------
+    T : float or array_like
+        Temperature [K], at or below the triple point 273.16 K.
+
+    Returns
+    -------
+    float or ndarray
+        Sublimation pressure [Pa].
+
+    Examples
+    --------
+    At the triple point the equation returns the triple-point pressure
+    611.657 Pa exactly (it is reduced by it, IAPWS R14-08):
+
+    >>> round(float(ice_sublimation_pressure(273.16)), 3)
+    611.657
+    """
     return ICE_SUBLIMATION.p(T)
 
 
@@ -290,7 +329,7 @@ def reference_from_table(table: Mapping) -> TabulatedReference:
     Parameters
     ----------
     table : Mapping
-        The table, as read from TOML.
+        The table, as read from TOML (a mapping of names to values, no unit).
 
     Returns
     -------

@@ -74,7 +74,20 @@ def replicate_groups(T_K, radius_K, u_T_K, k: float) -> list[np.ndarray]:
 
 
 def replicate_differences(values, groups) -> np.ndarray:
-    """Every within-group difference x_i − x_j (i < j) of every group [unit of `values`]."""
+    """Every within-group difference x_i − x_j (i < j) of every group [unit of `values`].
+
+    Parameters
+    ----------
+    values : array_like
+        Values of one quantity [unit of values].
+    groups : iterable of array_like of int
+        Labels: indices [-] of each group into `values`.
+
+    Returns
+    -------
+    ndarray
+        The differences [unit of values].
+    """
     x = np.asarray(values, dtype=float)
     out = []
     for g in groups:
@@ -88,6 +101,16 @@ def difference_scale(differences) -> float:
     """σ of one replicate from differences of pairs of replicates: median|d|/(Φ⁻¹(3/4)·√2).
 
     ``nan`` for no differences.
+
+    Parameters
+    ----------
+    differences : array_like
+        Pairwise differences [unit of the replicated quantity].
+
+    Returns
+    -------
+    float
+        σ of one replicate [unit of the replicated quantity].
     """
     d = np.asarray(differences, dtype=float)
     if d.size == 0:
@@ -109,7 +132,7 @@ def pooled_replicate_scale(values, groups) -> tuple[float, int]:
     values : array_like
         The quantity compared (e.g. residuals in ln P [-]).
     groups : iterable of array_like of int
-        Indices of each group into `values`.
+        Labels: indices [-] of each group into `values`.
 
     Returns
     -------

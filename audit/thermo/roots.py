@@ -31,7 +31,7 @@ def sign_change_brackets(f: Callable[[np.ndarray], np.ndarray], lo: float, hi: f
     lo, hi : float
         Search interval [K]; an empty list when it is empty or not finite.
     n_grid : int
-        Number of grid points.
+        Number of grid points (a count).
 
     Returns
     -------
@@ -78,9 +78,9 @@ def bracketed_root(f: Callable[[float], float], a: float, b: float, *, xtol: flo
     xtol, rtol : float
         Absolute [K] and relative tolerances of the root.
     max_iter : int
-        Iteration limit of Brent's method.
+        Iteration limit (a count) of Brent's method.
     residual_tolerance : float
-        Largest |f| accepted at the root.
+        Largest |f| accepted at the root [unit of f].
 
     Returns
     -------

@@ -98,7 +98,7 @@ def parse_printed_number(text: str) -> PrintedNumber:
     Parameters
     ----------
     text : str
-        The cell as printed.
+        The cell as printed (text in the column's unit, no unit conversion).
 
     Returns
     -------
@@ -124,6 +124,16 @@ def rounding_standard_uncertainty(text: str) -> float:
 
     u = δ/(2√3), δ the unit of the last digit (GUM JCGM 100:2008 §4.3.7).
 
+    Parameters
+    ----------
+    text : str
+        The number as printed [column unit].
+
+    Returns
+    -------
+    float
+        u [column unit].
+
     Examples
     --------
     >>> round(rounding_standard_uncertainty("0.0002"), 10)
@@ -139,6 +149,16 @@ def log_pressure_base(P_text_unit: str) -> float | None:
     """Base of a log-pressure column unit such as ``'log10(P/Pa)'`` or ``'ln(P/kPa)'``.
 
     Returns 10.0 or e, or None for a linear unit.
+
+    Parameters
+    ----------
+    P_text_unit : str
+        Name of the pressure column's unit.
+
+    Returns
+    -------
+    float or None
+        The logarithm's base [-], or None for a linear unit.
     """
     m = _LOG_UNIT.match(P_text_unit or "")
     if not m:
@@ -152,9 +172,9 @@ def pressure_rounding_u_lnP(P_text: str, P_text_unit: str = "Pa") -> float:
     Parameters
     ----------
     P_text : str
-        The printed pressure cell.
+        The printed pressure cell (text, in `P_text_unit`; no unit of its own).
     P_text_unit : str
-        Its unit; a linear unit (``'Pa'``, ``'mmHg'``, ...) or a log unit
+        Name of its unit; a linear unit (``'Pa'``, ``'mmHg'``, ...) or a log unit
         (``'log10(P/Pa)'``, ``'ln(P/kPa)'``).
 
     Returns
@@ -180,6 +200,18 @@ def temperature_rounding_u_K(T_text: str, T_text_unit: str = "K") -> float:
 
     A printed °F digit is 5/9 K; kelvin and °C digits are 1 K.  ``nan`` when
     the text cannot be read.
+
+    Parameters
+    ----------
+    T_text : str
+        The printed temperature [T_text_unit].
+    T_text_unit : str
+        Name of its unit ('K', 'degC', 'degF', ...).
+
+    Returns
+    -------
+    float
+        Standard uncertainty from rounding [K].
     """
     try:
         pn = parse_printed_number(T_text)

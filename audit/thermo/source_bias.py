@@ -75,6 +75,20 @@ def gls_one_parameter(x, r, V) -> OneParameterGLS:
     b = xᵀV⁻¹r / xᵀV⁻¹x, u(b) = (xᵀV⁻¹x)^(-1/2), χ² = (r − xb)ᵀV⁻¹(r − xb).
     Factorises V: O(n³) time and O(n²) memory, so only for small n or a V
     without structure; :func:`source_offsets` uses :class:`LowRankCovariance`.
+
+    Parameters
+    ----------
+    x : array_like, shape (n,)
+        Regressor [unit of r per unit of b] (e.g. 1 for a ln P offset).
+    r : array_like, shape (n,)
+        Residuals [unit of r], e.g. ln P [ln Pa].
+    V : array_like, shape (n, n)
+        Covariance of r [unit of r squared]; positive definite.
+
+    Returns
+    -------
+    OneParameterGLS
+        b [unit of b], its standard error [unit of b], χ² [-] and n [-].
     """
     x = np.asarray(x, float)
     r = np.asarray(r, float)
@@ -128,7 +142,20 @@ class LowRankCovariance:
         self._shrink = lam / (1.0 + lam)
 
     def quad(self, a, b=None) -> float:
-        """aᵀV⁻¹b (aᵀV⁻¹a when b is omitted)."""
+        """aᵀV⁻¹b (aᵀV⁻¹a when b is omitted).
+
+        Parameters
+        ----------
+        a : array_like, shape (n,)
+            Vector [unit of a].
+        b : array_like, shape (n,), optional
+            Vector [unit of b]; default `a`.
+
+        Returns
+        -------
+        float
+            aᵀV⁻¹b [unit of a × unit of b / unit of V].
+        """
         aw = np.asarray(a, float) * self._isd
         bw = aw if b is None else np.asarray(b, float) * self._isd
         pa = self._basis.T @ aw
@@ -142,6 +169,20 @@ def gls_one_parameter_low_rank(x, r, V: LowRankCovariance) -> OneParameterGLS:
     Same estimate, standard error and χ² as the dense version up to
     rounding; χ² is formed from the residual r − xb itself, so it does not
     lose digits to the cancellation of rᵀV⁻¹r − b²·xᵀV⁻¹x.
+
+    Parameters
+    ----------
+    x : array_like, shape (n,)
+        Regressor [unit of r per unit of b].
+    r : array_like, shape (n,)
+        Residuals [unit of r], e.g. ln P [ln Pa].
+    V : LowRankCovariance
+        Covariance of r [unit of r squared].
+
+    Returns
+    -------
+    OneParameterGLS
+        b [unit of b], its standard error [unit of b], χ² [-] and n [-].
     """
     x = np.asarray(x, float)
     r = np.asarray(r, float)
@@ -203,7 +244,18 @@ class SourceOffset:
         return self.chi2_pressure_scale - self.chi2_temperature_offset
 
     def preferred_pattern(self, min_delta_chi2: float) -> str | None:
-        """'pressure-scale' or 'temperature-offset' when |Δχ²| ≥ the threshold, else None."""
+        """'pressure-scale' or 'temperature-offset' when |Δχ²| ≥ the threshold, else None.
+
+        Parameters
+        ----------
+        min_delta_chi2 : float
+            Threshold on |Δχ²| [-] between the two patterns.
+
+        Returns
+        -------
+        str or None
+            Name of the better pattern, or None when neither is clearly better.
+        """
         if abs(self.delta_chi2) < min_delta_chi2:
             return None
         return "temperature-offset" if self.delta_chi2 > 0 else "pressure-scale"
@@ -218,6 +270,19 @@ class SourceBiasAnalysis:
     not_analysed: tuple[tuple[str, str], ...] = ()
 
     def get(self, source: str) -> SourceOffset | None:
+        """The offset of one source.
+
+        Parameters
+        ----------
+        source : str
+            Name of the source.
+
+        Returns
+        -------
+        SourceOffset or None
+            Its offsets (pressure bias [%], temperature offset [K]), or None
+            when it was not analysed.
+        """
         for o in self.offsets:
             if o.source == source:
                 return o
@@ -252,18 +317,19 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
         Each point's standard uncertainty in ln P (effective variance: u_T
         through the slope already included) [-].
     sources : sequence of str or None
-        Source label per point (None: unlabelled; used in every consensus,
+        Source labels, one per point (None: unlabelled; used in every consensus,
         never analysed).
     form : str or type
-        Equation form of the consensus (see :func:`audit.thermo.fitting.fit_equation`).
+        Name (or class) of the equation form of the consensus (see :func:`audit.thermo.fitting.fit_equation`).
     keep : array_like of bool, optional
-        Points allowed in any fit or estimate (e.g. not rejected as outliers).
+        Flag per point [-]: points allowed in any fit or estimate (e.g. not rejected as outliers).
     min_points : int
-        Fewest points for a source to be analysed.
+        Fewest points for a source to be analysed (a count).
     exclude_from_consensus : sequence of str
-        Sources never used in the consensus of the others (known biased).
+        Names of sources never used in the consensus of the others (known biased).
     fit_options : dict, optional
-        Extra keyword arguments for ``fit_equation`` (Tc, Pc, n_terms, ...).
+        Extra keyword arguments for ``fit_equation`` by name, in its units
+        (Tc [K], Pc [Pa], n_terms, ...).
 
     Returns
     -------

@@ -64,7 +64,7 @@ def curvature_test(fit2, fit3) -> CurvatureTest:
     Parameters
     ----------
     fit2, fit3 : VaporPressureFit
-        Fits of the same points with the same weights (use ``robust=False``
+        Fits (objects, no unit) of the same points with the same weights (use ``robust=False``
         or the same ``point_weights``); `fit3` has more parameters.
 
     Returns
@@ -197,6 +197,16 @@ def mad_scale(x) -> float:
 
     Consistent for σ of normal data; NaN for an empty input.  Verified against
     ``scipy.stats.median_abs_deviation(x, scale='normal')``.
+
+    Parameters
+    ----------
+    x : array_like
+        Values [unit of x].
+
+    Returns
+    -------
+    float
+        Scale estimate [unit of x].
     """
     x = np.asarray(x, dtype=float)
     if x.size == 0:
@@ -232,11 +242,11 @@ def repeated_median_line(x, y, *, chunk_rows: int | None = None) -> RepeatedMedi
     Parameters
     ----------
     x, y : array_like
-        Abscissae and ordinates (same length, at least 2).  Pairs with a
+        Abscissae [unit of x] and ordinates [unit of y] (same length, at least 2).  Pairs with a
         non-finite value are left out of the line; their residuals are not
         finite.
     chunk_rows : int, optional
-        Points whose medians are computed together (default: enough for
+        Points whose medians are computed together (a count; default: enough for
         about 2·10⁶ slopes, at most 512).
 
     Returns
@@ -315,6 +325,22 @@ def family_wise_critical(alpha: float, n: int, correction: str, dof: float | Non
 
     References: Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967),
     doi:10.1080/01621459.1967.10482935.
+
+    Parameters
+    ----------
+    alpha : float
+        Family-wise significance level [-].
+    n : int
+        Number of tests (a count).
+    correction : {'sidak', 'bonferroni'}
+        Name of the correction.
+    dof : float, optional
+        Degrees of freedom [-] of a Student t; None for the normal.
+
+    Returns
+    -------
+    float
+        Critical |z| (or |t|) [-].
     """
     n = max(1, int(n))
     a = 1 - (1 - alpha) ** (1 / n) if correction == "sidak" else alpha / n

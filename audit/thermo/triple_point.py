@@ -23,6 +23,7 @@ import numpy as np
 from scipy import stats
 
 from .constants import R
+from .data import InsufficientData, as_data, as_uncertainty
 from .enthalpy import _refit_candidates, heat_capacity_change, running_comoment, running_moments
 from .roots import bracketed_root, sign_change_brackets
 
@@ -98,14 +99,14 @@ def intersect_branches(fit_solid, fit_liquid, T_guess: float | None = None,
     Parameters
     ----------
     fit_solid, fit_liquid : VaporPressureFit or equation
-        The two branches.  With fits, the (independent) parameter
+        The two branches (objects, no unit).  With fits, the (independent) parameter
         covariances give the uncertainties; bare equations give zero.
     T_guess : float, optional
         Temperature [K] near which to look for the crossing; by default
         the junction of the two fitted ranges.  Needed for bare equations
         without a range (the search then spans ±20 % around it).
     delta_z_solid, delta_z_liquid : float
-        Δz at the crossing for each branch (see
+        Δz [-] at the crossing for each branch (see
         :class:`audit.thermo.enthalpy.RealGasModel`); the enthalpies are
         apparent × Δz.
 
@@ -257,7 +258,7 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     T, P : array_like
         [K], [Pa]; any order.
     min_points_per_side : int
-        At least this many points on each side (≥ 3).
+        At least this many points on each side (a count, ≥ 3).
     u_T, u_P : float or array_like, optional
         Standard uncertainties [K], [Pa]; the weights use the effective
         variance with the slope of one straight line through all points.
@@ -278,9 +279,7 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     exactly, so the result is that of refitting both sides at every split
     (the former O(n²) scan) to rounding.
     """
-    from .fitting import InsufficientData, _as_data, _as_uncertainty
-
-    T, P = _as_data(T, P)
+    T, P = as_data(T, P)
     n = T.size
     m = int(min_points_per_side)
     if m < 3:
@@ -294,8 +293,8 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
         raise InsufficientData(f"need at least {2 * m + 1} distinct temperatures to look for a slope break; "
                                f"got {n} points at {n_T}")
     if u_T is not None or u_P is not None:
-        uT = _as_uncertainty(u_T, n, "u_T")[order]
-        uP = _as_uncertainty(u_P, n, "u_P")[order]
+        uT = as_uncertainty(u_T, n, "u_T")[order]
+        uP = as_uncertainty(u_P, n, "u_P")[order]
         _, b_all, _ = _line(x, y, np.ones(n))
         slope_T = -b_all / Ts ** 2
         var = (uP / P[order]) ** 2 + (slope_T * uT) ** 2

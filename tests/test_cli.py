@@ -20,6 +20,9 @@ import pytest
 
 from audit.cli import main
 from audit.schema import validate_findings
+
+from .references.iapws95_enthalpy import DH_FUS_TT
+from .references.iapws_r10_06 import P_TRIPLE, T_TRIPLE
 from tests.conftest import iapws_saturation_pressure
 
 MMHG = 133.322387415  # Pa, NIST SP 811 (2008) Appendix B
@@ -145,11 +148,11 @@ def test_check_on_an_ice_plus_liquid_table_reports_the_triple_point(tmp_path):
     validate_findings(doc)
     tp = doc["triple_point"]
     # exact reference values, printed to 6 digits: the crossing is within 0.02 K
-    assert tp["T_K"] == pytest.approx(273.16, abs=0.02)
-    assert tp["P_Pa"] == pytest.approx(611.657, rel=0.003)
+    assert tp["T_K"] == pytest.approx(T_TRIPLE, abs=0.02)
+    assert tp["P_Pa"] == pytest.approx(P_TRIPLE, rel=0.003)
     # ΔH_fus(Tt) = 6.007 kJ/mol from IAPWS-95 and IAPWS-06
-    assert tp["dH_fus_J_per_mol"] == pytest.approx(6007, rel=0.01)
-    assert tp["reference"]["T_K"] == 273.16
+    assert tp["dH_fus_J_per_mol"] == pytest.approx(DH_FUS_TT, rel=0.01)
+    assert tp["reference"]["T_K"] == T_TRIPLE
     assert {e["branch"] for e in doc["enthalpy"]} == {"solid", "liquid"}
     assert all(e["real_gas_corrected"] and e["u_dH_J_per_mol"] > 0 for e in doc["enthalpy"])
     assert any("Harvey & Lemmon" in n for n in doc["notes"])

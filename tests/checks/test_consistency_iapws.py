@@ -21,6 +21,9 @@ import pytest
 
 from audit.model import from_arrays
 from audit.pipeline import run_audit
+
+from ..references.iapws95_enthalpy import DH_FUS_TT, DH_VAP_TB, T_BOILING
+from ..references.iapws_r10_06 import P_TRIPLE, T_TRIPLE
 from tests.conftest import iapws_saturation_pressure, iapws_sublimation_pressure
 
 
@@ -46,11 +49,11 @@ def test_ice_plus_liquid_table_gives_the_triple_point(default_profile):
     # 12 ice points at 0.1 % and 25 liquid points at 0.05 %: the crossing is
     # determined to about 0.05 K (the curves differ in slope by only 0.97 %/K
     # at Tt); allow 3 u, and check the stated u is honest about it.
-    assert abs(tp.T_K - 273.16) < 3 * tp.u_T_K
+    assert abs(tp.T_K - T_TRIPLE) < 3 * tp.u_T_K
     assert tp.u_T_K < 0.1
-    assert tp.P_Pa == pytest.approx(611.657, rel=0.015)
+    assert tp.P_Pa == pytest.approx(P_TRIPLE, rel=0.015)
     # ΔH_fus(Tt) = 6.007 kJ/mol (IAPWS-95 and IAPWS-06); extrapolated slopes: 2 %
-    assert tp.dH_fus_J_per_mol == pytest.approx(6007, rel=0.02)
+    assert tp.dH_fus_J_per_mol == pytest.approx(DH_FUS_TT, rel=0.02)
     assert tp.reference["source"].startswith("IAPWS R10-06")
 
 
@@ -61,7 +64,7 @@ def test_unlabelled_ice_and_water_are_split_at_the_triple_point(default_profile)
     split = _check(res, "branch-split")
     assert split.status == "warn"  # inferred phases are worth confirming
     phases = [(p.T_K, p.phase) for p in res.points]
-    assert all((ph == "solid") == (T < 273.16) for T, ph in phases)
+    assert all((ph == "solid") == (T < T_TRIPLE) for T, ph in phases)
     assert all(p.phase_inferred for p in res.points)
     assert all(p.to_dict()["phase_inferred_from"].startswith("the slope break at") for p in res.points)
     assert _check(res, "triple-point").status == "pass"
@@ -72,9 +75,9 @@ def test_unlabelled_water_is_split_at_the_known_triple_point_273_16_K(default_pr
     res = run_audit(_ice_and_water(labelled=False), default_profile)
     split = _check(res, "branch-split")
     assert split.status == "pass", split.message
-    assert split.metrics["T_triple_K"] == 273.16
-    assert all((p.phase == "solid") == (p.T_K < 273.16) for p in res.points)
-    assert all("273.16 K (IAPWS R10-06" in p.to_dict()["phase_inferred_from"] for p in res.points)
+    assert split.metrics["T_triple_K"] == T_TRIPLE
+    assert all((p.phase == "solid") == (p.T_K < T_TRIPLE) for p in res.points)
+    assert all(f"{T_TRIPLE} K (IAPWS R10-06" in p.to_dict()["phase_inferred_from"] for p in res.points)
     assert _check(res, "triple-point").status == "pass"
 
 
@@ -118,14 +121,14 @@ def test_enthalpy_at_the_normal_boiling_point_is_real_gas_corrected(default_prof
     assert top.real_gas_corrected
     # IAPWS-95 at 372 K: ΔH_vap = 40.70 kJ/mol (40.651 at 373.124 K, dΔH/dT ≈ −44 J/(mol K));
     # 25 points at 0.05 % noise: the slope at the range's end is good to ~0.5 %
-    assert top.dH_J_per_mol == pytest.approx(40651 + 44 * 1.124, rel=0.006)
+    assert top.dH_J_per_mol == pytest.approx(DH_VAP_TB + 44 * (T_BOILING - 372.0), rel=0.006)
     # the apparent value is larger by 1/Δz; IAPWS-95 gives Δz = 0.98389 at Tb
     assert top.dH_apparent_J_per_mol / top.dH_J_per_mol == pytest.approx(1 / 0.98389, rel=0.002)
 
 
 def test_water_0_to_100_C_is_curved_with_a_plausible_negative_dCp(default_profile):
     rng = np.random.default_rng(11)
-    T = np.linspace(273.16, 373.15, 30)
+    T = np.linspace(T_TRIPLE, 373.15, 30)
     P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
     res = run_audit(from_arrays(T, P, phase="liquid", substance="water"), default_profile)
     chk = _check(res, "clapeyron-linearity")
@@ -225,7 +228,7 @@ def test_a_clean_compilation_has_smooth_enthalpy(tmp_path, default_profile, seed
 def _ice_or_liquid(T):
     T = np.atleast_1d(np.asarray(T, float))
     out = np.empty(T.size)
-    ice = T < 273.16
+    ice = T < T_TRIPLE
     if ice.any():
         out[ice] = iapws_sublimation_pressure(T[ice])
     if (~ice).any():
@@ -255,8 +258,8 @@ def test_an_unlabelled_compilation_through_the_triple_point_is_split_there(defau
     res = run_audit(ds, default_profile)
     split = _check(res, "branch-split")
     assert split.status == "warn" and "slope break" in split.message, split.message
-    assert abs(split.metrics["T_break_K"] - 273.16) < 3.0
-    assert res.triple_point is not None and abs(res.triple_point.T_K - 273.16) < 3 * res.triple_point.u_T_K + 0.5
+    assert abs(split.metrics["T_break_K"] - T_TRIPLE) < 3.0
+    assert res.triple_point is not None and abs(res.triple_point.T_K - T_TRIPLE) < 3 * res.triple_point.u_T_K + 0.5
 
 
 @pytest.mark.parametrize("seed", range(3))
@@ -285,6 +288,6 @@ def test_gross_errors_do_not_move_the_phase_break(default_profile):
     P[19:22] /= 1000.0
     res = run_audit(from_arrays(T_printed, P), default_profile)
     split = _check(res, "branch-split")
-    assert split.status == "warn" and abs(split.metrics["T_break_K"] - 273.16) < 2.0, split.message
+    assert split.status == "warn" and abs(split.metrics["T_break_K"] - T_TRIPLE) < 2.0, split.message
     good = [p for k, p in enumerate(res.points) if k not in (2, 19, 20, 21)]
-    assert all((p.phase == "solid") == (p.T_K < 273.16) for p in good)
+    assert all((p.phase == "solid") == (p.T_K < T_TRIPLE) for p in good)

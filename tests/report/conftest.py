@@ -24,6 +24,10 @@ from audit.results import (AuditResult, Cause, CheckResult, EnthalpyValue, FitRe
                            PointVerdict, SourceAgreement, TriplePointRecord)
 from tests.conftest import iapws_saturation_pressure, iapws_sublimation_pressure
 
+from ..references.iapws95_enthalpy import MOLAR_MASS_G_PER_MOL, T_BOILING
+from ..references.iapws_r10_06 import P_TRIPLE, T_TRIPLE
+from ..references.wagner_pruss_2002 import TC
+
 AUDIT_TIME = "2026-03-01T12:00:00Z"
 R = 8.314462618  # J mol-1 K-1, CODATA 2018 exact value
 
@@ -98,15 +102,15 @@ def build_result(*, source_names=("Lab A", "Lab B"), substance="water",
     cells.append(("n/a", "—", "", ""))
 
     constants = {
-        "T_triple": Constant(273.16, "K", "IAPWS R14-08(2011)"),
-        "P_triple": Constant(611.657, "Pa", "IAPWS R14-08(2011)"),
-        "T_critical": Constant(647.096, "K", "IAPWS-95 (Wagner & Pruss 2002)"),
-        "molar_mass": Constant(0.018015268, "kg/mol", "IAPWS-95"),
+        "T_triple": Constant(T_TRIPLE, "K", "IAPWS R14-08(2011)"),
+        "P_triple": Constant(P_TRIPLE, "Pa", "IAPWS R14-08(2011)"),
+        "T_critical": Constant(TC, "K", "IAPWS-95 (Wagner & Pruss 2002)"),
+        "molar_mass": Constant(MOLAR_MASS_G_PER_MOL * 1e-3, "kg/mol", "IAPWS-95"),
     }
     notes = ("decimal separator: point", "temperatures read as degC (header 't / °C')")
     extra = {}
     if hostile_text:
-        constants["T_boiling"] = Constant(373.124, "K", hostile_text)
+        constants["T_boiling"] = Constant(T_BOILING, "K", hostile_text)
         notes = notes + (hostile_text,)
         extra = {"comment": hostile_text}
     ds = Dataset(
@@ -195,7 +199,7 @@ def build_result(*, source_names=("Lab A", "Lab B"), substance="water",
                         zip(source_names or (), (0.35, -0.2, 0.0), (0.05, -0.03, 0.0),
                             ("constant offset", "random", "random"), ("warn", "pass", "pass")))
         tp = TriplePointRecord(273.2, 0.15, 612.5, 4.0, 6010.0, 300.0,
-                               {"T_K": 273.16, "P_Pa": 611.657, "name": "IAPWS R14-08(2011)"})
+                               {"T_K": T_TRIPLE, "P_Pa": P_TRIPLE, "name": "IAPWS R14-08(2011)"})
         T_ref = np.linspace(275, 370, 30)
         plot_data = {
             "local_enthalpy": [{"branch": "liquid", "T_K": float(T), "dH_J_per_mol": 44500 - 50 * (T - 300),

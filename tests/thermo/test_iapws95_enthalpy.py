@@ -15,7 +15,12 @@ from audit.thermo.constants import WATER_MOLAR_MASS
 
 from ._data import iapws_liquid, noisy
 
-TB = 373.124
+from ..references.coolprop_8_0_0 import FLUIDS
+from ..references.iapws95_enthalpy import DH_VAP_TB, DZ_TB, T_BOILING
+from ..references.wagner_pruss_2002 import PC, TC
+
+TB = T_BOILING
+WATER_OMEGA = FLUIDS["Water"].omega  # CoolProp 8.0.0 (IAPWS-95)
 
 
 @pytest.fixture(scope="module")
@@ -34,19 +39,19 @@ def iapws_tb():
 def water_fit():
     T = np.linspace(330.0, 420.0, 30)  # brackets Tb
     P = noisy(iapws_liquid(T), 5e-4, seed=11)
-    return select_equation(T, P, u_P=5e-4 * P, Tc=647.096, Pc=22.064e6).chosen
+    return select_equation(T, P, u_P=5e-4 * P, Tc=TC, Pc=PC).chosen
 
 
 def test_reference_numbers(iapws_tb):
     dH, dz = iapws_tb
     # The references table quotes 40.651 kJ/mol and 0.983891 (5-6 digits).
-    assert dH == pytest.approx(40651.0, abs=1.0)
-    assert dz == pytest.approx(0.983891, abs=2e-6)
+    assert dH == pytest.approx(DH_VAP_TB, abs=1.0)
+    assert dz == pytest.approx(DZ_TB, abs=2e-6)
 
 
 def test_corrected_enthalpy_at_tb(water_fit, iapws_tb):
     dH_ref, _ = iapws_tb
-    model = RealGasModel(Tc=647.096, Pc=22.064e6, omega=0.3443, polar_kind="water-harvey-lemmon")
+    model = RealGasModel(Tc=TC, Pc=PC, omega=WATER_OMEGA, polar_kind="water-harvey-lemmon")
     res = implied_enthalpy(water_fit, TB, correction=model)
     # Brief: within 0.3 %. Budget: fit with 0.05 % noise gives u(ΔH) ≈ 0.1 %;
     # Rackett's 8 % error in V_L moves Δz by ~1e-4; B by ~1e-4.
@@ -66,7 +71,7 @@ def test_apparent_over_true_is_inverse_delta_z(water_fit, iapws_tb):
 
 def test_delta_z_estimate_vs_iapws(iapws_tb):
     _, dz_ref = iapws_tb
-    model = RealGasModel(Tc=647.096, Pc=22.064e6, omega=0.3443, polar_kind="water-harvey-lemmon")
+    model = RealGasModel(Tc=TC, Pc=PC, omega=WATER_OMEGA, polar_kind="water-harvey-lemmon")
     dz = model.evaluate(TB, 101325.0).delta_z[0]
     # references: B + Rackett Δz lands within 0.25 % of the equation of state.
     assert dz == pytest.approx(dz_ref, rel=2.5e-3)

@@ -17,15 +17,20 @@ from audit.thermo import WATER_SATURATION, curvature_test, fit_equation, select_
 
 from ._data import iapws_liquid, noisy
 
+from ..references.iapws95_enthalpy import DH_OVER_DZ_TB, T_BOILING
+from ..references.iapws_r10_06 import T_TRIPLE
+from ..references.wagner_pruss_2002 import CHECK_VALUES as WP_CHECK_VALUES
+from ..references.wagner_pruss_2002 import PC, TC
 
-@pytest.mark.parametrize("T, p_ref", [(298.15, 3169.82), (373.124, 101323.9), (500.0, 2.639223e6)])
+
+@pytest.mark.parametrize("T, p_ref", sorted(WP_CHECK_VALUES.items()))
 def test_auxiliary_equation_values(T, p_ref):
     # The reference values are quoted to 6 significant digits: 2e-6 relative.
     assert WATER_SATURATION.p(T) == pytest.approx(p_ref, rel=2e-6)
 
 
 def test_auxiliary_equation_vs_full_iapws95():
-    T = np.linspace(273.16, 640.0, 40)
+    T = np.linspace(T_TRIPLE, 640.0, 40)
     # Wagner & Pruss state the auxiliary equation agrees with IAPWS-95 to
     # within 0.0072 % (references cross-check); allow 0.01 %.
     rel = WATER_SATURATION.p(T) / iapws_liquid(T) - 1
@@ -37,10 +42,10 @@ def test_iapws_vapor_pressure_pitfall_is_mpa():
     # make sure we compare like with like.
     from iapws import IAPWS95
 
-    assert IAPWS95._Vapor_Pressure(373.124) * 1e6 == pytest.approx(WATER_SATURATION.p(373.124), rel=1e-4)
+    assert IAPWS95._Vapor_Pressure(T_BOILING) * 1e6 == pytest.approx(WATER_SATURATION.p(T_BOILING), rel=1e-4)
 
 
-@pytest.mark.parametrize("T", [280.0, 373.124, 600.0])
+@pytest.mark.parametrize("T", [280.0, T_BOILING, 600.0])
 def test_derivatives_vs_finite_difference(T):
     h = 1e-3  # central differences: truncation error ~h², round-off ~1e-16/h
     fd1 = (WATER_SATURATION.ln_p(T + h) - WATER_SATURATION.ln_p(T - h)) / (2 * h)
@@ -56,14 +61,14 @@ def test_derivative_vs_iapws_clapeyron_slope():
     # slope to better than 0.05 %.
     from audit.thermo.constants import R
 
-    assert -R * WATER_SATURATION.dlnp_dinvT(373.124) == pytest.approx(41317.0, rel=5e-4)
+    assert -R * WATER_SATURATION.dlnp_dinvT(T_BOILING) == pytest.approx(DH_OVER_DZ_TB, rel=5e-4)
 
 
 @pytest.fixture(scope="module")
 def water_choice():
-    T = np.linspace(273.16, 373.15, 30)
+    T = np.linspace(T_TRIPLE, 373.15, 30)
     P = noisy(iapws_liquid(T), 5e-4, seed=7)
-    return T, P, select_equation(T, P, u_P=5e-4 * P, Tc=647.096, Pc=22.064e6)
+    return T, P, select_equation(T, P, u_P=5e-4 * P, Tc=TC, Pc=PC)
 
 
 def test_selected_fit_reproduces_within_noise(water_choice):

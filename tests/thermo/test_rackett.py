@@ -13,6 +13,10 @@ from audit.thermo import rackett_volume
 from audit.thermo.constants import R
 from audit.thermo.enthalpy import delta_z, yamada_gunn_z_ra
 
+from ..references.coolprop_8_0_0 import FLUIDS
+from ..references.iapws95_enthalpy import T_BOILING
+from ..references.wagner_pruss_2002 import PC, TC
+
 CP = pytest.importorskip("CoolProp.CoolProp")
 
 
@@ -43,13 +47,13 @@ def test_rackett_yamada_gunn_vs_coolprop(fluid):
 
 def test_water_rackett_errors():
     V_true = 0.018015268 / 958.3677  # IAPWS-95 liquid density at Tb (iapws package)
-    Tc, Pc = 647.096, 22.064e6
+    Tc, Pc = TC, PC
     Zc = Pc / (322.0 / 0.018015268 * R * Tc)  # IAPWS-95 critical point
     # Original Rackett (Zc) is low for water (references: 6-10 %; measured 6 %
     # at Tb); Yamada-Gunn is high (measured +18 %).  Either is fine for the
     # P·V term of Δz only.
-    assert 0.90 < rackett_volume(373.124, Tc, Pc, Z_RA=Zc) / V_true < 0.97
-    assert 1.10 < rackett_volume(373.124, Tc, Pc, omega=0.3443) / V_true < 1.25
+    assert 0.90 < rackett_volume(T_BOILING, Tc, Pc, Z_RA=Zc) / V_true < 0.97
+    assert 1.10 < rackett_volume(T_BOILING, Tc, Pc, omega=FLUIDS["Water"].omega) / V_true < 1.25
 
 
 def test_z_ra_and_delta_z_definition():
@@ -57,4 +61,4 @@ def test_z_ra_and_delta_z_definition():
     # Δz = 1 + BP/RT - PV/RT with B = V = 0 is exactly 1.
     assert delta_z(300.0, 1e5, 0.0, 0.0) == 1.0
     with pytest.raises(ValueError):
-        rackett_volume(700.0, 647.096, 22.064e6, omega=0.3443)
+        rackett_volume(700.0, TC, PC, omega=FLUIDS["Water"].omega)

@@ -15,6 +15,9 @@ from audit.thermo import enthalpy_steps, local_enthalpy, residual_runs
 
 from ._data import iapws_ice, iapws_liquid, noisy
 
+from ..references.iapws95_enthalpy import DH_FUS_TT
+from ..references.iapws_r10_06 import T_TRIPLE
+
 
 def test_runs_vs_statsmodels():
     r = np.random.default_rng(3).standard_normal(40)
@@ -46,7 +49,7 @@ def test_local_enthalpy_tracks_iapws():
 
 
 def test_enthalpy_step_at_triple_point():
-    Ti = np.linspace(230, 273.16, 15)
+    Ti = np.linspace(230, T_TRIPLE, 15)
     Tl = np.linspace(274, 320, 15)
     T = np.concatenate([Ti, Tl])
     P = np.concatenate([noisy(iapws_ice(Ti), 5e-4, 1), noisy(iapws_liquid(Tl), 5e-4, 2)])
@@ -54,7 +57,7 @@ def test_enthalpy_step_at_triple_point():
     assert 273.0 < st.T_step < 274.2  # between the last ice and first liquid point
     # Step = -ΔH_fus (6.007 kJ/mol): within 4 u + 5 % (the base model has
     # constant ΔCp on both sides, the two phases' ΔCp differ).
-    assert abs(st.dH_step + 6007) < 4 * st.u_dH_step + 300
+    assert abs(st.dH_step + DH_FUS_TT) < 4 * st.u_dH_step + 300
     assert st.p_value_adjusted < 1e-6
 
 
@@ -82,7 +85,7 @@ def test_mad_scale_matches_scipy():
 def test_the_ice_water_step_survives_two_smooth_terms():
     # the same ice + liquid set: the kink at the triple point is not taken up by
     # Legendre terms in 1/T, which follow curvature, not a change of slope
-    Ti = np.linspace(230, 273.16, 15)
+    Ti = np.linspace(230, T_TRIPLE, 15)
     Tl = np.linspace(274, 320, 15)
     T = np.concatenate([Ti, Tl])
     P = np.concatenate([noisy(iapws_ice(Ti), 5e-4, 1), noisy(iapws_liquid(Tl), 5e-4, 2)])

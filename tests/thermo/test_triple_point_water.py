@@ -13,10 +13,14 @@ from audit.thermo import fit_equation, find_slope_break, intersect_branches, sel
 
 from ._data import iapws_ice, iapws_liquid, noisy
 
+from ..references.iapws95_enthalpy import (DH_FUS_TT, DLNP_DINVT_ICE_TT, DLNP_DINVT_LIQUID_TT,
+                                           R_SLOPE_DIFFERENCE_TT)
+from ..references.iapws_r10_06 import P_TRIPLE, T_TRIPLE
+
 
 def branches(n_ice, n_liq, rel, seed):
-    Ti = np.linspace(200.0, 273.16, n_ice)
-    Tl = np.linspace(273.16, 330.0, n_liq)
+    Ti = np.linspace(200.0, T_TRIPLE, n_ice)
+    Tl = np.linspace(T_TRIPLE, 330.0, n_liq)
     return Ti, noisy(iapws_ice(Ti), rel, seed), Tl, noisy(iapws_liquid(Tl), rel, seed + 1)
 
 
@@ -36,16 +40,16 @@ def test_triple_point_within_stated_uncertainty(realistic):
     # 0.05 % noise gives u(T) of a few hundredths of a kelvin; the estimate
     # must lie within 3 u (and the u must be that small).
     assert tp.u_T < 0.06
-    assert abs(tp.T - 273.16) < 3 * tp.u_T
+    assert abs(tp.T - T_TRIPLE) < 3 * tp.u_T
     # P follows T along the curve (d ln p/dT ≈ 0.08 /K at Tt), so its error
     # is ~0.08 × the T error; the same 3 u criterion applies.
-    assert abs(tp.P / 611.657 - 1) < 3 * tp.u_P / 611.657
+    assert abs(tp.P / P_TRIPLE - 1) < 3 * tp.u_P / P_TRIPLE
 
 
 def test_dh_fus(realistic):
     _, _, tp = realistic
     # Brief: within the stated uncertainty + 5 % of 6.0 kJ/mol.
-    assert abs(tp.dH_fus - 6007.0) < tp.u_dH_fus + 0.05 * 6007.0
+    assert abs(tp.dH_fus - DH_FUS_TT) < tp.u_dH_fus + 0.05 * DH_FUS_TT
     assert tp.dH_sub > tp.dH_vap
 
 
@@ -56,8 +60,8 @@ def test_triple_point_precise_data():
     fs = select_equation(Ti, Pi, u_P=1e-4 * Pi, branch="solid").chosen
     fl = select_equation(Tl, Pl, u_P=1e-4 * Pl).chosen
     tp = intersect_branches(fs, fl)
-    assert abs(tp.T - 273.16) < 0.02
-    assert tp.P == pytest.approx(611.657, rel=3e-3)
+    assert abs(tp.T - T_TRIPLE) < 0.02
+    assert tp.P == pytest.approx(P_TRIPLE, rel=3e-3)
 
 
 def test_delta_method_vs_parametric_bootstrap(realistic):
@@ -81,9 +85,9 @@ def test_exact_equations_cross_at_triple_point():
     tp = intersect_branches(ICE_SUBLIMATION, WATER_SATURATION)
     # Both IAPWS equations pass through (Tt, pt): the auxiliary liquid
     # equation gives 611.655 Pa at 273.16 K, 0.0003 % low, i.e. 0.3 mK.
-    assert tp.T == pytest.approx(273.16, abs=2e-3)
+    assert tp.T == pytest.approx(T_TRIPLE, abs=2e-3)
     # R × slope difference at Tt is 6.019 kJ/mol (references cross-check).
-    assert tp.dH_fus == pytest.approx(6019.0, rel=2e-3)
+    assert tp.dH_fus == pytest.approx(R_SLOPE_DIFFERENCE_TT, rel=2e-3)
 
 
 def test_no_crossing_reported():
@@ -105,5 +109,5 @@ def test_slope_break_without_labels():
     assert br.p_value_adjusted < 1e-6
     # Slopes: -6144.8 K (ice) and -5420.9 K (liquid) at Tt (references);
     # each side's straight line averages over its range: within 1.5 %.
-    assert br.slope_low == pytest.approx(-6144.8, rel=0.015)
-    assert br.slope_high == pytest.approx(-5420.9, rel=0.03)
+    assert br.slope_low == pytest.approx(DLNP_DINVT_ICE_TT, rel=0.015)
+    assert br.slope_high == pytest.approx(DLNP_DINVT_LIQUID_TT, rel=0.03)

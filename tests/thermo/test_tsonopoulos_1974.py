@@ -13,17 +13,20 @@ import pytest
 from audit.thermo import tsonopoulos_B, tsonopoulos_polar_terms, water_second_virial
 from audit.thermo.constants import WATER_MOLAR_MASS, WATER_RHO_CRITICAL
 
+from ..references.iapws_r10_06 import T_TRIPLE
+from ..references.tsonopoulos_1974 import BENZENE_B_CM3, BENZENE_CASE, WATER_B_CM3, WATER_CASE
+
 
 def test_water_with_polar_terms():
     t = tsonopoulos_polar_terms("water")
-    B = tsonopoulos_B(373.12, 647.096, 22.064e6, 0.3443, t.a, t.b)
+    B = tsonopoulos_B(*WATER_CASE, t.a, t.b)
     # Check value quoted to 0.1 cm³/mol.
-    assert B * 1e6 == pytest.approx(-457.0, abs=0.1)
+    assert B * 1e6 == pytest.approx(WATER_B_CM3, abs=0.1)
 
 
 def test_benzene_nonpolar():
-    B = tsonopoulos_B(353.2, 562.02, 4.9073e6, 0.2108)
-    assert B * 1e6 == pytest.approx(-993.7, abs=0.1)
+    B = tsonopoulos_B(*BENZENE_CASE)
+    assert B * 1e6 == pytest.approx(BENZENE_B_CM3, abs=0.1)
 
 
 def test_benzene_vs_coolprop_equation_of_state():
@@ -32,7 +35,7 @@ def test_benzene_vs_coolprop_equation_of_state():
     rho = 1e-3  # mol/m³: Z - 1 = Bρ + Cρ² with Cρ² negligible here
     Z = CP.PropsSI("Z", "T", 353.2, "Dmolar", rho, "Benzene")
     B_eos = (Z - 1) / rho
-    B = tsonopoulos_B(353.2, 562.02, 4.9073e6, 0.2108)
+    B = tsonopoulos_B(*BENZENE_CASE)
     # Tsonopoulos is a corresponding-states correlation: ~5 % for benzene
     # (references: -993.7 vs -951.5).
     assert B == pytest.approx(B_eos, rel=0.06)
@@ -72,4 +75,4 @@ def test_harvey_lemmon_units_and_values_vs_iapws95():
 def test_harvey_lemmon_at_triple_point():
     # At 273.16 K the two differ by ~5 % (IAPWS-95's virial limit is least
     # certain there); the effect on Δz is B·p/RT × 5 % ≈ 3e-5: irrelevant.
-    assert water_second_virial(273.16) == pytest.approx(iapws_B([273.16])[0], rel=0.07)
+    assert water_second_virial(T_TRIPLE) == pytest.approx(iapws_B([T_TRIPLE])[0], rel=0.07)

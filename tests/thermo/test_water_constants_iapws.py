@@ -13,6 +13,8 @@ from iapws._iapws import Pc, Tc
 
 from audit.thermo import constants as c
 
+from ..references.iapws_r10_06 import P_TRIPLE, T_TRIPLE
+
 
 def test_critical_point_is_that_of_iapws_95():
     assert c.WATER_T_CRITICAL == Tc  # 647.096 K
@@ -26,6 +28,6 @@ def test_acentric_factor_follows_its_definition_on_iapws_95():
 
 
 def test_triple_point_is_that_of_iapws_r10_06():
-    assert (c.WATER_T_TRIPLE, c.WATER_P_TRIPLE) == (273.16, 611.657)
+    assert (c.WATER_T_TRIPLE, c.WATER_P_TRIPLE) == (T_TRIPLE, P_TRIPLE)
     # the saturation pressure of IAPWS-95 at the triple-point temperature agrees to 0.01 %
-    assert IAPWS95(T=273.16, x=0).P * 1e6 == pytest.approx(c.WATER_P_TRIPLE, rel=1e-4)
+    assert IAPWS95(T=T_TRIPLE, x=0).P * 1e6 == pytest.approx(c.WATER_P_TRIPLE, rel=1e-4)

@@ -20,9 +20,8 @@ from typing import Any
 from .consensus.model import ConsensusModel
 from .model import Dataset, Point
 from .profiles import CheckSettings, Profile
-from .results import Cause, CheckResult, PointFlag, SourceAgreement, TriplePointRecord
+from .results import STATUS_RANK, Cause, CheckResult, PointFlag, SourceAgreement, TriplePointRecord
 
-_RANK = {"ok": 0, "suspect": 1, "reject": 2, "unreadable": 3}
 
 
 @dataclass
@@ -101,7 +100,7 @@ class AuditContext:
         for f in result.flags:
             self.flags.setdefault(f.row, []).append(f)
         for row, st in result.point_status.items():
-            if _RANK[st] > _RANK[self.status[row]]:
+            if STATUS_RANK[st] > STATUS_RANK[self.status[row]]:
                 self.status[row] = st
         for row, cause in result.causes.items():
             self.causes[row] = cause

@@ -17,6 +17,9 @@ from .model import Dataset
 
 Status = Literal["pass", "warn", "fail", "skipped"]
 PointStatus = Literal["ok", "suspect", "reject", "unreadable"]
+#: how bad a row's status is: a later check may raise a row's status, never lower it
+STATUS_RANK = {"ok": 0, "suspect": 1, "reject": 2, "unreadable": 3}
+#: the kinds of likely cause a row or a source may be given
 CAUSE_KINDS = ("pressure-unit", "temperature-unit", "decimal-shift", "digit-swap", "phase-label", "other-compound")
 SCHEMA_VERSION = 1
 

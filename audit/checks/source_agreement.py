@@ -26,14 +26,13 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from ..consensus import refit_without_sources
-from ..results import Cause, CheckResult, PointFlag, SourceAgreement
+from ..results import STATUS_RANK, Cause, CheckResult, PointFlag, SourceAgreement
 from ..thermo.constants import R as R_GAS
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
-_RANK = {"ok": 0, "suspect": 1, "reject": 2}
 
 
 @dataclass(frozen=True)
@@ -247,7 +246,7 @@ class SourceAgreement_(Check):
                            "birge_ratio": o.birge_ratio, "T_range_K": list(o.T_range),
                            "two_sources_only": n_src == 2})
                 prev = best.get(o.source)
-                if prev is None or _RANK[status] > _RANK[prev.status]:
+                if prev is None or STATUS_RANK[status] > STATUS_RANK[prev.status]:
                     best[o.source] = rec
             for name in dict.fromkeys(src_all):
                 if not kept_all[src_all == name].any():

@@ -172,7 +172,7 @@ class TriplePoint(Check):
 
         causes, flags, status = {}, [], {}
         fits = {"solid": fit_s, "liquid": fit_l}
-        scale = {b: _robust_scale(f) for b, f in fits.items()}
+        scale = {b: _fit_residual_scale(f) for b, f in fits.items()}
         for p in ctx.dataset.points:
             # a row of another crystal form is judged by the transition check, not here
             if ctx.phase(p) not in (solid, "liquid") or p.phase not in fits:
@@ -198,7 +198,7 @@ class TriplePoint(Check):
         return causes, tuple(flags), status
 
 
-def _robust_scale(fit) -> float:
+def _fit_residual_scale(fit) -> float:
     """Residual scale of ln P over the points a fit used (normal-consistent MAD), floored."""
     from ..thermo.stats import mad_scale
 

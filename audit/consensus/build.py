@@ -70,10 +70,6 @@ def _floors(points):
 _MAD_EFFICIENCY = 0.37
 
 
-def _robust_scale(x) -> float:
-    return mad_scale(x)
-
-
 def _own_scale(r, inv_T, max_scale_lnP: float) -> float:
     """Robust scatter of one source's residuals [-]: about their median, or, when
     that is beyond any plausible scatter, about their own trend in 1/T.
@@ -89,12 +85,12 @@ def _own_scale(r, inv_T, max_scale_lnP: float) -> float:
 
     r = np.asarray(r, float)
     inv_T = np.asarray(inv_T, float)
-    about_median = _robust_scale(r)
+    about_median = mad_scale(r)
     if not about_median > max_scale_lnP or r.size < 4 \
             or not (np.all(np.isfinite(r)) and np.all(np.isfinite(inv_T))) or distinct_temperatures(1.0 / inv_T) < 4:
         return about_median
     line = repeated_median_line(inv_T, r)
-    return min(about_median, _robust_scale(line.residuals) * math.sqrt((r.size - 1) / (r.size - 2)))
+    return min(about_median, mad_scale(line.residuals) * math.sqrt((r.size - 1) / (r.size - 2)))
 
 
 #: fewest rows from which a source's own scatter is estimated at all (a MAD of two values
@@ -149,7 +145,7 @@ def judgeable_range(fit) -> tuple[float, float]:
 def _median_u(values, floor: float) -> float:
     """Standard uncertainty of the median of ``values``: √(π/2)·scale/√n, the
     scale robust (MAD) and never below ``floor``."""
-    return _MEDIAN_SE * max(_robust_scale(values), floor) / math.sqrt(len(values))
+    return _MEDIAN_SE * max(mad_scale(values), floor) / math.sqrt(len(values))
 
 
 def _inverse_scores(z, fit, T, P, outside, rel, uT_eff, scale):
@@ -441,7 +437,7 @@ class _BranchAnalysis:
         """
         from scipy.stats import levene
 
-        pooled = _robust_scale(r[active])
+        pooled = mad_scale(r[active])
         pooled = pooled if pooled > 0 else 1e-6
         out = np.full(r.size, pooled)
         # a source's own scale comes from all its points, fitted or not: the MAD is robust to
@@ -479,7 +475,7 @@ class _BranchAnalysis:
             return _few_row_scales(out, src, named)
         # the prior from the scales about the median: a precise series whose residuals trace the
         # equation's own misfit must not, by that trend being removed, lower every source's prior
-        plain = {k: _robust_scale(r[src == k]) for k in own}
+        plain = {k: mad_scale(r[src == k]) for k in own}
         plain = {k: v for k, v in plain.items() if v > 0}
         prior = float(np.median([plain[k] for k in big if k in plain] or list(plain.values()) or [pooled]))
         for name in named:
@@ -563,7 +559,7 @@ class _BranchAnalysis:
             sm, sg = slope[mine][inside], sig[mine][inside]
             med = float(np.median(rm))
             dT = float(np.median(-rm / sm)) if np.all(sm > 0) else math.nan
-            temperature = math.isfinite(dT) and _robust_scale(rm + sm * dT) < _robust_scale(rm - med)
+            temperature = math.isfinite(dT) and mad_scale(rm + sm * dT) < mad_scale(rm - med)
             if temperature:
                 u_removed = _median_u(-rm / sm - dT, float(np.median(sg / sm)))
             else:

@@ -23,6 +23,7 @@ from dataclasses import dataclass
 from typing import Iterable, Literal, Sequence
 
 from ..results import AuditResult, PointVerdict, SourceAgreement
+from ..values import all_finite as _finite
 from .numbers import pressure_text
 
 __all__ = ["Action", "what_to_fix", "SOURCE_LEVEL_CHECKS", "rows_only_under_their_source",
@@ -358,7 +359,3 @@ def _first_clause(text: str, limit: int = 160) -> str:
     if len(head) > limit:
         head = head[:limit - 1].rstrip() + "…"
     return head
-
-
-def _finite(x) -> bool:
-    return isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x)

@@ -57,6 +57,7 @@ from dataclasses import dataclass
 from typing import Any, Iterable, Mapping, Sequence
 
 from ..results import AuditResult, PointVerdict
+from ..values import all_finite as _finite
 from .numbers import pressure_text
 
 __all__ = [
@@ -168,10 +169,6 @@ def render_all(result: AuditResult) -> tuple[RenderedPlot, ...]:
 
 
 # -- helpers ------------------------------------------------------------------------
-def _finite(*values) -> bool:
-    return all(v is not None and isinstance(v, (int, float)) and math.isfinite(v) for v in values)
-
-
 def _plottable(points: Iterable[PointVerdict]) -> list[PointVerdict]:
     return [p for p in points if _finite(p.T_K, p.P_Pa) and p.T_K > 0 and p.P_Pa > 0
             and p.status in STATUS_STYLE]

@@ -20,13 +20,13 @@ only here, when a sheet is audited.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from typing import ClassVar
 
 import numpy as np
 
 from ..thermo.equations import Antoine, VaporPressureEquation, Wagner, as_temperature
+from ..values import all_finite as _finite
 
 __all__ = ["SheetReference", "Dippr101", "sheet_reference", "library_references"]
 
@@ -82,10 +82,6 @@ class Dippr101(VaporPressureEquation):
     def describe(self) -> str:
         return (f"ln(P/Pa) = C1 + C2/T + C3 ln T + C4 T^C5 with C1 = {self.C1:.6g}, C2 = {self.C2:.6g} K, "
                 f"C3 = {self.C3:.6g}, C4 = {self.C4:.6g}, C5 = {self.C5:.6g}")
-
-
-def _finite(*values) -> bool:
-    return all(isinstance(v, (int, float)) and math.isfinite(float(v)) for v in values)
 
 
 def _table_name(module, table) -> str:

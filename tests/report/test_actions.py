@@ -95,3 +95,10 @@ def test_entries_are_ordered_by_severity(large_compilation_result):
     entries = what_to_fix(large_compilation_result)
     ranks = [("fail", "warn", "note").index(a.severity) for a in entries]
     assert ranks == sorted(ranks) and len(set(ranks)) > 1
+
+
+def test_every_cause_kind_has_an_action():
+    from audit.report.actions import _ROW_ACTION
+    from audit.results import CAUSE_KINDS
+
+    assert set(_ROW_ACTION) == set(CAUSE_KINDS)

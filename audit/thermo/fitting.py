@@ -42,7 +42,7 @@ import numpy as np
 from scipy import optimize
 
 from .data import InsufficientData, as_data, as_uncertainty, readonly, weighted_lstsq
-from .enthalpy import apparent_enthalpy, heat_capacity_change
+from .slope import apparent_enthalpy, heat_capacity_change
 from .ratios import percent_from_log_ratio
 from .equations import (Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner,
                         _pressure_ln_factor, get_form)

@@ -13,6 +13,7 @@ from hypothesis import strategies as st
 
 from audit.thermo import (Antoine, ClarkeGlew, ClausiusClapeyron2, ClausiusClapeyron3, Wagner,
                           apparent_enthalpy, heat_capacity_change)
+from tests.references import wagner_pruss_2002
 
 EQUATIONS = [
     ClausiusClapeyron2(25.0, -5000.0),
@@ -20,8 +21,8 @@ EQUATIONS = [
     Antoine(10.2, 1740.0, -39.0),
     Antoine(7.0, 1700.0, 230.0, base="log10", P_unit="mmHg", T_unit="degC"),
     ClarkeGlew(6000.0, 43000.0, -40.0, 0.1, theta=320.0, n_terms=4),
-    Wagner(-7.86, 1.84, -2.4, -1.9, Tc=647.096, Pc=22.064e6),
-    Wagner(-7.86, 1.84, -2.4, -1.9, Tc=647.096, Pc=22.064e6, variant="3-6"),
+    Wagner(-7.86, 1.84, -2.4, -1.9, Tc=wagner_pruss_2002.TC, Pc=wagner_pruss_2002.PC),
+    Wagner(-7.86, 1.84, -2.4, -1.9, Tc=wagner_pruss_2002.TC, Pc=wagner_pruss_2002.PC, variant="3-6"),
 ]
 
 

@@ -10,10 +10,11 @@ import pytest
 import statsmodels.api as sm
 
 from audit.thermo import fit_equation
+from tests.references import iapws_r10_06
 
 from ._data import iapws_liquid, noisy
 
-T20 = np.linspace(273.16, 373.15, 20)
+T20 = np.linspace(iapws_r10_06.T_TRIPLE, 373.15, 20)
 
 
 @pytest.fixture(scope="module")

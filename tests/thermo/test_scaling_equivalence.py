@@ -29,6 +29,7 @@ import pytest
 from scipy import stats
 
 from tests.conftest import iapws_saturation_pressure, iapws_sublimation_pressure
+from tests.references import iapws_r10_06
 
 sm = pytest.importorskip("statsmodels.api")
 
@@ -289,7 +290,7 @@ def _ice_and_liquid(n, replicates, rel, seed):
     """Ice Ih sublimation (IAPWS R14-08) below 273.16 K, liquid (IAPWS-95) above."""
     rng = np.random.default_rng(seed)
     T = np.repeat(np.sort(rng.uniform(250.0, 300.0, -(-n // replicates))), replicates)[:n]
-    ice = T < 273.16
+    ice = T < iapws_r10_06.T_TRIPLE
     P = np.empty(n)
     P[ice] = iapws_sublimation_pressure(T[ice])
     P[~ice] = iapws_saturation_pressure(T[~ice])
@@ -316,7 +317,7 @@ def test_find_slope_break_matches_the_former_scan_on_iapws_water(kind, n, replic
         # IAPWS: triple point 273.16 K; the break lies between the neighbouring points, where
         # solid and liquid pressures are equal: straight lines through the two curved branches
         # meet there to within 1 % (a level jump of another compound is tens of percent or more)
-        assert got.T_break == pytest.approx(273.16, abs=1.0)
+        assert got.T_break == pytest.approx(iapws_r10_06.T_TRIPLE, abs=1.0)
         assert got.solid_side_steeper
         assert abs(got.gap_lnP) < 0.01
 

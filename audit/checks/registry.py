@@ -9,6 +9,7 @@ rule profile (``rules/default.toml``), never in code.
 
 from __future__ import annotations
 
+import importlib
 from typing import Any, ClassVar
 
 from ..errors import InputError
@@ -46,6 +47,42 @@ class Check:
         raise NotImplementedError
 
 
+#: check modules in run order
+_CHECK_MODULES = (
+    "readability",
+    "physical_range",
+    "branch_split",
+    "outliers",
+    "source_agreement",
+    "duplicates",
+    "copied_values",
+    "monotonic",
+    "triple_point",
+    "solid_transition",
+    "clapeyron_linearity",
+    "enthalpy_continuity",
+    "enthalpy_plausibility",
+    "reference_agreement",
+    # supplier sheets (applies_to = "sheet"): run by audit.sheet.run, not by the table audit
+    "sheet_units",
+    "sheet_table",
+    "sheet_reference",
+    "sheet_enthalpy",
+    "sheet_range",
+)
+
+_loaded = False
+
+
+def _load_all() -> None:
+    global _loaded
+    if _loaded:
+        return
+    _loaded = True
+    for name in _CHECK_MODULES:
+        importlib.import_module(f"{__package__}.{name}")
+
+
 _REGISTRY: dict[str, type[Check]] = {}
 
 
@@ -61,8 +98,6 @@ def all_checks() -> dict[str, type[Check]]:
     """Registered checks in run order: the order of ``_CHECK_MODULES``, not the order in
     which their modules happened to be imported (a caller importing one check's module
     first must not make it run before the checks it depends on)."""
-    from . import _CHECK_MODULES, _load_all
-
     _load_all()
     rank = {f"{__package__}.{name}": i for i, name in enumerate(_CHECK_MODULES)}
     ordered = sorted(_REGISTRY.items(), key=lambda kv: rank.get(kv[1].__module__, len(rank)))

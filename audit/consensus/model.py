@@ -124,7 +124,13 @@ class BranchConsensus:
     iterations : int
     converged : bool
     cooks_distance : ndarray
-        Cook's distance of each judged point in the last scoring fit.
+        Cook's distance [-] of each judged point in the last scoring fit.
+    corrected_z : callable
+        Row index → ((T [K], P [Pa]) → z [-]) of a corrected reading of a
+        judged point (for cause hypotheses).
+    reading_z : callable
+        Source name → ((T [K], P [Pa]) → z [-]) for a row the branch did not
+        judge (scale and offset of its source).
     """
 
     branch: str
@@ -184,6 +190,13 @@ class BranchConsensus:
         return self.rows.index(row)
 
     def summary(self) -> str:
+        """The branch's fit of record, rejections and source shifts.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         fit = self.fit
         lines = [f"{self.branch}: {self.form_name}, {fit.n_used} points in the fit of record "
                  f"({fit.T_range[0]:.5g}–{fit.T_range[1]:.5g} K), rms {fit.rms_percent:.3g} %",
@@ -200,7 +213,16 @@ class BranchConsensus:
 
 @dataclass(frozen=True)
 class ConsensusModel:
-    """The consensus of every branch that could be fitted, and why the others were not."""
+    """The consensus of every branch that could be fitted, and why the others were not.
+
+    Attributes
+    ----------
+    branches : Mapping of str to BranchConsensus
+        Branch name to its consensus (no unit; the units of its fields are
+        in the docstring of :class:`BranchConsensus`).
+    not_fitted : Mapping of str to str
+        Branch name to the reason it was not fitted.
+    """
 
     branches: Mapping[str, BranchConsensus] = field(default_factory=dict)
     not_fitted: Mapping[str, str] = field(default_factory=dict)
@@ -216,7 +238,9 @@ class ConsensusModel:
         Returns
         -------
         BranchConsensus or None
-            None when the branch has no consensus.
+            The branch's consensus (no unit; the units of its fields are in the
+            docstring of :class:`BranchConsensus`); None when the branch has no
+            consensus.
         """
         return self.branches.get(branch)
 
@@ -237,6 +261,8 @@ class ConsensusModel:
         Returns
         -------
         ConsensusModel
+            A copy with the branch added or replaced (no unit; the units of its
+            fields are in the docstring of :class:`ConsensusModel`).
         """
         return ConsensusModel({**self.branches, branch.branch: branch}, dict(self.not_fitted))
 
@@ -262,6 +288,13 @@ class ConsensusModel:
         return self._every_branch("u_percent")
 
     def summary(self) -> str:
+        """The summary of each branch, and the branches not fitted.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         lines = [b.summary() for b in self.branches.values()]
         lines += [f"{k}: not fitted — {v}" for k, v in self.not_fitted.items()]
         return "\n".join(lines) or "no branch fitted"

@@ -77,8 +77,8 @@ def as_uncertainty(u, n, name):
     Returns
     -------
     ndarray
-        `n` finite, non-negative values in the unit of `u`; zeros when `u`
-        is None.
+        `n` finite, non-negative values in the unit of `u` ([K], [Pa], or
+        [-] for weights); zeros when `u` is None.
 
     Examples
     --------

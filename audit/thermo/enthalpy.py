@@ -403,6 +403,13 @@ class ImpliedEnthalpy:
     correction: str
 
     def summary(self) -> str:
+        """A table of the implied enthalpy at each temperature.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         rows = [f"enthalpy implied by the curve; correction: {self.correction}",
                 "   T/K      apparent/(kJ/mol)   Δz        ΔH/(kJ/mol)"]
         for i in range(self.T.size):
@@ -701,15 +708,16 @@ class EnthalpyStep:
     T_step : float
         Temperature of the step [K] (between two neighbouring points).
     split : int
-        Number of T-sorted points below the step.
+        Number of T-sorted points below the step (a count).
     dH_step, u_dH_step : float
         ΔH above minus ΔH below [J/mol] and standard uncertainty.
     F, p_value : float
-        F statistic of the step vs no step, nominal p-value.
+        F statistic of the step vs no step, nominal p-value [-].
     p_value_adjusted : float
-        Bonferroni-adjusted over the `n_tested` candidate positions (the
+        Bonferroni-adjusted [-] over the `n_tested` candidate positions (the
         nominal value is optimistic because the best position was picked).
     n_tested : int
+        Number of candidate positions tested (a count).
     """
 
     T_step: float
@@ -878,12 +886,14 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     Returns
     -------
     EnthalpyStep
-        The best split's temperature [K], step size [J/mol] and F test.
+        The best split: its temperature [K], step size [J/mol] and F test
+        (no unit; the units of its fields are in the docstring of
+        :class:`EnthalpyStep`).
 
-    With `groups` (a label per point, e.g. its source) the base model gives
-    each group a level of its own: two series that agree in slope but not
-    in level — a question for the comparison of sources — then make no
-    step, while a series whose slope differs from the others' still does.
+        With `groups` (a label per point, e.g. its source) the base model gives
+        each group a level of its own: two series that agree in slope but not
+        in level — a question for the comparison of sources — then make no
+        step, while a series whose slope differs from the others' still does.
 
     Notes
     -----

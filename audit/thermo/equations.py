@@ -199,7 +199,14 @@ class VaporPressureEquation:
         return len(self.parameter_names)
 
     def fixed_parameters(self) -> dict:
-        """The quantities held fixed when fitting (keyword arguments of the form)."""
+        """The quantities held fixed when fitting (keyword arguments of the form).
+
+        Returns
+        -------
+        dict
+            Name to value, each in the unit the form's constructor takes
+            (no unit as a whole; e.g. [K] for Tc, [Pa] for Pc).
+        """
         return {f.name: getattr(self, f.name) for f in fields(self)
                 if f.init and f.name not in self.parameter_names}
 
@@ -215,7 +222,9 @@ class VaporPressureEquation:
         Returns
         -------
         VaporPressureEquation
-            Same form and fixed quantities, new parameters.
+            Same form and fixed quantities, new parameters (no unit; the units
+            of its fields are in the docstring of
+            :class:`VaporPressureEquation`).
         """
         vector = np.asarray(vector, dtype=float).ravel()
         if vector.size != self.n_params:
@@ -223,7 +232,15 @@ class VaporPressureEquation:
         return replace(self, **{n: float(v) for n, v in zip(self.parameter_names, vector)})
 
     def to_dict(self) -> dict:
-        """JSON-ready description: form, parameters with units, fixed quantities."""
+        """JSON-ready description: form, parameters with units, fixed quantities.
+
+        Returns
+        -------
+        dict
+            ``form`` (the class name), ``parameters`` (name to value, each in
+            the unit given under ``units``), ``units`` (name to unit label) and
+            ``fixed`` (as :meth:`fixed_parameters`).
+        """
         return {
             "form": type(self).__name__,
             "parameters": {n: float(getattr(self, n)) for n in self.parameter_names},
@@ -367,11 +384,20 @@ class ClausiusClapeyron2(VaporPressureEquation):
         Returns
         -------
         ClausiusClapeyron2
+            The equation with these coefficients (no unit; the units of its
+            fields are in the docstring of :class:`ClausiusClapeyron2`).
         """
         a, b = np.asarray(vector, dtype=float)
         return cls(A=float(a), B=float(b))
 
     def describe(self) -> str:
+        """The equation and the meaning of its parameters.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         return (f"ln(P/Pa) = A + B/T with A = {self.A:.6g} (ln P at 1/T -> 0) and "
                 f"B = {self.B:.6g} K (= -ΔH/R: constant apparent enthalpy "
                 f"{-R * self.B / 1000:.4g} kJ/mol)")
@@ -391,7 +417,7 @@ class ClausiusClapeyron3(VaporPressureEquation):
     B : float
         [K]; -B R is the (extrapolated) enthalpy at T = 0.
     C : float
-        [1]; ΔCp/R (negative for evaporation of ordinary liquids).
+        [-]; ΔCp/R (negative for evaporation of ordinary liquids).
 
     References
     ----------
@@ -465,11 +491,20 @@ class ClausiusClapeyron3(VaporPressureEquation):
         Returns
         -------
         ClausiusClapeyron3
+            The equation with these coefficients (no unit; the units of its
+            fields are in the docstring of :class:`ClausiusClapeyron3`).
         """
         a, b, c = np.asarray(vector, dtype=float)
         return cls(A=float(a), B=float(b), C=float(c))
 
     def describe(self) -> str:
+        """The equation and the meaning of its parameters.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         return (f"ln(P/Pa) = A + B/T + C ln(T/K) with A = {self.A:.6g}, B = {self.B:.6g} K, "
                 f"C = {self.C:.6g} (= ΔCp/R: constant ΔCp = {R * self.C:.4g} J/(mol K); "
                 f"ΔH(T) = R(C T - B))")
@@ -605,6 +640,13 @@ class Antoine(VaporPressureEquation):
                                P_unit or self.P_unit, self.T_unit, T_unit or self.T_unit)
 
     def describe(self) -> str:
+        """The equation and the meaning of its parameters.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         lg = "log10" if self.base == "log10" else "ln"
         return (f"{lg}(P/{self.P_unit}) = A - B/(T/{self.T_unit} + C) with A = {self.A:.6g}, "
                 f"B = {self.B:.6g} {self.T_unit} (sets the enthalpy scale), "
@@ -631,7 +673,8 @@ def antoine_convert(params, from_base: str, to_base: str, from_P_unit: str, to_P
     Returns
     -------
     Antoine
-        The same curve, constants for the new base and units.
+        The same curve, constants for the new base and units (no unit; the
+        units of its fields are in the docstring of :class:`Antoine`).
 
     Notes
     -----
@@ -725,6 +768,13 @@ class ClarkeGlew(VaporPressureEquation):
         return self._all_units[: self.n_terms]
 
     def fixed_parameters(self) -> dict:
+        """The quantities held fixed when fitting (keyword arguments of the form).
+
+        Returns
+        -------
+        dict
+            Name to value: ``theta`` [K], ``p_ref`` [Pa] and ``n_terms`` (a count).
+        """
         return {"theta": self.theta, "p_ref": self.p_ref, "n_terms": self.n_terms}
 
     def _basis(self, T):
@@ -786,6 +836,8 @@ class ClarkeGlew(VaporPressureEquation):
         Returns
         -------
         ClarkeGlew
+            The equation with these coefficients (no unit; the units of its
+            fields are in the docstring of :class:`ClarkeGlew`).
         """
         v = [float(x) for x in np.asarray(vector, dtype=float).ravel()]
         n = len(v) if n_terms is None else int(n_terms)
@@ -819,6 +871,13 @@ class ClarkeGlew(VaporPressureEquation):
         return d / R
 
     def describe(self) -> str:
+        """The equation and the meaning of its parameters.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         s = (f"Clarke-Glew expansion about θ = {self.theta:.6g} K, p° = {self.p_ref:.6g} Pa: "
              f"ΔG°(θ) = {self.dG:.6g} J/mol, ΔH(θ) = {self.dH:.6g} J/mol")
         if self.n_terms >= 3:
@@ -879,7 +938,7 @@ class Wagner(VaporPressureEquation):
     Parameters
     ----------
     a, b, c, d : float
-        Coefficients [1].
+        Coefficients [-].
     Tc : float
         Critical temperature [K] (held fixed when fitting).
     Pc : float
@@ -977,11 +1036,20 @@ class Wagner(VaporPressureEquation):
         Returns
         -------
         Wagner
+            The equation with these coefficients (no unit; the units of its
+            fields are in the docstring of :class:`Wagner`).
         """
         a, b, c, d = (float(x) for x in np.asarray(vector, dtype=float).ravel())
         return cls(a=a, b=b, c=c, d=d, Tc=float(Tc), Pc=float(Pc), variant=variant)
 
     def describe(self) -> str:
+        """The equation and the meaning of its parameters.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         e = self.exponents
         return (f"Wagner {self.variant}: ln(p/pc) = (a τ + b τ^{e[1]:g} + c τ^{e[2]:g} + d τ^{e[3]:g})/Tr, "
                 f"τ = 1 - T/Tc, Tc = {self.Tc:.6g} K, pc = {self.Pc:.6g} Pa; a = {self.a:.6g} "
@@ -1013,7 +1081,7 @@ def get_form(form) -> type:
     Returns
     -------
     type
-        The equation class.
+        The equation class (no unit).
 
     Examples
     --------

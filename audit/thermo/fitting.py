@@ -174,6 +174,13 @@ class VaporPressureFit:
         return self.weights > 0
 
     def summary(self) -> str:
+        """The fit: range, equation, parameters with standard errors, quality.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         lines = [f"{self.form_name} fit of {self.n_used} of {self.T.size} points, "
                  f"T = {self.T_range[0]:.6g}-{self.T_range[1]:.6g} K",
                  f"  {self.equation.describe()}"]
@@ -194,6 +201,15 @@ class VaporPressureFit:
         return "\n".join(lines)
 
     def to_dict(self) -> dict:
+        """JSON-ready description of the fit.
+
+        Returns
+        -------
+        dict
+            Field name to value (no unit as a whole): the equation as in
+            :meth:`VaporPressureEquation.to_dict`, standard errors and covariance
+            in the units of the parameters, and the fit's statistics.
+        """
         return {
             "equation": self.equation.to_dict(),
             "standard_errors": dict(zip(self.parameter_names, map(float, self.standard_errors))),
@@ -611,6 +627,13 @@ class EquationChoice:
         raise KeyError(name)
 
     def summary(self) -> str:
+        """The chosen form and, per candidate, its AICc, BIC and verdict.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         lines = [f"chosen: {self.chosen_name} — {self.reason}"]
         for c in self.candidates:
             a = f"AICc {c.aicc:9.2f}  BIC {c.bic:9.2f}" if c.fit is not None else " " * 29

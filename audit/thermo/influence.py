@@ -55,29 +55,29 @@ class Influence:
     Attributes
     ----------
     leverage : ndarray
-        h_i for points in the fit; h*_i (prediction leverage) for points with
-        weight 0.
+        h_i [-] for points in the fit; h*_i (prediction leverage) for points
+        with weight 0.
     in_fit : ndarray of bool
         Points with weight > 0.
     scale : float
         s = √(Σ e²/(n − p)) [-] (the Birge ratio when σ are absolute).
     scale_loo : ndarray
-        s_(i), the scale without point i (equal to `scale` for points outside).
+        s_(i) [-], the scale without point i (equal to `scale` for points outside).
     standardized : ndarray
-        Internally studentized residuals e_i/(s √(1 − h_i)); prediction form
+        Internally studentized residuals e_i/(s √(1 − h_i)) [-]; prediction form
         for points outside the fit.
     studentized : ndarray
-        Externally studentized residuals t_i; prediction form
+        Externally studentized residuals t_i [-]; prediction form
         r_i/(σ_i s √(1 + h*_i)) for points outside.
     studentized_known_scale : ndarray
-        The same with the scale taken as 1 (σ_i are absolute standard
+        The same with the scale taken as 1 [-] (σ_i are absolute standard
         uncertainties): r_i/(σ_i √(1 − h_i)) or r_i/(σ_i √(1 + h*_i)).
     deletion_residuals : ndarray
         r_i/(1 − h_i) for points in the fit, r_i for points outside [y unit].
     cooks_distance : ndarray
-        D_i (0 for points outside the fit).
+        D_i [-] (0 for points outside the fit).
     n, p, dof : int
-        Points in the fit, parameters, n − p.
+        Points in the fit, parameters, n − p (counts).
     """
 
     leverage: np.ndarray
@@ -94,6 +94,13 @@ class Influence:
     dof: int
 
     def summary(self) -> str:
+        """The largest studentized residual, Cook's distance and leverage.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         i = int(np.argmax(np.abs(np.where(np.isfinite(self.studentized), self.studentized, 0))))
         j = int(np.argmax(self.cooks_distance))
         return (f"{self.n} points in fit, {self.p} parameters, s = {self.scale:.4g}; "
@@ -121,6 +128,8 @@ def influence_measures(jacobian, residuals, sigma=None, weights=None) -> Influen
     Returns
     -------
     Influence
+        Leverage, residuals and influence of each point (no unit; the units of
+        its fields are in the docstring of :class:`Influence`).
 
     Raises
     ------
@@ -230,8 +239,10 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     Returns
     -------
     GroupDeletion or None
-        None when the fit without the group is not determined (too few
-        points left, or a singular design).
+        The change of the fit when the group is left out (no unit; the units
+        of its fields are in the docstring of :class:`GroupDeletion`).  None
+        when the fit without the group is not determined (too few points
+        left, or a singular design).
 
     References
     ----------

@@ -26,7 +26,8 @@ def overlaps_others(T, mine, others) -> bool:
     Returns
     -------
     bool
-        False also when either group is empty.
+        Whether the group overlaps the others (a flag); False also when either
+        group is empty.
 
     Examples
     --------

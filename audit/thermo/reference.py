@@ -91,6 +91,13 @@ class WaterSaturationWagnerPruss(_ReferenceEquation):
         return reduced_power_series(T, self.Tc, self.coefficients, self.exponents)[2]
 
     def describe(self) -> str:
+        """The equation's name, source and range of validity.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         return ("saturation pressure of liquid water, Wagner & Pruss (1993) auxiliary equation "
                 f"of IAPWS-95, valid {self.T_min}-{self.T_max} K")
 
@@ -127,6 +134,13 @@ class IceSublimationIAPWS2011(_ReferenceEquation):
                    for a, b in zip(self.coefficients, self.exponents)) / self.Tt ** 2
 
     def describe(self) -> str:
+        """The equation's name, source and range of validity.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         return (f"sublimation pressure of ice Ih, IAPWS R14-08(2011), valid {self.T_min}-{self.T_max} K")
 
 
@@ -334,6 +348,8 @@ def reference_from_table(table: Mapping) -> TabulatedReference:
     Returns
     -------
     TabulatedReference
+        The reference curve through the table (no unit; the units of its fields
+        are in the docstring of :class:`TabulatedReference`).
 
     Raises
     ------

@@ -56,7 +56,7 @@ def replicate_groups(T_K, radius_K, u_T_K, k: float) -> list[np.ndarray]:
     Returns
     -------
     list of numpy.ndarray
-        Indices into `T_K` of each group (singletons included), groups in
+        Indices into `T_K` of each group [-] (singletons included), groups in
         order of temperature.
     """
     T = np.asarray(T_K, dtype=float)
@@ -139,7 +139,7 @@ def pooled_replicate_scale(values, groups) -> tuple[float, int]:
     scale : float
         σ estimate [unit of `values`]; ``nan`` when no group has two rows.
     n_differences : int
-        Number of within-group differences it rests on.
+        Number of within-group differences it rests on (a count).
     """
     d = replicate_differences(values, groups)
     return difference_scale(d), int(d.size)
@@ -190,6 +190,8 @@ def median_departures(values, sigma, half_digit) -> ReplicateDepartures:
     Returns
     -------
     ReplicateDepartures
+        The departure of each point from its group's median (no unit; the units
+        of its fields are in the docstring of :class:`ReplicateDepartures`).
     """
     x = np.asarray(values, dtype=float)
     s = np.asarray(sigma, dtype=float)

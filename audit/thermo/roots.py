@@ -36,7 +36,7 @@ def sign_change_brackets(f: Callable[[np.ndarray], np.ndarray], lo: float, hi: f
     Returns
     -------
     list of (float, float)
-        Neighbouring grid points (a, b) with finite f(a), f(b) of opposite
+        Neighbouring grid points (a, b) [K] with finite f(a), f(b) of opposite
         sign (or one of them exactly zero), in increasing order.
 
     Examples
@@ -85,6 +85,7 @@ def bracketed_root(f: Callable[[float], float], a: float, b: float, *, xtol: flo
     Returns
     -------
     float or None
+        The root [K]; None when no root passes the plausibility test.
 
     References
     ----------

@@ -51,10 +51,10 @@ class PrintedNumber:
     text : str
         The cell text as given.
     value : float
-        Its value (in the unit of the column).
+        Its value [unit of the column].
     last_digit_unit : float
-        Value of one unit in the last printed digit, δ (in the unit of the
-        column): 0.0001 for ``0.0002``, 1 for ``760``, 1e-4 for ``1.2e-3``.
+        Value of one unit in the last printed digit, δ [unit of the
+        column]: 0.0001 for ``0.0002``, 1 for ``760``, 1e-4 for ``1.2e-3``.
     normalized : str
         The text with a decimal point, no grouping characters: what the value
         was read from; digit positions refer to this string.
@@ -103,6 +103,8 @@ def parse_printed_number(text: str) -> PrintedNumber:
     Returns
     -------
     PrintedNumber
+        The value and its printed precision (no unit; the units of its fields
+        are in the docstring of :class:`PrintedNumber`).
 
     Raises
     ------

@@ -264,7 +264,16 @@ class SourceOffset:
 @dataclass(frozen=True)
 class SourceBiasAnalysis:
     """Result of :func:`source_offsets`: one entry per source analysed, and the
-    sources that could not be (too few points, or the others could not be fitted)."""
+    sources that could not be (too few points, or the others could not be fitted).
+
+    Attributes
+    ----------
+    offsets : tuple of SourceOffset
+        One per source analysed (no unit; the units of its fields are in the
+        docstring of :class:`SourceOffset`).
+    not_analysed : tuple of (str, str)
+        Name of each source not analysed, and why.
+    """
 
     offsets: tuple[SourceOffset, ...]
     not_analysed: tuple[tuple[str, str], ...] = ()
@@ -289,6 +298,13 @@ class SourceBiasAnalysis:
         return None
 
     def summary(self) -> str:
+        """A table of the offset of each source.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         lines = [f"{'source':20s} {'n':>3s} {'bias %':>8s} {'u %':>6s} {'ΔT/K':>7s} {'u/K':>6s} {'Δχ²':>7s}"]
         for o in self.offsets:
             lines.append(f"{o.source[:20]:20s} {o.n:3d} {o.bias_percent:8.3f} {o.u_bias_percent:6.3f} "
@@ -334,6 +350,8 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
     Returns
     -------
     SourceBiasAnalysis
+        The offset of each source (no unit; the units of its fields are in the
+        docstring of :class:`SourceBiasAnalysis`).
     """
     from .fitting import fit_equation
 

@@ -36,8 +36,9 @@ class CurvatureTest:
         'F' (scale estimated from residuals) or 'chi2' (uncertainties given:
         the χ² difference is referred to χ²(Δk)).
     statistic, p_value : float
+        Test statistic and its p-value [-].
     df : tuple of int
-        (Δk, residual dof) for F; (Δk,) for χ².
+        (Δk, residual dof) for F; (Δk,) for χ² (counts).
     dCp, u_dCp : float
         Apparent ΔCp of the richer fit at `T_ref` and its standard
         uncertainty [J/(mol K)].
@@ -54,6 +55,13 @@ class CurvatureTest:
     T_ref: float
 
     def summary(self) -> str:
+        """The test statistic, its p value and the implied ΔCp.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         return (f"curvature: {self.method} = {self.statistic:.4g} (df {self.df}), p = {self.p_value:.3g}; "
                 f"implied ΔCp = {self.dCp:.3g} ± {self.u_dCp:.2g} J/(mol K) at {self.T_ref:.5g} K")
 
@@ -70,6 +78,8 @@ def curvature_test(fit2, fit3) -> CurvatureTest:
     Returns
     -------
     CurvatureTest
+        The test statistic, p value and implied ΔCp (no unit; the units of its
+        fields are in the docstring of :class:`CurvatureTest`).
 
     Notes
     -----
@@ -106,15 +116,17 @@ class RunsTest:
     n_pos, n_neg, runs : int
         Numbers of positive and negative residuals (zeros dropped) and of runs.
     expected_runs : float
+        Expected number of runs for random signs [-].
     z : float
-        (runs - expected)/sd, no continuity correction.
+        (runs - expected)/sd [-], no continuity correction.
     p_value : float
-        Two-sided normal p-value.
+        Two-sided normal p-value [-].
     p_value_too_few : float
-        One-sided: too few runs (systematic misfit, e.g. unmodelled curvature).
+        One-sided [-]: too few runs (systematic misfit, e.g. unmodelled curvature).
     durbin_watson : float
-        Durbin-Watson statistic of the residuals (about 2 without serial correlation).
+        Durbin-Watson statistic of the residuals [-] (about 2 without serial correlation).
     longest_run : int
+        Number of points in the longest same-sign run (a count).
     longest_run_start, longest_run_stop : int
         Index range [start, stop) of the longest same-sign run in the input order.
     """
@@ -132,6 +144,13 @@ class RunsTest:
     longest_run_stop: int
 
     def summary(self) -> str:
+        """The runs count, its p values and the Durbin-Watson statistic.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         return (f"{self.runs} runs of signs (expected {self.expected_runs:.1f}; z = {self.z:.2f}, "
                 f"p = {self.p_value:.3g}, too few: p = {self.p_value_too_few:.3g}); "
                 f"Durbin-Watson {self.durbin_watson:.2f}; longest run {self.longest_run} points "
@@ -150,6 +169,8 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
     Returns
     -------
     RunsTest
+        The runs test and Durbin-Watson statistic (no unit; the units of its
+        fields are in the docstring of :class:`RunsTest`).
 
     Notes
     -----
@@ -216,7 +237,18 @@ def mad_scale(x) -> float:
 
 @dataclass(frozen=True)
 class RepeatedMedianLine:
-    """Result of :func:`repeated_median_line`: y ≈ intercept + slope·x."""
+    """Result of :func:`repeated_median_line`: y ≈ intercept + slope·x.
+
+    Attributes
+    ----------
+    intercept : float
+        Intercept [unit of y].
+    slope : float
+        Slope [unit of y / unit of x].
+    residuals : ndarray
+        y − (intercept + slope·x) of each input pair [unit of y]; not finite
+        for pairs left out.
+    """
 
     intercept: float
     slope: float
@@ -252,8 +284,12 @@ def repeated_median_line(x, y, *, chunk_rows: int | None = None) -> RepeatedMedi
     Returns
     -------
     RepeatedMedianLine
+        Slope, intercept and residuals of the line (no unit; the units of its
+        fields are in the docstring of :class:`RepeatedMedianLine`).
 
-    Reference: A. F. Siegel, "Robust regression using repeated medians",
+    References
+    ----------
+    A. F. Siegel, "Robust regression using repeated medians",
     Biometrika 69, 242-244 (1982), doi:10.1093/biomet/69.1.242.
     """
     x = np.asarray(x, dtype=float).ravel()

@@ -44,7 +44,7 @@ class TriplePointEstimate:
         Enthalpies at the crossing [J/mol] (apparent × the Δz passed in),
         uncertainties by the delta method including the uncertainty of T.
     delta_z_solid, delta_z_liquid : float
-        Δz applied to each branch (1 = none).
+        Δz [-] applied to each branch (1 = none).
     crossed : bool
         False when the curves do not cross in the searched interval (then
         the numbers are NaN).
@@ -67,6 +67,13 @@ class TriplePointEstimate:
     message: str
 
     def summary(self) -> str:
+        """The crossing point and the three enthalpies, or why there is none.
+
+        Returns
+        -------
+        str
+            Text for display (no unit; the quantities in it carry their units).
+        """
         if not self.crossed:
             return f"no crossing: {self.message}"
         return (f"branches cross at T = {self.T:.4f} ± {self.u_T:.2g} K, P = {self.P:.6g} ± {self.u_P:.2g} Pa; "
@@ -113,6 +120,9 @@ def intersect_branches(fit_solid, fit_liquid, T_guess: float | None = None,
     Returns
     -------
     TriplePointEstimate
+        The crossing point of the branches and the enthalpies there (no unit;
+        the units of its fields are in the docstring of
+        :class:`TriplePointEstimate`).
 
     Notes
     -----
@@ -206,13 +216,13 @@ class SlopeBreak:
         Where the two lines cross if that lies between the neighbouring
         points, else the midpoint (in 1/T) between them [K].
     split : int
-        Number of T-sorted points on the low-temperature side.
+        Number of T-sorted points on the low-temperature side (a count).
     order : ndarray of int
-        Indices that sort the input by T.
+        Indices that sort the input by T [-].
     F, p_value : float
-        F statistic of two lines vs one (2 extra parameters) and its nominal p-value.
+        F statistic of two lines vs one (2 extra parameters) and its nominal p-value [-].
     p_value_adjusted : float
-        Bonferroni-adjusted over the `n_tested` split positions.
+        Bonferroni-adjusted over the `n_tested` split positions [-].
     slope_low, slope_high : float
         d ln P/d(1/T) of each side [K].
     dH_low, dH_high : float
@@ -221,6 +231,11 @@ class SlopeBreak:
         True when the low-temperature side is steeper, as for a solid below
         its triple point.
     n_tested : int
+        Number of split positions tested (a count).
+    gap_lnP, u_gap_lnP : float
+        ln P of the high-T line minus the low-T line at the split (midpoint
+        in 1/T), and its standard uncertainty from the two lines' scatter
+        [-] (differences of ln P): a phase change keeps P continuous.
     """
 
     T_break: float
@@ -266,6 +281,8 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     Returns
     -------
     SlopeBreak
+        The best break in slope along one series (no unit; the units of its
+        fields are in the docstring of :class:`SlopeBreak`).
 
     Notes
     -----

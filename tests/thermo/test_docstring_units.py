@@ -30,21 +30,35 @@ instead say what it is with one of the whole words ``callable``, ``name``,
 ``no unit`` (for objects such as a fit or an equation).  The words are matched case-insensitively
 anywhere in the entry's text, so "labels of each point's source" or "number
 of points (a count)" pass, while an entry that only says "Temperatures" fails.
+
+*Returns.*  The same unit rule holds for the entries of the ``Returns``
+section (a ``Returns`` line underlined with dashes; each entry is a line
+``name : type`` or a bare ``type`` at the section's indent, plus the
+more-indented lines below it).  It applies to every covered public callable
+(with or without arguments) that returns something: one whose return
+annotation is not ``None`` and whose own body (nested functions and classes
+excluded) has at least one ``return <value>`` statement.  Such a callable
+must have a ``Returns`` section with at least one entry, and every entry
+needs a unit in brackets or a declared exception; a returned object (a fit,
+an equation, a result dataclass) says ``no unit`` and documents its fields'
+units in its own class docstring.
 """
 
 from __future__ import annotations
 
 import importlib
 import inspect
+import ast
 import pkgutil
 import re
+import textwrap
 
 import pytest
 
 PACKAGES = ("audit.thermo", "audit.consensus")
 
 UNIT = re.compile(r"\[(?P<body>[^\[\]\n]+)\](?!_)")
-EXEMPT = re.compile(r"\b(callables?|names?|flags?|counts?|labels?)\b|\bno unit\b", re.IGNORECASE)
+EXEMPT = re.compile(r"\b(callables?|names?|flags?|counts?|labels?)\b|\bno\s+unit\b", re.IGNORECASE)
 SKIP_ARGS = {"self", "cls"}
 
 
@@ -85,31 +99,23 @@ def _arguments(func) -> list[str]:
             and p.kind not in (inspect.Parameter.VAR_POSITIONAL, inspect.Parameter.VAR_KEYWORD)]
 
 
-def parse_parameters(doc: str | None) -> dict[str, str] | None:
-    """Map each name in the numpydoc Parameters section to its entry's text.
+def _section_entries(doc: str | None, header: str) -> list[tuple[str, str]] | None:
+    """(entry head line, entry text) for each entry of a numpydoc section.
 
-    Returns None when there is no Parameters section.  ``*args``/``**kw``
-    entries are stored without their stars.
+    Returns None when the docstring has no ``header`` section.
     """
     if not doc:
         return None
     lines = inspect.cleandoc(doc).splitlines()
     start = None
     for i in range(len(lines) - 1):
-        if lines[i].strip() == "Parameters" and set(lines[i + 1].strip()) == {"-"}:
+        if lines[i].strip() == header and set(lines[i + 1].strip()) == {"-"}:
             start = i + 2
             break
     if start is None:
         return None
     base = len(lines[start - 2]) - len(lines[start - 2].lstrip())
-    entries: dict[str, str] = {}
-    current: list[str] = []
-    names: list[str] = []
-
-    def flush():
-        for n in names:
-            entries[n] = "\n".join(current)
-
+    entries: list[tuple[str, list[str]]] = []
     for j in range(start, len(lines)):
         line = lines[j]
         indent = len(line) - len(line.lstrip())
@@ -118,14 +124,67 @@ def parse_parameters(doc: str | None) -> dict[str, str] | None:
                 and set(lines[j + 1].strip()) == {"-"}):
             break
         if line.strip() and indent <= base:
-            flush()
-            head = line.strip().split(" : ", 1)[0].rstrip(":")
-            names = [n.strip().lstrip("*") for n in head.split(",") if n.strip()]
-            current = [line.strip()]
-        elif names:
-            current.append(line.strip())
-    flush()
+            entries.append((line.strip(), [line.strip()]))
+        elif entries:
+            entries[-1][1].append(line.strip())
+    return [(head, "\n".join(text)) for head, text in entries]
+
+
+def parse_parameters(doc: str | None) -> dict[str, str] | None:
+    """Map each name in the numpydoc Parameters section to its entry's text.
+
+    Returns None when there is no Parameters section.  ``*args``/``**kw``
+    entries are stored without their stars.
+    """
+    found = _section_entries(doc, "Parameters")
+    if found is None:
+        return None
+    entries: dict[str, str] = {}
+    for head, text in found:
+        head = head.split(" : ", 1)[0].rstrip(":")
+        for n in head.split(","):
+            if n.strip():
+                entries[n.strip().lstrip("*")] = text
     return entries
+
+
+def parse_returns(doc: str | None) -> list[str] | None:
+    """The text of each entry of the numpydoc Returns section, in order.
+
+    Returns None when there is no Returns section.
+    """
+    found = _section_entries(doc, "Returns")
+    return None if found is None else [text for _, text in found]
+
+
+class _ReturnFinder(ast.NodeVisitor):
+    """Finds ``return <value>`` in a function's own body (not in nested scopes)."""
+
+    def __init__(self):
+        self.found = False
+
+    def visit_Return(self, node):
+        if node.value is not None:
+            self.found = True
+
+    def _skip(self, node):
+        pass
+
+    visit_FunctionDef = visit_AsyncFunctionDef = visit_Lambda = visit_ClassDef = _skip
+
+
+def returns_a_value(func) -> bool:
+    """True when ``func`` is not annotated ``-> None`` and has a ``return <value>``."""
+    func = inspect.unwrap(func)
+    ann = inspect.signature(func).return_annotation
+    if ann is None or ann == "None":
+        return False
+    tree = ast.parse(textwrap.dedent(inspect.getsource(func)))
+    node = tree.body[0]
+    finder = _ReturnFinder()
+    for stmt in node.body:
+        finder.visit(stmt)
+    return finder.found
 
 
 def has_unit_or_exemption(text: str) -> bool:
@@ -158,6 +217,24 @@ def test_every_argument_is_documented_with_its_unit(qualname, func):
     assert not unitless, (f"{qualname}: no unit in brackets (or declared non-quantity) for {unitless}")
 
 
+RETURNING = [c for c in CALLABLES if returns_a_value(c[1])]
+
+
+def test_the_walk_finds_callables_that_return():
+    names = {q for q, _ in RETURNING}
+    assert "audit.thermo.fitting.fit_equation" in names
+    assert len(RETURNING) > 40
+
+
+@pytest.mark.parametrize("qualname,func", RETURNING, ids=[q for q, _ in RETURNING])
+def test_every_returned_value_is_documented_with_its_unit(qualname, func):
+    entries = parse_returns(inspect.getdoc(func))
+    assert entries, f"{qualname} returns a value but has no numpydoc Returns section"
+    unitless = [e.splitlines()[0] for e in entries if not has_unit_or_exemption(e)]
+    assert not unitless, (f"{qualname}: Returns entries with no unit in brackets "
+                          f"(or declared non-quantity): {unitless}")
+
+
 # -- the checker itself must be able to fail ------------------------------------------
 def _doc(body: str) -> str:
     return "Summary.\n\nParameters\n----------\n" + body + "\nReturns\n-------\nfloat\n    Value [Pa].\n"
@@ -183,3 +260,34 @@ def test_checker_reads_shared_entries_and_stops_at_the_next_section():
 
 def test_checker_sees_a_missing_parameters_section():
     assert parse_parameters("Just a summary.") is None
+
+
+def test_returns_checker_rejects_a_missing_unit():
+    doc = ("Summary.\n\nReturns\n-------\nT : ndarray\n    Temperatures.\n"
+           "P : ndarray\n    Pressures [Pa].\nfit : Fit\n    The fit (no unit).\n\nNotes\n-----\nx [K]\n")
+    entries = parse_returns(doc)
+    assert len(entries) == 3
+    assert [has_unit_or_exemption(e) for e in entries] == [False, True, True]
+    assert parse_returns("Just a summary.") is None
+
+
+def _returns_value(x) -> float:
+    def inner():
+        return 1.0
+    return x
+
+
+def _returns_nothing(x):
+    def inner():
+        return 1.0
+    inner()
+
+
+def _annotated_none(x) -> None:
+    return print(x)
+
+
+def test_returns_rule_selects_callables_that_return_a_value():
+    assert returns_a_value(_returns_value)
+    assert not returns_a_value(_returns_nothing)
+    assert not returns_a_value(_annotated_none)

@@ -378,6 +378,12 @@ class AuditResult:
         lines += [f"  source '{s.source}' {s.status}: {_source_text(s)}" for s in self.sources if s.status != "ok"]
         return "\n".join(lines)
 
+    def summary_html(self, max_rows: int = 25) -> str:
+        """:meth:`summary` as an HTML fragment (escaped text in a ``<pre>``), for a report page."""
+        from html import escape
+
+        return f'<pre class="audit-summary">{escape(self.summary(max_rows))}</pre>'
+
     @property
     def usable_points(self) -> list[PointVerdict]:
         return [p for p in self.points if p.status in ("ok", "suspect")]

@@ -414,6 +414,7 @@ def report_context(result: AuditResult, *, plots=None, for_print: bool = False) 
         "sources_named": bool(ds.sources),
         "plots": [{"p": p, "svg": Markup(p.svg) if p.svg else None} for p in plots],
         "caution": CAUTION,
+        "summary_html": Markup(result.summary_html()),
         "severity_text": {"fail": "fix", "warn": "check", "note": "look"},
         "status_rank": _STATUS_ORDER,
         "status_text": STATUS_TEXT,

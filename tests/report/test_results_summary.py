@@ -29,3 +29,11 @@ def test_a_sheets_summary_says_what_it_states_and_what_it_is(demo_sheet_result):
     text = demo_sheet_result.summary()
     assert "  stated:  gives log10, T in degC, P in kPa" in text
     assert "  decoded: log10(P/mmHg) with T in °C (reference)  <- not as stated" in text
+
+
+def test_summary_html_is_the_escaped_text_and_the_report_shows_it(hostile_result):
+    from audit.report.html import render_html
+
+    fragment = hostile_result.summary_html()
+    assert fragment.startswith('<pre class="audit-summary">') and "<script>" not in fragment
+    assert fragment in render_html(hostile_result)

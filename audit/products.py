@@ -18,6 +18,7 @@ import numpy as np
 
 from .context import AuditContext
 from .results import EnthalpyValue, FitRecord, SourceAgreement, TriplePointRecord
+from .values import finite_or_none
 
 
 @dataclass(frozen=True)
@@ -75,7 +76,7 @@ def gather_products(ctx: AuditContext) -> AuditProducts:
         for i, T in enumerate(data.T):
             enthalpy.append(EnthalpyValue(
                 branch=branch, T_K=float(T), dH_J_per_mol=float(h.dH[i]),
-                u_dH_J_per_mol=_finite(h.u_dH[i]), real_gas_corrected=corrected,
+                u_dH_J_per_mol=finite_or_none(h.u_dH[i]), real_gas_corrected=corrected,
                 dH_apparent_J_per_mol=float(h.dH_apparent[i]), delta_z=float(h.delta_z[i])))
         table.extend(_enthalpy_at_chosen_temperatures(ctx, branch, record.T_range_K))
     return AuditProducts(
@@ -147,7 +148,7 @@ def _enthalpy_at_chosen_temperatures(ctx: AuditContext, branch: str, T_range) ->
     if h is None:
         return []
     return [EnthalpyValue(branch=branch, T_K=float(T), dH_J_per_mol=float(h.dH[i]),
-                          u_dH_J_per_mol=_finite(h.u_dH[i]), real_gas_corrected=corrected,
+                          u_dH_J_per_mol=finite_or_none(h.u_dH[i]), real_gas_corrected=corrected,
                           dH_apparent_J_per_mol=float(h.dH_apparent[i]), delta_z=float(h.delta_z[i]),
                           at=marks[float(T)])
             for i, T in enumerate(Ts)]
@@ -240,6 +241,3 @@ def _source_cause_reason(c) -> str | None:
     return None
 
 
-def _finite(x) -> float | None:
-    x = float(x)
-    return x if math.isfinite(x) else None

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 
-__all__ = ["all_finite"]
+__all__ = ["all_finite", "finite_or_none"]
 
 
 def all_finite(*values) -> bool:
@@ -22,3 +22,13 @@ def all_finite(*values) -> bool:
         except OverflowError:  # an int beyond a float's range
             return False
     return True
+
+
+def finite_or_none(x) -> float | None:
+    """``x`` as a float when it is finite, else None (how findings.json writes a missing number).
+
+    >>> finite_or_none(2), finite_or_none(float("inf"))
+    (2.0, None)
+    """
+    x = float(x)
+    return x if math.isfinite(x) else None

@@ -192,7 +192,7 @@ def _plain(text: Any, limit: int = 40) -> str:
     return s if len(s) <= limit else s[: limit - 1] + "…"
 
 
-def _num(v: float, signed: bool = False) -> str:
+def _number_text(v: float, signed: bool = False) -> str:
     """``v`` to 3 significant figures with a true minus sign; only called on finite values."""
     return f"{v:{'+' if signed else ''}.3g}".replace("-", "−")
 
@@ -773,8 +773,8 @@ def plot_clapeyron(result: AuditResult) -> RenderedPlot:
     _draw_frame(ax, frame, {
         "above": f"▲ {{n}} above p = {pressure_text(math.exp(box.y1), 3)}",
         "below": f"▼ {{n}} below p = {pressure_text(math.exp(box.y0), 3)}",
-        "left": f"▲ {{n}} above T = {_num(1000.0 / box.x0)} K",
-        "right": f"▼ {{n}} below T = {_num(1000.0 / box.x1)} K"})
+        "left": f"▲ {{n}} above T = {_number_text(1000.0 / box.x0)} K",
+        "right": f"▼ {{n}} below T = {_number_text(1000.0 / box.x1)} K"})
     left_out = _annotate_rows(ax, [(x, y, m.row) for m, x, y in inside if m.flagged])
     ax.set_xlabel("1000 K / T")
     ax.set_ylabel("ln(p/Pa)")
@@ -844,8 +844,8 @@ def _offset_text(offset: float) -> str:
     """'+20 %', or as a factor ('×100') beyond a doubling or a halving, where
     per cent no longer read well."""
     if offset >= 100 or offset <= -50:
-        return f"×{_num(1 + offset / 100)}"
-    return f"{_num(offset, True)} %"
+        return f"×{_number_text(1 + offset / 100)}"
+    return f"{_number_text(offset, True)} %"
 
 
 def _deviation_limit(marks: Sequence[_Mark],
@@ -933,10 +933,10 @@ def plot_deviation(result: AuditResult) -> RenderedPlot:
             ref_note += f" ({n_ref - len(ref_in)} beyond the axis not drawn)"
     _scatter_marks(ax, [(m, x, y) for m, x, y, _ in frame.placed], styles)
     _draw_frame(ax, frame, {
-        "above": f"▲ {{n}} above {_num(box.y1, True)} %",
-        "below": f"▼ {{n}} below {_num(box.y0, True)} %",
-        "left": f"▲ {{n}} below T = {_num(box.x0)} K",
-        "right": f"▼ {{n}} above T = {_num(box.x1)} K"})
+        "above": f"▲ {{n}} above {_number_text(box.y1, True)} %",
+        "below": f"▼ {{n}} below {_number_text(box.y0, True)} %",
+        "left": f"▲ {{n}} below T = {_number_text(box.x0)} K",
+        "right": f"▼ {{n}} above T = {_number_text(box.x1)} K"})
     left_out = _annotate_rows(ax, [(x, y, m.row) for m, x, y in inside if m.flagged])
     ax.set_xlabel("T / K")
     ax.set_ylabel("100·(p − p_fit)/p_fit")
@@ -1061,7 +1061,7 @@ def plot_triple_point(result: AuditResult) -> RenderedPlot:
     # enthalpy, twice as tall as that one
     ax.legend(loc="best", frameon=True, framealpha=0.9)
     return RenderedPlot(key, title, _to_svg(fig, key),
-                        f"±{_num(half)} K around the estimated triple point; points drawn as in "
+                        f"±{_number_text(half)} K around the estimated triple point; points drawn as in "
                         "the Clausius–Clapeyron plot; grey: a fit extrapolated beyond its data")
 
 

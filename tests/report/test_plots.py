@@ -204,7 +204,7 @@ def test_a_source_far_off_does_not_squash_the_others(offset_result):
     # the 20 % source and the decimal-shifted row 4 are in the upper strip: counted,
     # listed in the caption, not labelled one by one
     beyond = len(far_rows) + 1
-    assert f"▲ {beyond} points above +{plots._num(limit)} %" in _texts(fig.svg)
+    assert f"▲ {beyond} points above +{plots._number_text(limit)} %" in _texts(fig.svg)
     listed = re.search(r"(\d+) points beyond the axis, drawn without labels in the shaded upper "
                        r"strip: rows ([\d, ]+)", fig.note)
     assert listed and int(listed.group(1)) == beyond

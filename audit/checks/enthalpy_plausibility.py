@@ -61,7 +61,7 @@ class EnthalpyPlausibility(Check):
               "allow) at Tb, compared with Trouton's band; ΔH_sub vs ΔH_vap at the junction of the "
               "branches; calorimetric ΔH compared within combined standard uncertainty.")
     references = (
-        "F. Trouton, Phil. Mag. 18, 54 (1884), doi:10.1080/14786448408627563 — Trouton's rule.",
+        "F. Trouton, Phil. Mag. 18, 54 (1884) — Trouton's rule.",
         "M. Růžička, V. Majer, J. Phys. Chem. Ref. Data 23, 1 (1994), doi:10.1063/1.555942 — "
         "consistency of vapor pressures with calorimetric enthalpies.",
     )

@@ -224,12 +224,9 @@ CONSOLE_ROWS = 25
 
 def _record(url: str, result, written, input_path, metadata) -> None:
     """Record an audit, its outputs (absolute paths) and its input in the archive at ``url``."""
-    from .archive import metadata_file_for, open_archive
+    from .archive import record_audit
 
-    with open_archive(url) as archive:
-        audit_id = archive.record(result, outputs={f: Path(p).resolve() for f, p in written.items()},
-                                  input_path=Path(input_path).resolve(),
-                                  metadata_path=metadata_file_for(input_path, metadata))
+    audit_id = record_audit(url, result, written, input_path, metadata)
     print(f"  archived as audit #{audit_id} in {url}")
 
 

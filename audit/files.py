@@ -7,26 +7,34 @@ from __future__ import annotations
 __all__ = ["audit_file", "audit_sheet_file"]
 
 
-def audit_file(data: str, *, profile: str = "default", overrides=None, metadata: str | None = None,
+def _profile(profile):
+    """A profile given by name or path is read; a resolved one (a batch worker's) is used as is."""
+    from .profiles import Profile, load_profile
+
+    return profile if isinstance(profile, Profile) else load_profile(profile)
+
+
+def audit_file(data: str, *, profile="default", overrides=None, metadata: str | None = None,
                substance: str | None = None, audited_at: str | None = None):
-    """Read, enrich and audit one file; return (dataset, profile, result)."""
+    """Read, enrich and audit one file; return (dataset, profile, result).
+
+    ``profile`` is a profile's name or path, or a resolved :class:`~audit.profiles.Profile`.
+    """
     from .ingest import read_table
     from .pipeline import run_audit
-    from .profiles import load_profile
     from .substances import with_library_constants
 
-    prof = load_profile(profile)
+    prof = _profile(profile)
     dataset = read_table(data, overrides, metadata_path=metadata, row_limit=prof.row_limit)
     dataset = with_library_constants(dataset, substance)
     return dataset, prof, run_audit(dataset, prof, audited_at=audited_at)
 
 
-def audit_sheet_file(path: str, *, profile: str = "default", audited_at: str | None = None):
-    """Read and check one sheet file; return (sheet, profile, result)."""
-    from .profiles import load_profile
+def audit_sheet_file(path: str, *, profile="default", audited_at: str | None = None):
+    """Read and check one sheet file; return (sheet, profile, result) (``profile`` as for audit_file)."""
     from .sheet.read import read_sheet
     from .sheet.run import run_sheet_audit
 
-    prof = load_profile(profile)
+    prof = _profile(profile)
     sheet = read_sheet(path)
     return sheet, prof, run_sheet_audit(sheet, prof, audited_at=audited_at)

@@ -28,7 +28,7 @@ from __future__ import annotations
 
 import os
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Mapping
 
 from .compare import AuditComparison
 from .records import ArchivedAudit, ArchivedCheck, ArchivedFile, FileCheck, VerifyReport
@@ -46,6 +46,7 @@ __all__ = [
     "VerifyReport",
     "metadata_file_for",
     "open_archive",
+    "record_audit",
 ]
 
 
@@ -88,6 +89,30 @@ def metadata_file_for(input_path: str | os.PathLike, metadata: str | os.PathLike
     from ..ingest.table import _sibling_metadata
 
     return _sibling_metadata(input_path)
+
+
+def record_audit(url_or_path: str, result, written: Mapping[str, os.PathLike], input_path: str | os.PathLike,
+                 metadata: str | os.PathLike | None = None) -> int:
+    """Record one audit with its outputs and input (absolute paths) and the metadata file it
+    read; return its id.  The one way the CLI and batch workers archive an audit (each worker
+    opens the archive itself: a connection must not cross a fork).
+
+    Parameters
+    ----------
+    url_or_path : str
+        The archive (as for :func:`open_archive`; created when missing).
+    result : AuditResult
+    written : mapping of str to path-like
+        Output format → file written.
+    input_path : path-like
+        The audited file.
+    metadata : path-like, optional
+        The metadata file given explicitly; default the input's sibling ``.toml``.
+    """
+    with open_archive(url_or_path) as archive:
+        return archive.record(result, outputs={f: Path(p).resolve() for f, p in written.items()},
+                              input_path=Path(input_path).resolve(),
+                              metadata_path=metadata_file_for(input_path, metadata))
 
 
 def __getattr__(name: str):

@@ -97,20 +97,13 @@ def _worst_check(result) -> str | None:
 
 
 def _audit(job: Job, profile):
+    from ..files import audit_file, audit_sheet_file
+    from ..ingest import ColumnOverrides
+
     if job.kind == "sheet":
-        from ..sheet.read import read_sheet
-        from ..sheet.run import run_sheet_audit
-
-        return run_sheet_audit(read_sheet(job.path), profile, audited_at=None)
-    from ..ingest import ColumnOverrides, read_table
-    from ..pipeline import run_audit
-    from ..substances import with_library_constants
-
+        return audit_sheet_file(job.path, profile=profile)[2]
     overrides = ColumnOverrides(sheet=job.worksheet) if job.worksheet else None
-    dataset = read_table(job.path, overrides, row_limit=profile.row_limit)
-    if job.substance:
-        dataset = with_library_constants(dataset, job.substance)
-    return run_audit(dataset, profile)
+    return audit_file(job.path, profile=profile, overrides=overrides, substance=job.substance)[2]
 
 
 def run_job(job: Job, settings: BatchSettings) -> Outcome:
@@ -136,13 +129,9 @@ def run_job(job: Job, settings: BatchSettings) -> Outcome:
         written = write_outputs(result, out, settings.formats, input_bytes=Path(job.path).read_bytes())
         archive_id = None
         if settings.archive:
-            from ..archive import metadata_file_for, open_archive
+            from ..archive import record_audit
 
-            # each worker opens the archive itself: a connection must not cross a fork
-            with open_archive(settings.archive) as archive:
-                archive_id = archive.record(result, outputs={f: Path(p).resolve() for f, p in written.items()},
-                                            input_path=Path(job.path).resolve(),
-                                            metadata_path=None if job.kind == "sheet" else metadata_file_for(job.path))
+            archive_id = record_audit(settings.archive, result, written, job.path)
         report = written.get("html") or written.get("pdf") or written.get("json")
         return Outcome(
             name=job.name, path=job.path, kind=job.kind, verdict=result.verdict, n_rows=len(result.points),

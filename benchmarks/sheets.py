@@ -65,14 +65,9 @@ def _sheet_text(cas, A, B, C, stated, T_range, table):
     return "\n".join(lines) + "\n"
 
 
-def _same_size(a: str, b: str) -> bool:
-    from audit.units import pascal_per
-
-    return abs(pascal_per(a) / pascal_per(b) - 1) < 1e-4
-
-
 def make_case(row, cas, rng, kind):
     """(sheet text, true reading, stated reading) for one published set."""
+    from audit.sheet.decode import same_pressure_unit
     from audit.thermo.equations import Antoine
     from audit.units import kelvin_affine, pascal_per
 
@@ -88,7 +83,7 @@ def make_case(row, cas, rng, kind):
             n_wrong = int(rng.integers(1, 4))
             for part in rng.choice(3, size=n_wrong, replace=False):
                 stated[part] = str(rng.choice((BASES, TEMPERATURE_UNITS, PRESSURE_UNITS)[part]))
-            if not (stated[0] == true[0] and stated[1] == true[1] and _same_size(stated[2], true[2])):
+            if not (stated[0] == true[0] and stated[1] == true[1] and same_pressure_unit(stated[2], true[2])):
                 break
     else:
         stated = list(true)

@@ -32,6 +32,7 @@ from typing import Mapping
 
 import numpy as np
 
+from ..diagnose.units import pressure_units_of_size
 from ..thermo.equations import ln_p_where_defined
 from ..units import PRESSURE_UNITS, kelvin_affine, pascal_per
 from .model import Sheet, StatedReading
@@ -49,12 +50,17 @@ TEMPERATURE_UNITS = ("K", "degC", "degF")
 ANTOINE_C_RANGE = {"K": (-150.0, 10.0), "degC": (100.0, 400.0), "degF": (150.0, 750.0)}
 
 
+def same_pressure_unit(a: str, b: str) -> bool:
+    """Whether two pressure units are one size (mmHg and Torr, hPa and mbar)."""
+    return abs(pascal_per(a) / pascal_per(b) - 1) < 1e-4
+
+
 def _distinct_pressure_units() -> tuple[str, ...]:
     """One canonical unit per size (mmHg/Torr, hPa/mbar), in the ingest's order."""
     out: list[str] = []
     # of twins, the name tables use most (mmHg before Torr)
     for u in sorted(PRESSURE_UNITS, key=lambda u: u == "Torr"):
-        if not any(abs(pascal_per(u) / pascal_per(v) - 1) < 1e-4 for v in out):
+        if not any(same_pressure_unit(u, v) for v in out):
             out.append(u)
     return tuple(sorted(out, key=list(PRESSURE_UNITS).index))
 
@@ -64,13 +70,7 @@ PRESSURE_READINGS = _distinct_pressure_units()
 
 def pressure_unit_name(unit: str) -> str:
     """The unit as a reader names it, twins included ('mmHg/Torr', 'hPa/mbar')."""
-    twins = [u for u in PRESSURE_UNITS if abs(pascal_per(u) / pascal_per(unit) - 1) < 1e-4]
-    twins.sort(key=lambda u: (u != unit,))
-    return "/".join(twins)
-
-
-def same_pressure_unit(a: str, b: str) -> bool:
-    return abs(pascal_per(a) / pascal_per(b) - 1) < 1e-4
+    return pressure_units_of_size(pascal_per(unit)) or unit
 
 
 def same_reading(a: Reading, b: Reading) -> bool:

@@ -115,6 +115,20 @@ class PointVerdict:
         off = self.source_offset_percent or 0.0
         return 100.0 * ((1 + self.deviation_percent / 100) * (1 + off / 100) - 1)
 
+    def corrections(self) -> tuple[float | None, float | None]:
+        """(T [K], P [Pa]) its cause suggests, each None unless finite and different from the
+        value read (a phase label changes neither; the findings repeat the unchanged one)."""
+        if self.cause is None:
+            return None, None
+
+        def changed(suggested, as_read):
+            if suggested is None or not math.isfinite(suggested):
+                return None
+            same = as_read is not None and math.isclose(suggested, as_read, rel_tol=1e-9)
+            return None if same else suggested
+
+        return changed(self.cause.suggested_T_K, self.T_K), changed(self.cause.suggested_P_Pa, self.P_Pa)
+
     def to_dict(self) -> dict:
         branch = _branch_fields(self.phase)
         d = {"row": self.row, "T_K": _num(self.T_K), "P_Pa": _num(self.P_Pa),
@@ -435,13 +449,10 @@ class AuditResult:
 def _row_text(p: "PointVerdict") -> str:
     """A flagged row's cause and the corrected quantity only (the contract repeats the unchanged one)."""
     if p.cause is not None:
-        c = p.cause
-        changed = []
-        if c.suggested_T_K is not None and not math.isclose(c.suggested_T_K, p.T_K or 0.0, rel_tol=1e-9):
-            changed.append(f"T = {c.suggested_T_K:.6g} K")
-        if c.suggested_P_Pa is not None and not math.isclose(c.suggested_P_Pa, p.P_Pa or 0.0, rel_tol=1e-9):
-            changed.append(f"P = {c.suggested_P_Pa:.6g} Pa")
-        return f"{c.kind}, suggested " + ", ".join(changed) if changed else f"{c.kind}: {c.explanation}"
+        T, P = p.corrections()
+        changed = ([f"T = {T:.6g} K"] if T is not None else []) + ([f"P = {P:.6g} Pa"] if P is not None else [])
+        return (f"{p.cause.kind}, suggested " + ", ".join(changed) if changed
+                else f"{p.cause.kind}: {p.cause.explanation}")
     worst = max(p.flags, key=lambda f: f.severity == "fail", default=None)
     return "no likely cause found" if worst is None else f"{worst.check}: {worst.message}"
 

@@ -204,19 +204,9 @@ def _row_action(p: PointVerdict) -> str:
 
 def suggested_value_text(p: PointVerdict) -> str:
     """The cause's suggested values, e.g. 'T = 318.25 K; p = 139.28 kPa' ('' when none)."""
-    if p.cause is None:
-        return ""
-    parts = []
-    if _finite(p.cause.suggested_T_K) and _changed(p.cause.suggested_T_K, p.T_K):
-        parts.append(f"T = {p.cause.suggested_T_K:.6g} K")
-    if _finite(p.cause.suggested_P_Pa) and _changed(p.cause.suggested_P_Pa, p.P_Pa):
-        parts.append(f"p = {pressure_text(p.cause.suggested_P_Pa)}")
-    return "; ".join(parts)
-
-
-def _changed(suggested: float, as_read) -> bool:
-    """Whether a suggested value differs from the value read (a phase label changes neither)."""
-    return not _finite(as_read) or abs(suggested - as_read) > 1e-9 * max(abs(suggested), abs(as_read))
+    T, P = p.corrections()
+    return "; ".join(([f"T = {T:.6g} K"] if T is not None else [])
+                     + ([f"p = {pressure_text(P)}"] if P is not None else []))
 
 
 def _runs(rows: Sequence[PointVerdict], finding) -> list[list[PointVerdict]]:

@@ -47,7 +47,7 @@ import os
 import tomllib
 
 from ..errors import InputError
-from ..units import RefusedUnit, parse_plain_pressure_unit, parse_temperature_unit
+from ..units import parse_plain_pressure_unit, parse_temperature_unit
 from .model import SHEET_FORMS, Sheet, SheetRow, SheetTable, StatedReading
 
 __all__ = ["read_sheet", "sheet_from_text"]
@@ -263,21 +263,20 @@ def _is_number(v) -> bool:
         return False
 
 
-def _temperature_unit(table: dict, where: str, file_name: str) -> str | None:
-    text = _text(table, "T_unit", where, file_name)
+def _unit(table: dict, key: str, parse, where: str, file_name: str) -> str | None:
+    """The canonical unit a table's ``key`` names (None when absent), read by ``parse``."""
+    text = _text(table, key, where, file_name)
     if text is None:
         return None
     try:
-        return parse_temperature_unit(text)
-    except ValueError as exc:
-        raise InputError(f"{where} T_unit: {exc}", file=file_name) from None
+        return parse(text)
+    except ValueError as exc:  # RefusedUnit (a gauge pressure, say) is one too
+        raise InputError(f"{where} {key}: {exc}", file=file_name) from None
+
+
+def _temperature_unit(table: dict, where: str, file_name: str) -> str | None:
+    return _unit(table, "T_unit", parse_temperature_unit, where, file_name)
 
 
 def _pressure_unit(table: dict, where: str, file_name: str) -> str | None:
-    text = _text(table, "P_unit", where, file_name)
-    if text is None:
-        return None
-    try:
-        return parse_plain_pressure_unit(text)
-    except (RefusedUnit, ValueError) as exc:
-        raise InputError(f"{where} P_unit: {exc}", file=file_name) from None
+    return _unit(table, "P_unit", parse_plain_pressure_unit, where, file_name)

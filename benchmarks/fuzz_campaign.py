@@ -61,24 +61,34 @@ def _alarm(signum, frame):
     raise _Timeout()
 
 
-def _run(job) -> dict:
-    """One table in a worker: its outcome as plain data (picklable)."""
-    seed, family, formats, timeout = job
-    table = table_for_seed(seed, family)
+def _timed(run, timeout: int, n_rows: int) -> "Outcome":
+    """``run(folder)`` in a scratch folder, a timeout counted as a failure (SIGALRM)."""
     signal.signal(signal.SIGALRM, _alarm)
     signal.alarm(timeout)
     with tempfile.TemporaryDirectory(prefix="vpaudit-fuzz-") as folder:
         try:
-            outcome = run_table(table, Path(folder), formats)
+            return run(Path(folder))
         except _Timeout:
-            outcome = Outcome("failure", (Failure("timeout", "Timeout", f"no result within {timeout} s"),),
-                              seconds=float(timeout), n_rows=len(table.rows), cpu_seconds=float(timeout))
+            return Outcome("failure", (Failure("timeout", "Timeout", f"no result within {timeout} s"),),
+                           seconds=float(timeout), n_rows=n_rows, cpu_seconds=float(timeout))
         finally:
             signal.alarm(0)
-    return {"seed": seed, "kind": outcome.kind, "seconds": outcome.seconds, "cpu": outcome.cpu_seconds, "rows": len(table.rows),
-            "family": table.family, "layout": f"{table.layout}/{table.encoding}",
+
+
+def _report(seed: int, outcome, rows: int, family: str, layout: str) -> dict:
+    """An outcome as plain data (picklable), the same for a table and a sheet."""
+    return {"seed": seed, "kind": outcome.kind, "seconds": outcome.seconds, "cpu": outcome.cpu_seconds, "rows": rows,
+            "family": family, "layout": layout,
             "failures": [(f.key, f.stage, f.exc_type, f.frame, str(f), f.trace) for f in outcome.failures],
             "message": outcome.message, "warnings": list(outcome.warnings)}
+
+
+def _run(job) -> dict:
+    """One table in a worker: its outcome as plain data (picklable)."""
+    seed, family, formats, timeout = job
+    table = table_for_seed(seed, family)
+    outcome = _timed(lambda folder: run_table(table, folder, formats), timeout, len(table.rows))
+    return _report(seed, outcome, len(table.rows), table.family, f"{table.layout}/{table.encoding}")
 
 
 def _run_sheet(job) -> dict:
@@ -87,20 +97,8 @@ def _run_sheet(job) -> dict:
 
     seed, family, formats, timeout = job
     case = sheet_for_seed(seed, family)
-    signal.signal(signal.SIGALRM, _alarm)
-    signal.alarm(timeout)
-    with tempfile.TemporaryDirectory(prefix="vpaudit-fuzz-") as folder:
-        try:
-            outcome = run_sheet(case, Path(folder), formats)
-        except _Timeout:
-            outcome = Outcome("failure", (Failure("timeout", "Timeout", f"no result within {timeout} s"),),
-                              seconds=float(timeout), cpu_seconds=float(timeout))
-        finally:
-            signal.alarm(0)
-    return {"seed": seed, "kind": outcome.kind, "seconds": outcome.seconds, "cpu": outcome.cpu_seconds,
-            "rows": outcome.n_rows, "family": case.family, "layout": "sheet/toml",
-            "failures": [(f.key, f.stage, f.exc_type, f.frame, str(f), f.trace) for f in outcome.failures],
-            "message": outcome.message, "warnings": list(outcome.warnings)}
+    outcome = _timed(lambda folder: run_sheet(case, folder, formats), timeout, 0)
+    return _report(seed, outcome, outcome.n_rows, case.family, "sheet/toml")
 
 
 def _save_sheets(out: Path, results: list, by_key: dict, family) -> None:

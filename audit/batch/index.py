@@ -8,6 +8,7 @@ from pathlib import Path
 from typing import Sequence
 
 from ..report.atomic import write_file
+from ..report.html import STATUS_MARK
 from .work import Outcome
 
 __all__ = ["write_index", "INDEX_COLUMNS"]
@@ -48,7 +49,7 @@ Most severe first. Profile {{ profile }}.</p>
 <p class="small">The audits screen the data; they do not replace qualified evaluation under local codes and licensed practice.</p>
 </body></html>
 """
-_MARK = {"error": "✖", "fail": "✖", "warn": "▲", "pass": "✓"}
+_MARK = {**STATUS_MARK, "error": STATUS_MARK["fail"]}
 
 
 def _ordered(outcomes: Sequence[Outcome]) -> list[Outcome]:

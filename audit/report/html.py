@@ -170,10 +170,7 @@ def flagged_rows(result: AuditResult) -> list[FlaggedRow]:
             continue
         pt = by_row.get(v.row)
         out.append(FlaggedRow(
-            row=v.row, anchor=row_anchor(v.row),
-            T_printed=_printed(pt.T_text if pt else "", pt.T_text_unit if pt else ""),
-            P_printed=_printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
-            T_K=format_T(v.T_K), P_SI=pressure_text(v.P_Pa),
+            row=v.row, anchor=row_anchor(v.row), **_value_cells(v, pt),
             phase=v.phase, phase_inferred=v.phase_inferred, source=v.source or "—",
             status=v.status, sigma=format_sigma(v.residual_sigma),
             cause=v.cause.kind if v.cause is not None else "—",
@@ -203,13 +200,20 @@ def _all_rows(result: AuditResult) -> list[dict]:
     out = []
     for v in result.points:
         pt = by_row.get(v.row)
-        out.append({"row": v.row, "T_printed": _printed(pt.T_text if pt else "", pt.T_text_unit if pt else ""),
-                    "P_printed": _printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
-                    "T_K": format_T(v.T_K), "P_SI": pressure_text(v.P_Pa),
-                    "phase": v.phase, "source": v.source or "—", "status": v.status,
-                    "sigma": format_sigma(v.residual_sigma),
-                    "deviation": "—" if not _is_number(v.deviation_percent) else f"{v.deviation_percent:+.3g}"})
+        out.append({"row": v.row, **_value_cells(v, pt), "phase": v.phase, "source": v.source or "—",
+                    "status": v.status, "sigma": format_sigma(v.residual_sigma), "deviation": _deviation_text(v)})
     return out
+
+
+def _value_cells(v, pt, T_unit_name=lambda unit: unit) -> dict:
+    """A row's values as printed (with their units) and in SI, as every row table shows them."""
+    return {"T_printed": _printed(pt.T_text if pt else "", T_unit_name(pt.T_text_unit) if pt else ""),
+            "P_printed": _printed(pt.P_text if pt else "", pt.P_text_unit if pt else ""),
+            "T_K": format_T(v.T_K), "P_SI": pressure_text(v.P_Pa)}
+
+
+def _deviation_text(v) -> str:
+    return "—" if not _is_number(v.deviation_percent) else f"{v.deviation_percent:+.3g}"
 
 
 #: longest cell text shown as printed in a table (the row's note and annotated.csv keep all of it)
@@ -459,12 +463,8 @@ def sheet_context(result: AuditResult) -> dict:
     }
     table_rows = []
     for v, pt in zip(result.points, result.dataset.points):
-        table_rows.append({"row": v.row, "anchor": row_anchor(v.row),
-                           "T_printed": _printed(pt.T_text, unit_label(pt.T_text_unit)),
-                           "P_printed": _printed(pt.P_text, pt.P_text_unit), "T_K": format_T(v.T_K),
-                           "P_SI": pressure_text(v.P_Pa),
-                           "deviation": "—" if not _is_number(v.deviation_percent) else f"{v.deviation_percent:+.3g}",
-                           "status": v.status, "cause": v.cause.kind if v.cause else "—",
+        table_rows.append({"row": v.row, "anchor": row_anchor(v.row), **_value_cells(v, pt, unit_label),
+                           "deviation": _deviation_text(v), "status": v.status, "cause": v.cause.kind if v.cause else "—",
                            "suggested": suggested_value_text(v) or "—"})
     si = dict(sh.si)
     names, rows = [], []

@@ -773,10 +773,12 @@ def _isolate(truths, rows):
         mine = [rows[k] for k in t.rows]
         overlapping = False
         for phase in {r.phase for r in mine}:
-            others = [r.T_true_K for o in truths if o.name != t.name and o.fault not in _GROSS_SOURCE_FAULTS
-                      for r in (rows[k] for k in o.rows) if r.phase == phase]
-            if others and any(min(others) <= r.T_true_K <= max(others) for r in mine if r.phase == phase):
-                overlapping = True
+            for o in truths:
+                if o.name == t.name or o.fault in _GROSS_SOURCE_FAULTS:
+                    continue
+                others = [r.T_true_K for r in (rows[k] for k in o.rows) if r.phase == phase]
+                if others and any(min(others) <= r.T_true_K <= max(others) for r in mine if r.phase == phase):
+                    overlapping = True
         out.append(t if overlapping else replace(t, offset_class="isolated", fault=None, fault_rows=()))
     return out
 

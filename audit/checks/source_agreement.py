@@ -33,6 +33,9 @@ from ..thermo.overlap import overlaps_others
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
+#: sources tried as the one to set aside in each round (the furthest off in units of u first)
+_MAX_TRIALS = 3
+
 
 
 @dataclass(frozen=True)
@@ -160,118 +163,52 @@ class SourceAgreement_(Check):
     }
 
     def run(self, ctx):
-        from ..thermo.rounding import pressure_rounding_u_lnP
-        from ..thermo.source_bias import source_offsets
-
         s = ctx.settings(self.id)
         names = ctx.dataset.sources
         if not names:
             return skipped(self, "data name no sources")
         if len(names) == 1:
             return skipped(self, "one source only", source=names[0])
-        model = ctx.consensus
-        if not model:
+        original = ctx.consensus
+        if not original:
             return skipped(self, "no consensus fit to compare sources with (outliers check did not fit)")
-        u_percent = model.u_percent
-        best: dict[str, SourceAgreement] = {}
-        flags: list[PointFlag] = []
-        notes = []
-        for branch, branch_model in model.branches.items():
-            fit0 = branch_model.fit
-            pts = ctx.usable(branch)
-            src = [p.source for p in pts]
-            if len({x for x in src if x}) < 2:
+        best, model, notes, order = self._compare(ctx, original, s, frozenset())
+        explained: dict[str, tuple] = {}
+
+        def rank(r):
+            if r.source in order:
+                return (0, order.index(r.source))
+            if r.status != "ok" and r.bias_percent is not None:
+                return (1, -abs(r.bias_percent) / max(r.u_bias_percent or 0.0, 1e-300))
+            return (2, 0.0)
+
+        # one source explained at a time, the first set aside first: a source wrong as a whole
+        # (another unit, scale or compound) was part of every other source's yardstick, so once it
+        # is explained the others are compared again without it — a good series is not called
+        # off (nor read in another unit) for disagreeing with a series printed in mmHg
+        for _ in range(len(best)):
+            found = None
+            for r in sorted((r for r in best.values() if r.source not in explained), key=rank):
+                diagnosis = self._source_cause(ctx, r, model, s)
+                if diagnosis is not None:
+                    found = (r, diagnosis)
+                    break
+            if found is None:
+                break
+            explained[found[0].source] = found
+            rest = [n for n in best if n not in explained]
+            if not any(best[n].status != "ok" for n in rest):
                 continue
-            T = np.array([p.T_K for p in pts])
-            P = np.array([p.P_Pa for p in pts])
-            sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in pts])
-            floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
-            sig = np.where(np.isfinite(sig) & (sig > 0), sig, np.maximum(floor, 1e-6))
-            keep = np.array([ctx.status[p.row] != "reject" for p in pts])
-            eq = fit0.equation
-            fixed = eq.fixed_parameters()
-            form = type(eq)
-            # Flag the worst source first, then re-assess the others against a consensus without
-            # it: one biased source would otherwise make every other look off in the opposite way.
-            # an offset is measured only where other sources overlap in temperature
-            # (judged on every readable row of the source, also those rejected already)
-            everyone = [p for p in ctx.dataset.points if p.readable and p.source and ctx.phase(p) == branch]
-            T_all = np.array([p.T_K for p in everyone])
-            src_all = np.array([p.source for p in everyone], dtype=object)
-            kept_all = np.array([ctx.status[p.row] in ("ok", "suspect") for p in everyone])
-            isolated = {}
-            for name in dict.fromkeys(src_all):
-                mine = src_all == name
-                if not overlaps_others(T_all, mine, kept_all & ~mine):
-                    isolated[name] = (f"no other source reaches its temperatures ({T_all[mine].min():.5g}–"
-                                      f"{T_all[mine].max():.5g} K): an offset there would be an "
-                                      "extrapolation, so none is measured or removed")
-            excluded: list[str] = []
-            try:
-                for _ in range(len(set(src))):
-                    analysis = source_offsets(T, P, sig, src, form, keep=keep, min_points=s["min_points"],
-                                              exclude_from_consensus=excluded, fit_options=fixed)
-                    candidates = [o for o in analysis.offsets if o.source not in excluded
-                                  and o.source not in isolated
-                                  and abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
-                                  and abs(o.bias_percent) > s["tolerance_percent"]]
-                    # keep at least two sources in the consensus
-                    if not candidates or len(analysis.offsets) - len(excluded) <= 2:
-                        break
-                    worst = max(candidates, key=lambda o: abs(o.offset_lnP) / o.u_offset_lnP)
-                    excluded.append(worst.source)
-            except (ValueError, np.linalg.LinAlgError) as exc:
-                notes.append(f"{branch}: {exc}")
-                continue
-            n_src = len(analysis.offsets)
-            flagged = []
-            for o in analysis.offsets:
-                over_u = abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
-                over_tol = abs(o.bias_percent) > s["tolerance_percent"]
-                if o.source in isolated:
-                    continue
-                if over_u and over_tol:
-                    status = "reject" if abs(o.bias_percent) > s["reject_tolerance_percent"] else "suspect"
-                    pattern = o.preferred_pattern(s["pattern_delta_chi2"]) or (
-                        "temperature-offset" if o.delta_chi2 > 0 else "pressure-scale")
-                    flagged.append(o.source)
-                else:
-                    status, pattern = "ok", "none"
-                rec = SourceAgreement(
-                    source=o.source, n=o.n, bias_percent=o.bias_percent, u_bias_percent=o.u_bias_percent,
-                    temperature_offset_K=o.temperature_offset_K, pattern=pattern, status=status,
-                    extra={"branch": branch, "u_temperature_offset_K": o.u_temperature_offset_K,
-                           "delta_chi2_pressure_minus_temperature": o.delta_chi2,
-                           "pattern_decisive": o.preferred_pattern(s["pattern_delta_chi2"]) is not None,
-                           "birge_ratio": o.birge_ratio, "T_range_K": list(o.T_range),
-                           "two_sources_only": n_src == 2})
-                prev = best.get(o.source)
-                if prev is None or STATUS_RANK[status] > STATUS_RANK[prev.status]:
-                    best[o.source] = rec
-            for name in dict.fromkeys(src_all):
-                if not kept_all[src_all == name].any():
-                    isolated.setdefault(name, "every row rejected before the sources were compared")
-            for name, why in isolated.items():
-                best.setdefault(name, SourceAgreement(name, int((src_all == name).sum()), None, None, None,
-                                                      "none", "ok", {"branch": branch, "not_analysed": why}))
-            for name, why in analysis.not_analysed:
-                best.setdefault(name, SourceAgreement(name, sum(1 for x in src if x == name), None, None, None,
-                                                      "none", "ok", {"branch": branch, "not_analysed": why}))
-            # a flagged source still in the consensus: refit without it (needs >= 1 other source)
-            newly = [x for x in flagged if x not in branch_model.excluded_sources]
-            if newly and n_src >= 3:
-                try:
-                    model = model.with_branch(refit_without_sources(branch_model, pts, keep, sig, flagged))
-                    notes.append(f"{branch}: consensus refitted without {', '.join(newly)}")
-                except (ValueError, np.linalg.LinAlgError) as exc:
-                    notes.append(f"{branch}: consensus could not be refitted without {', '.join(newly)} ({exc})")
+            again, model, notes, order = self._compare(ctx, original, s, frozenset(explained))
+            notes.append(f"sources compared again without {', '.join(sorted(explained))}")
+            best = {n: (explained[n][0] if n in explained else again.get(n, best[n])) for n in best}
         records = list(best.values())
         point_status, causes = {}, {}
+        flags: list[PointFlag] = []
         for i, r in enumerate(records):
-            diagnosis = self._source_cause(ctx, r, model, s)
-            if diagnosis is None:
+            if r.source not in explained:
                 continue
-            cause, text, suggest = diagnosis
+            cause, text, suggest = explained[r.source][1]
             records[i] = replace(r, status="reject", extra={**r.extra, "cause": cause})
             for p in ctx.dataset.points:  # rows rejected before get the source's cause too
                 if p.source == r.source and ctx.status[p.row] != "unreadable":
@@ -329,6 +266,144 @@ class SourceAgreement_(Check):
                    "sources": [r.to_dict() for r in records]}
         return CheckResult(self.id, self.title, worst_status(len(bad), s.severity), message, metrics,
                            tuple(flags), point_status=point_status, causes=causes)
+
+    def _compare(self, ctx, consensus, s, dropped: frozenset):
+        """Compare every source with the others, per branch, leaving out ``dropped`` sources.
+
+        Returns (records by source, the consensus refitted without the flagged sources,
+        notes, the sources set aside in the order they were).  Sources in ``dropped`` (found
+        wrong as a whole) are neither compared nor part of any yardstick.
+        """
+        from ..thermo.rounding import pressure_rounding_u_lnP
+        from ..thermo.source_bias import source_offsets
+
+        u_percent = consensus.u_percent
+        best: dict[str, SourceAgreement] = {}
+        notes: list[str] = []
+        order: list[str] = []
+        model = consensus
+        for branch, branch_model in consensus.branches.items():
+            pts = [p for p in ctx.usable(branch) if p.source not in dropped]
+            src = [p.source for p in pts]
+            if len({x for x in src if x}) < 2:
+                continue
+            T = np.array([p.T_K for p in pts])
+            P = np.array([p.P_Pa for p in pts])
+            sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in pts])
+            floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
+            sig = np.where(np.isfinite(sig) & (sig > 0), sig, np.maximum(floor, 1e-6))
+            keep = np.array([ctx.status[p.row] != "reject" for p in pts])
+            eq = branch_model.fit.equation
+            fixed = eq.fixed_parameters()
+            form = type(eq)
+            # an offset is measured only where other sources overlap in temperature
+            # (judged on every readable row of the source, also those rejected already)
+            everyone = [p for p in ctx.dataset.points if p.readable and p.source and ctx.phase(p) == branch
+                        and p.source not in dropped]
+            T_all = np.array([p.T_K for p in everyone])
+            src_all = np.array([p.source for p in everyone], dtype=object)
+            kept_all = np.array([ctx.status[p.row] in ("ok", "suspect") for p in everyone])
+            isolated = {}
+            for name in dict.fromkeys(src_all):
+                mine = src_all == name
+                if not overlaps_others(T_all, mine, kept_all & ~mine, src_all):
+                    isolated[name] = (f"no other source reaches its temperatures ({T_all[mine].min():.5g}–"
+                                      f"{T_all[mine].max():.5g} K): an offset there would be an "
+                                      "extrapolation, so none is measured or removed")
+
+            def analyse(excluded):
+                return source_offsets(T, P, sig, src, form, keep=keep, min_points=s["min_points"],
+                                      exclude_from_consensus=excluded, fit_options=fixed)
+
+            def off(o):
+                return (o.source not in isolated and abs(o.offset_lnP) > s["k"] * o.u_offset_lnP
+                        and abs(o.bias_percent) > s["tolerance_percent"])
+
+            excluded: list[str] = []
+            try:
+                analysis = analyse(excluded)
+                while True:
+                    candidates = [o for o in analysis.offsets if o.source not in excluded and off(o)]
+                    # keep at least two sources in the consensus
+                    if not candidates or len(analysis.offsets) - len(excluded) <= 2:
+                        break
+                    # the consensus is what most sources say: of the sources off, set aside the one
+                    # whose absence leaves the rest most consistent (the most precise series is the
+                    # furthest off in units of u when the others are all off together)
+                    candidates.sort(key=lambda o: -abs(o.offset_lnP) / o.u_offset_lnP)
+                    trials = [(self._inconsistency(again, excluded + [o.source], isolated, analysis), o.source, again)
+                              for o in candidates[:_MAX_TRIALS] for again in (analyse(excluded + [o.source]),)]
+                    _, worst, analysis = min(trials, key=lambda t: t[0])
+                    excluded.append(worst)
+            except (ValueError, np.linalg.LinAlgError) as exc:
+                notes.append(f"{branch}: {exc}")
+                continue
+            order.extend(excluded)
+            n_src = len(analysis.offsets)
+            flagged = []
+            for o in analysis.offsets:
+                if o.source in isolated:
+                    continue
+                if off(o):
+                    status = "reject" if abs(o.bias_percent) > s["reject_tolerance_percent"] else "suspect"
+                    pattern = o.preferred_pattern(s["pattern_delta_chi2"]) or (
+                        "temperature-offset" if o.delta_chi2 > 0 else "pressure-scale")
+                    flagged.append(o.source)
+                else:
+                    status, pattern = "ok", "none"
+                rec = SourceAgreement(
+                    source=o.source, n=o.n, bias_percent=o.bias_percent, u_bias_percent=o.u_bias_percent,
+                    temperature_offset_K=o.temperature_offset_K, pattern=pattern, status=status,
+                    extra={"branch": branch, "u_temperature_offset_K": o.u_temperature_offset_K,
+                           "delta_chi2_pressure_minus_temperature": o.delta_chi2,
+                           "pattern_decisive": o.preferred_pattern(s["pattern_delta_chi2"]) is not None,
+                           "birge_ratio": o.birge_ratio, "T_range_K": list(o.T_range),
+                           "two_sources_only": n_src == 2})
+                prev = best.get(o.source)
+                if prev is None or STATUS_RANK[status] > STATUS_RANK[prev.status]:
+                    best[o.source] = rec
+            for name in dict.fromkeys(src_all):
+                if not kept_all[src_all == name].any():
+                    isolated.setdefault(name, "every row rejected before the sources were compared")
+            for name, why in isolated.items():
+                best.setdefault(name, SourceAgreement(name, int((src_all == name).sum()), None, None, None,
+                                                      "none", "ok", {"branch": branch, "not_analysed": why,
+                                                                    "isolated": why.startswith("no other")}))
+            for name, why in analysis.not_analysed:
+                best.setdefault(name, SourceAgreement(name, sum(1 for x in src if x == name), None, None, None,
+                                                      "none", "ok", {"branch": branch, "not_analysed": why}))
+            # flagged or dropped sources still in the consensus: refit without them (needs >= 1 other source)
+            leave_out = flagged + sorted(x for x in dropped if x in {p.source for p in ctx.usable(branch)})
+            newly = [x for x in leave_out if x not in branch_model.excluded_sources]
+            if newly and (n_src >= 3 or dropped):
+                all_pts = ctx.usable(branch)
+                all_keep = np.array([ctx.status[p.row] != "reject" for p in all_pts])
+                all_sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in all_pts])
+                all_floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in all_pts],
+                                          nan=0.0)
+                all_sig = np.where(np.isfinite(all_sig) & (all_sig > 0), all_sig, np.maximum(all_floor, 1e-6))
+                try:
+                    model = model.with_branch(refit_without_sources(branch_model, all_pts, all_keep, all_sig,
+                                                                    leave_out))
+                    notes.append(f"{branch}: consensus refitted without {', '.join(newly)}")
+                except (ValueError, np.linalg.LinAlgError) as exc:
+                    notes.append(f"{branch}: consensus could not be refitted without {', '.join(newly)} ({exc})")
+        return best, model, notes, order
+
+    @staticmethod
+    def _inconsistency(analysis, excluded, isolated, before) -> float:
+        """Σ (offset/u)² of the sources still in the consensus: how far they disagree.
+
+        A source compared ``before`` that can no longer be (its only overlapping
+        partner was set aside) keeps its earlier (offset/u)²: setting a source aside
+        must not look consistent merely by leaving another with nothing to compare to.
+        """
+        def z2(o):
+            return (o.offset_lnP / o.u_offset_lnP) ** 2 if o.u_offset_lnP > 0 else 0.0
+
+        now = {o.source: o for o in analysis.offsets}
+        return float(sum(z2(now.get(o.source, o)) for o in before.offsets
+                         if o.source not in excluded and o.source not in isolated))
 
     @staticmethod
     def _source_cause(ctx, record: SourceAgreement, consensus, s):
@@ -396,7 +471,9 @@ class SourceAgreement_(Check):
                     f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with the other "
                     f"sources within {reading.remaining_percent:+.2g} %")
             return cause, text, lambda p, f=reading.factor: (None, p.P_Pa * f)
-        if unit_candidate:
+        # a series no other source reaches in temperature, with pressures the others reach, is
+        # what a whole series in °C under a kelvin header looks like: its scale is tried too
+        if unit_candidate or record.extra.get("isolated"):
             t_units = [p.T_text_unit for p in every]
             t_printed = max(set(t_units), key=t_units.count) if t_units else "K"
             same = [p for p in every if p.T_text_unit == t_printed]

@@ -25,7 +25,8 @@ from ..thermo.rounding import (log_pressure_base, parse_printed_number, pressure
 from ._util import skipped, worst_status
 from .registry import Check, Option, register
 
-__all__ = ["CopiedValues", "PrintedValue", "coincidence_probability", "printed_value", "same_printed"]
+__all__ = ["CopiedValues", "PrintedValue", "coincidence_probability", "gap_match_probability", "printed_value",
+           "same_printed"]
 
 _SQRT2 = math.sqrt(2.0)
 _SQRT2PI = math.sqrt(2.0 * math.pi)
@@ -70,6 +71,45 @@ def _evidence(pairs, pa, pb, ka, kb, min_digits: int, max_shift_K: float) -> lis
 def _t_step(p: Point, q: Point) -> float:
     """One step of the coarser of two printed temperatures [K]."""
     return _SQRT12 * max(_t_rounding(p), _t_rounding(q))
+
+
+def gap_match_probability(T_a, T_b, tolerance: float) -> float:
+    """Chance that two independent series space consecutive temperatures alike.
+
+    The share of all pairs (g_a, g_b) of a consecutive temperature step of
+    one series and one of the other that differ by at most `tolerance`: 1
+    for two series on one even grid (300, 310, 320 K … — alike by design,
+    no evidence), small for temperatures set where each laboratory happened
+    to measure.  An empirical (permutation) estimate from the two series
+    themselves; their shared steps, if one copies the other, raise it by
+    about one over the number of steps, so it errs toward chance.
+
+    Parameters
+    ----------
+    T_a, T_b : array_like
+        Temperatures of the two series, sorted [K].
+    tolerance : float
+        Largest difference of two steps still alike [K].
+
+    Returns
+    -------
+    float
+        Probability in [0, 1]; 1 when either series has fewer than two temperatures.
+
+    Examples
+    --------
+    >>> gap_match_probability([300.0, 310.0, 320.0], [305.0, 315.0, 325.0], 0.1)
+    1.0
+    >>> gap_match_probability([300.0, 303.1, 311.4, 312.0], [301.0, 307.7, 309.9, 318.3], 0.1)
+    0.0
+    """
+    ga = [b - a for a, b in zip(T_a, T_a[1:])]
+    gb = [b - a for a, b in zip(T_b, T_b[1:])]
+    if not ga or not gb:
+        return 1.0
+    gb_sorted = sorted(gb)
+    alike = sum(bisect_right(gb_sorted, g + tolerance) - bisect_left(gb_sorted, g - tolerance) for g in ga)
+    return alike / (len(ga) * len(gb))
 
 
 def coincidence_probability(width: float, mu: float, sigma: float) -> float:
@@ -205,15 +245,28 @@ def _maximal_runs(xs: list[PrintedValue], ys: list[PrintedValue], min_len: int) 
             if n >= min_len and (i + 1, j + 1) not in length]
 
 
-def _clapeyron_slope(points: list[Point]) -> float:
-    """B [K] of ln P = A − B/T fitted by least squares to all the points; 0 when undetermined.
+def _clapeyron_slope(points: list[Point], consensus=None) -> float:
+    """B [K] of ln P = A − B/T: the consensus's, else fitted by least squares to all the points;
+    0 when undetermined.
 
     Used only to say how far apart two independent pressures at temperatures
     T_a and T_b should be, B·(1/T_a − 1/T_b) in ln P; 0 (no expected
-    difference) is the lenient choice when the data cannot tell.
+    difference) is the lenient choice when the data cannot tell.  The
+    consensus's fit of record (of its largest branch, B = T²·d ln P/dT at the
+    median of its temperatures) comes first: a least-squares line through
+    every point, a series in the wrong unit included, can give a slope many
+    times the substance's, and with it call any coarse agreement a copy.
     """
     import numpy as np
 
+    branches = [] if not consensus else [c for c in consensus.branches.values() if c.fit_data.n >= 2]
+    if branches:
+        c = max(branches, key=lambda b: b.fit_data.n)
+        T_mid = float(np.median(c.fit_data.T))
+        with np.errstate(all="ignore"):
+            B = T_mid ** 2 * float(c.fit.equation.dlnp_dT(np.array([T_mid]))[0])
+        if math.isfinite(B) and B > 0:
+            return B
     if len(points) < 2:
         return 0.0
     # a temperature of 1e-300 K makes 1/T² overflow: inf or NaN here, and "cannot tell" below
@@ -226,7 +279,7 @@ def _clapeyron_slope(points: list[Point]) -> float:
     return B if math.isfinite(B) and B > 0 else 0.0
 
 
-def _sigma_independent(p: Point, q: Point, scatter: float, measured: dict) -> float:
+def _sigma_independent(p: Point, q: Point, scatter: float, measured: dict, shifted: bool = False) -> float:
     """Standard deviation [-] in ln P of the difference of two independent readings.
 
     The closest agreement of independent data, `scatter`, or the combined
@@ -236,11 +289,20 @@ def _sigma_independent(p: Point, q: Point, scatter: float, measured: dict) -> fl
     larger: two series that each scatter 2 % about the curve do not agree to
     0.1 % row after row by chance.  √2 times the smaller of the two, so that
     one source whose scatter is overstated (a block of another compound
-    inside it widens its MAD) cannot make a pair look copied.
+    inside it widens its MAD) cannot make a pair look copied — except for
+    readings at temperatures `shifted` apart beyond their rounding, where
+    the expected difference is what makes a match improbable and the
+    spread of that difference is √(s_p² + s_q²).
     """
     if p.u_P_Pa and q.u_P_Pa and p.u_P_Pa > 0 and q.u_P_Pa > 0:
         return min(scatter, math.hypot(p.u_P_Pa / p.P_Pa, q.u_P_Pa / q.P_Pa))
-    return max(scatter, _SQRT2 * min(measured.get(p.source, 0.0), measured.get(q.source, 0.0)))
+    s_p, s_q = measured.get(p.source, 0.0), measured.get(q.source, 0.0)
+    if shifted:
+        # at shifted temperatures a match is evidence only because the values should differ: the
+        # difference of two independent readings spreads by both scatters, and a 15 % series that
+        # lands on a precise one's shifted values by chance must not pass for its copy
+        return max(scatter, math.hypot(s_p, s_q))
+    return max(scatter, _SQRT2 * min(s_p, s_q))
 
 
 #: fewest judged rows whose deviations give a source's own scatter: a MAD of four values is
@@ -384,7 +446,9 @@ class CopiedValues(Check):
     the same rounding cell with probability E[max(0, 1 − |d|/δ)],
     d ~ N(μ, σ²) (closed form in :func:`coincidence_probability`).  μ is the
     pressure change the temperature shift implies, B·(1/T_a − 1/T_b), with
-    B of ln P = A − B/T fitted to all the sources' points, for the part of
+    B = T²·d ln P/dT of the consensus's fit of record at its median
+    temperature (without a consensus, of ln P = A − B/T fitted to all the
+    sources' points), for the part of
     the shift beyond half a step of the coarser printed temperature (zero
     for temperatures the same to the printed digits, and when the data do
     not determine B); σ is
@@ -395,12 +459,21 @@ class CopiedValues(Check):
     scatters about the consensus (the MAD of their deviations from the fit
     of record, less the variance their printed rounding explains, from five
     rows or more) when that is larger: two series that each scatter 2 %
-    do not agree to 0.1 % row after row by chance.
+    do not agree to 0.1 % row after row by chance (at temperatures shifted
+    beyond their rounding, √(s_a² + s_b²) instead: there the expected
+    difference is the evidence, and its spread is both scatters').  Where
+    in its printed step each temperature lies is unknown: its rounding
+    (step/√12 each) times the slope B/T² is added to σ.
     For a constant-ratio run the window is the sum of both resolutions and
     the row that fixes the ratio is left out.  The rows' probabilities are
-    multiplied and the product corrected (Šidák) for the number of
-    alignments compared, Σ n_a·n_b over source pairs for each of the two
-    kinds of match.  Pressures printed to two digits at the same round
+    multiplied, and so is, for each step between consecutive matched rows of
+    a same-pressure run, the chance that two independent series space their
+    temperatures alike (:func:`gap_match_probability`: the share of all pairs
+    of their consecutive steps that agree within two printed steps — 1 for
+    two series on one even grid, small for temperatures set where each
+    laboratory happened to measure).  The product is corrected (Šidák) for
+    the number of alignments compared, Σ n_a·n_b over source pairs for each
+    of the two kinds of match.  Pressures printed to two digits at the same round
     temperatures therefore agree by chance (probability near 1) however long
     the run, while the same two digits repeated at temperatures 2 K apart are
     a finding.  With the default scatter, a copy at unchanged temperatures
@@ -460,7 +533,7 @@ class CopiedValues(Check):
         sizes = [len(series[n]) for n in names]
         # alignments compared: n_a·n_b start pairs per source pair, for each of the two kinds of match
         n_alignments = max(1, sum(sizes) ** 2 - sum(x * x for x in sizes))
-        B = _clapeyron_slope([p for n in names for p in series[n]])
+        B = _clapeyron_slope([p for n in names for p in series[n]], ctx.consensus)
         deviation = ctx.consensus.deviation_percent if ctx.consensus else {}
         measured = {n: _own_scatter(series[n], deviation, B) for n in names}
         sigma = partial(_sigma_independent, scatter=scatter, measured=measured)
@@ -512,8 +585,12 @@ class CopiedValues(Check):
 
     @staticmethod
     def _chance_same_p(pa, pb, ka, kb, pairs, sigma, B) -> float:
-        """Product over the run of the chance that independent sources print the same pressure."""
-        prob = 1.0
+        """Product over the run of the chance that independent sources print the same pressure,
+        times the chance that they space the run's temperatures alike (one factor per step)."""
+        steps = sorted(_t_step(pa[i], pb[j]) for i, j in pairs)
+        # consecutive matched rows keep one shift within a step each, so their steps agree within two
+        p_gap = gap_match_probability([p.T_K for p in pa], [p.T_K for p in pb], 2 * steps[len(steps) // 2])
+        prob = p_gap ** (len(pairs) - 1)
         for i, j in pairs:
             # the change in ln P the temperature shift implies, ln P = A − B/T, for the part of the
             # shift the printed temperatures' rounding cannot explain (81.85 K and 81.9 K may be one T)
@@ -521,7 +598,14 @@ class CopiedValues(Check):
             beyond = _shift_beyond_rounding(pa[i], pb[j])
             mu = 0.0 if beyond == 0 else B * (1.0 / pa[i].T_K - 1.0 / pb[j].T_K) * beyond / abs(dT)
             width = max(ka[i].resolution_lnP, kb[j].resolution_lnP)
-            prob *= coincidence_probability(width, mu, sigma(pa[i], pb[j]))
+            # where in its printed step each temperature lies is unknown: through the slope B/T² that
+            # blurs the expected difference (a series printed to whole kelvin, ±0.29 K, shifts ln P of
+            # ice at 226 K by ±3.5 %, enough for two-digit pressures to agree by chance)
+            # (at temperatures the same to the printed digits a wider σ would only make a match look
+            # rarer: there the closest plausible agreement stays the yardstick)
+            blur = B / pa[i].T_K ** 2 * math.hypot(_t_rounding(pa[i]), _t_rounding(pb[j])) \
+                if beyond > 0 and pa[i].T_K > 0 else 0.0
+            prob *= coincidence_probability(width, mu, math.hypot(sigma(pa[i], pb[j], shifted=beyond > 0), blur))
         return prob
 
     @staticmethod

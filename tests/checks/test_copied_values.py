@@ -319,3 +319,38 @@ def test_a_copy_shifted_by_a_constant_correction_is_found_and_one_that_wanders_i
     assert chk.metrics["n_pairs"] == 1 and chk.metrics["pairs"][0]["shift_K"] == pytest.approx(1.5, abs=0.01)
     wander = _rows("Loose 1979 (synthetic)", T + np.array([0.5, 3.0, 1.0, 2.5, 0.5, 3.0, 1.0]), P)
     assert _copied(run_audit(_dataset(orig, wander), default_profile)).metrics["n_pairs"] == 0
+
+
+def test_gap_match_probability_counts_alike_steps():
+    from audit.checks.copied_values import gap_match_probability
+
+    # two series on one 5 K grid space their temperatures alike by design: no evidence
+    assert gap_match_probability([300.0, 305.0, 310.0, 315.0], [301.0, 306.0, 311.0], 0.2) == 1.0
+    # steps 2.0, 3.5, 1.2 against 2.1, 4.4: one pair of six within 0.2 K
+    assert gap_match_probability([300.0, 302.0, 305.5, 306.7], [290.0, 292.1, 296.5], 0.2) == pytest.approx(1 / 6)
+
+
+def test_a_shifted_copy_of_two_digit_pressures_at_irregular_temperatures_is_found(default_profile):
+    # two printed digits coincide easily, but not six times in a row at a constant 2.5 K shift
+    # with the original's irregular steps: a copy whatever the digits
+    rng = np.random.default_rng(7)
+    T = np.sort(rng.uniform(290.0, 360.0, 6))
+    P = _printed(_noisy(T, 0.01, 8), 2)
+    other = np.linspace(285.0, 365.0, 9)
+    res = run_audit(_dataset(_rows("Ostrow 1938 (synthetic)", T, P),
+                             _rows("Pell 1961 (synthetic)", T + 2.5, P, start=20),
+                             _rows("Quarry 1975 (synthetic)", other, _printed(_noisy(other, 0.002, 9), 5), start=40)),
+                    default_profile)
+    chk = _copied(res)
+    pairs = {frozenset((p["source_a"], p["source_b"])) for p in chk.metrics["pairs"]}
+    assert pairs == {frozenset(("Ostrow 1938 (synthetic)", "Pell 1961 (synthetic)"))}, chk.message
+
+
+def test_independent_two_digit_series_on_one_even_grid_are_not_copies(default_profile):
+    # the same 5 K grid (shifted 1 K) and two digits each, independent noise of 1 %
+    T = np.arange(290.0, 361.0, 5.0)
+    res = run_audit(_dataset(_rows("Roan 1921 (synthetic)", T, _printed(_noisy(T, 0.01, 21), 2), T_digits=0),
+                             _rows("Sable 1933 (synthetic)", T + 1.0, _printed(_noisy(T + 1.0, 0.01, 22), 2),
+                                   T_digits=0, start=30)),
+                    default_profile)
+    assert _copied(res).metrics["n_pairs"] == 0, _copied(res).message

@@ -32,7 +32,14 @@ the set of rejected points and of biased sources stops changing (at most
 
 Without stated uncertainties the scale is a robust (MAD) scale of the
 residuals, pooled unless the Brown–Forsythe test finds the sources'
-scatters different.
+scatters different.  A point judged by its own source's scale (estimated
+from that source's rows, shrunk toward the others') is rejected only beyond
+the Student t quantile of that scale's effective degrees of freedom,
+0.37·(n − 1) of its n rows plus the prior's 0.37·(``min_points_source_scale``
+− 1) — the posterior-predictive spread of a scale known from a few rows —
+and is shown as suspect at the normal quantile as before.  A source of one
+or two rows, judged by a scale borrowed from the others, counts the prior's
+alone.
 
 The limits (α, the correction, the source tolerances) are the profile's,
 passed in as settings; nothing here is a threshold of its own.  The result
@@ -118,6 +125,29 @@ def _few_row_scales(out, src, named):
     for name in few:
         mine = src == name
         out[mine] = np.maximum(out[mine], widest)
+    return out
+
+
+def _with_dof(out, dof, src, named, nu0, with_dof):
+    """``out``, or (``out``, per-point degrees of freedom) when asked: a source of fewer than
+    three rows, judged by a scale borrowed from the others, counts ``nu0`` (a prior's)."""
+    if not with_dof:
+        return out
+    for name in named:
+        mine = src == name
+        if int(mine.sum()) < _OWN_SCATTER_ROWS:
+            dof[mine] = np.minimum(dof[mine], nu0)
+    return out, dof
+
+
+def _critical_per_point(base: float, alpha: float, n: int, correction: str, dof) -> np.ndarray | float:
+    """The critical |z| per point: ``base``, raised to the Student t quantile of the point's
+    scale's degrees of freedom where those are finite (None: ``base`` for every point)."""
+    if dof is None:
+        return base
+    out = np.full(dof.shape, base)
+    for nu in np.unique(dof[np.isfinite(dof)]):
+        out[dof == nu] = max(base, family_wise_critical(alpha, n, correction, float(nu)))
     return out
 
 
@@ -277,6 +307,7 @@ class _BranchAnalysis:
         scale_pt = self._scales(resid0, active0, src, s, 1.0 / T) if not u_given else None
 
         rejected = gross.copy()
+        scale_dof = None  # degrees of freedom of each point's estimated scale (None: stated u)
         biased: dict[str, SourceShift] = {}
         offsets = np.zeros(n)
         u_off = np.zeros(n)
@@ -316,7 +347,7 @@ class _BranchAnalysis:
             sigma = np.sqrt(rel ** 2 + (fit.equation.dlnp_dT(T) * uT_eff) ** 2)
             floor_sig = np.sqrt(floorP ** 2 + (fit.equation.dlnp_dT(T) * floorT) ** 2)
             if not u_given:
-                scale_pt = self._scales(r - offsets, in_fit, src, s, 1.0 / T)
+                scale_pt, scale_dof = self._scales(r - offsets, in_fit, src, s, 1.0 / T, with_dof=True)
             J = fit.equation.jacobian_ln_p(T)
             inf = influence_measures(J, r, sigma, in_fit.astype(float))
             dof = inf.dof - 1
@@ -365,13 +396,19 @@ class _BranchAnalysis:
             z = _inverse_scores(z, fit, T, P, ~inf.in_fit, rel, uT_eff, max(birge, 1e-300))
             crit_reject = family_wise_critical(s["reject_alpha"], n, s["correction"], crit_dof)
             crit_suspect = family_wise_critical(s["suspect_alpha"], n, s["correction"], crit_dof)
+            # a point judged by its own source's scale, estimated from that source's rows, is
+            # rejected only beyond the Student t quantile of that scale's degrees of freedom: a
+            # 3-row source's MAD may be a tenth of its scatter.  It is still shown as suspect at
+            # the normal quantile, so a gross error in a small source is not lost from view.
+            crit_r_pt = _critical_per_point(crit_reject, s["reject_alpha"], n, s["correction"], scale_dof)
+            crit_s_pt = np.minimum(crit_suspect, crit_r_pt)
             # one new rejection per round among the fitted points, the most extreme: rejecting every point
             # above the limit at once let a rejected +3.3 σ point shrink the scale and drag
             # a clean neighbour over the limit (masking and swamping).  Points rejected
             # before stay rejected only while their prediction residual is still beyond it.
             if final:
                 break
-            above = np.abs(z) > crit_reject
+            above = np.abs(z) > crit_r_pt
             # ... except points the robust fit already left out: they go together
             new_rejected = (rejected | ~in_fit) & above
             candidates = np.flatnonzero(above & ~new_rejected)
@@ -396,15 +433,15 @@ class _BranchAnalysis:
         self.sigma = sigma * max(birge, 1.0) if u_given else np.maximum(sigma * birge, floor_sig)
         self.birge = birge
         self.crit_reject, self.crit_suspect = crit_reject, crit_suspect
-        self.reject = np.abs(z) > crit_reject
-        self.suspect = (np.abs(z) > crit_suspect) & ~self.reject
+        self.reject = np.abs(z) > crit_r_pt
+        self.suspect = (np.abs(z) > crit_s_pt) & ~self.reject
         self.biased = biased
         self.offsets = offsets
         self.uPrel, self.uT_eff, self.floorP = uPrel, uT_eff, floorP
         self.rel = rel
 
     @staticmethod
-    def _scales(r, active, src, s, inv_T):
+    def _scales(r, active, src, s, inv_T, with_dof=False):
         """Relative scatter per point: pooled, or per source when sources differ in scatter.
 
         A source's own MAD from 8–15 points is itself uncertain by 25–40 %; used
@@ -455,6 +492,8 @@ class _BranchAnalysis:
                for name in named if (src == name).sum() >= 2}
         own = {k: v for k, v in own.items() if v > 0}
         nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
+        # effective degrees of freedom of each point's scale: the pooled one's are many (∞ here)
+        dof = np.full(r.size, np.inf)
         if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
             # one shared scatter, as far as the test can tell — yet a source is never judged by
             # a scatter smaller than its own: a 12 % series beside 0.01 % ones can pass the test
@@ -472,7 +511,8 @@ class _BranchAnalysis:
                 if mine_scale > pooled and f_dist.sf((mine_scale / pooled) ** 2, nu, nu_pooled) \
                         < s["source_scale_alpha"]:
                     out[mine] = math.sqrt((nu * mine_scale ** 2 + nu0 * pooled ** 2) / (nu + nu0))
-            return _few_row_scales(out, src, named)
+                    dof[mine] = nu + nu0
+            return _with_dof(_few_row_scales(out, src, named), dof, src, named, nu0, with_dof)
         # the prior from the scales about the median: a precise series whose residuals trace the
         # equation's own misfit must not, by that trend being removed, lower every source's prior
         plain = {k: mad_scale(r[src == k]) for k in own}
@@ -484,9 +524,11 @@ class _BranchAnalysis:
                 nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
                 shrunk = math.sqrt((nu * own[name] ** 2 + nu0 * prior ** 2) / (nu + nu0))
                 out[mine] = max(own[name], shrunk)
+                dof[mine] = nu + nu0
             else:
                 out[mine] = max(prior, pooled)
-        return _few_row_scales(out, src, named)
+                dof[mine] = nu0
+        return _with_dof(_few_row_scales(out, src, named), dof, src, named, nu0, with_dof)
 
     @staticmethod
     def _biased_sources(r, slope, sig, src, names, ss, T, in_fit, deletion):

@@ -306,7 +306,7 @@ class SourceAgreement_(Check):
             isolated = {}
             for name in dict.fromkeys(src_all):
                 mine = src_all == name
-                if not overlaps_others(T_all, mine, kept_all & ~mine, src_all):
+                if not overlaps_others(T_all, mine, kept_all & ~mine):
                     isolated[name] = (f"no other source reaches its temperatures ({T_all[mine].min():.5g}–"
                                       f"{T_all[mine].max():.5g} K): an offset there would be an "
                                       "extrapolation, so none is measured or removed")

@@ -54,7 +54,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from ..thermo.overlap import JUDGEABLE_REACH, overlaps_others, within_reach
+from ..thermo.overlap import JUDGEABLE_REACH, overlaps_others, within_span
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
 from ..thermo.stats import family_wise_critical, mad_scale, repeated_median_line
@@ -547,7 +547,7 @@ class _BranchAnalysis:
         are named, else against this one.  A source none of whose points lies
         within the temperatures of the others' fitted points is not judged:
         its offset would be an extrapolation; one that does is measured from its
-        points within reach of one of them alone (:func:`~audit.thermo.overlap.within_reach`).
+        points within reach of them alone (:func:`~audit.thermo.overlap.within_span`).
         Fewer than half of the sources of ``min_points`` rows or more are ever
         found off (one at least): the consensus is what most sources say.
         ``source-agreement`` does the full comparison later.
@@ -573,12 +573,12 @@ class _BranchAnalysis:
                 # an offset is measured only where the other sources overlap the source in
                 # temperature; far outside them, "the others' curve" is an extrapolation
                 yardstick = in_fit & ~left_out & ~mine
-                if not overlaps_others(T, mine, yardstick, src):
+                if not overlaps_others(T, mine, yardstick):
                     continue
                 # ... and from the source's points within the others' judgeable range alone: a
                 # median over points far outside it measures the extrapolation (a narrow
                 # precise series made every wide scattered one look tens of percent off)
-                inside = within_reach(T[mine], T[yardstick], src[yardstick])
+                inside = within_span(T[mine], T[yardstick])
                 if inside.sum() < 2:
                     continue
                 gd = deletion(mine, left_out)

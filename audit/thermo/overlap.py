@@ -10,16 +10,11 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["JUDGEABLE_REACH", "overlaps_others", "within_span", "within_reach"]
+__all__ = ["JUDGEABLE_REACH", "overlaps_others", "within_span"]
 
 
-def overlaps_others(T, mine, others, groups=None) -> bool:
-    """True when at least one of `mine` lies within the temperature span of `others`
-    (of one of the groups of `others`, when `groups` is given).
-
-    A series between two others that stop short of it (one below, one above)
-    is not overlapped: the curve across the gap joins two series that may not
-    even be of one substance, so each group's span counts on its own.
+def overlaps_others(T, mine, others) -> bool:
+    """True when at least one of `mine` lies within the temperature span of `others`.
 
     Parameters
     ----------
@@ -27,8 +22,6 @@ def overlaps_others(T, mine, others, groups=None) -> bool:
         Temperatures of all points [K].
     mine, others : array_like of bool
         Flag masks [-] of the source's points and of the points it is compared with.
-    groups : array_like, optional
-        A label per point (e.g. its source); the others' spans are taken per label.
 
     Returns
     -------
@@ -41,22 +34,14 @@ def overlaps_others(T, mine, others, groups=None) -> bool:
     >>> T = np.array([300.0, 310.0, 320.0, 400.0, 410.0])
     >>> overlaps_others(T, T >= 400, T < 400), overlaps_others(T, T >= 310, T < 315)
     (False, True)
-    >>> src = np.array(["a", "b", "b", "c", "c"])
-    >>> overlaps_others(T, src == "b", src != "b"), overlaps_others(T, src == "b", src != "b", src)
-    (True, False)
     """
     T = np.asarray(T, dtype=float)
     mine, others = np.asarray(mine, dtype=bool), np.asarray(others, dtype=bool)
     if not mine.any() or not others.any():
         return False
+    lo, hi = float(T[others].min()), float(T[others].max())
     Tm = T[mine]
-    labels = [None] if groups is None else list(dict.fromkeys(np.asarray(groups, dtype=object)[others]))
-    for label in labels:
-        sel = others if label is None else others & (np.asarray(groups, dtype=object) == label)
-        lo, hi = float(T[sel].min()), float(T[sel].max())
-        if np.any((Tm >= lo) & (Tm <= hi)):
-            return True
-    return False
+    return bool(np.any((Tm >= lo) & (Tm <= hi)))
 
 
 
@@ -95,36 +80,3 @@ def within_span(T_mine, T_others, reach: float = JUDGEABLE_REACH) -> np.ndarray:
     lo, hi = float(T_others.min()), float(T_others.max())
     widen = reach * (hi - lo)
     return (T_mine >= lo - widen) & (T_mine <= hi + widen)
-
-
-def within_reach(T_mine, T_others, groups_others, reach: float = JUDGEABLE_REACH) -> np.ndarray:
-    """:func:`within_span` of each group of the others on its own, combined (mask).
-
-    A temperature is within reach when one group's widened span covers it: a
-    gap between two groups is no overlap (see :func:`overlaps_others`).
-
-    Parameters
-    ----------
-    T_mine, T_others : array_like
-        Temperatures [K].
-    groups_others : array_like
-        A label per temperature of `T_others` (e.g. its source).
-    reach : float
-        Widening on each side as a fraction of each span [-].
-
-    Returns
-    -------
-    ndarray of bool
-        Flag [-] per temperature of `T_mine`.
-
-    Examples
-    --------
-    >>> within_reach(np.array([300.0, 350.0]), np.array([290.0, 310.0, 390.0, 400.0]), ["a", "a", "b", "b"])
-    array([ True, False])
-    """
-    T_mine, T_others = np.asarray(T_mine, dtype=float), np.asarray(T_others, dtype=float)
-    groups_others = np.asarray(groups_others, dtype=object)
-    out = np.zeros(T_mine.shape, bool)
-    for label in dict.fromkeys(groups_others):
-        out |= within_span(T_mine, T_others[groups_others == label], reach)
-    return out

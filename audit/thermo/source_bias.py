@@ -52,7 +52,7 @@ from typing import Sequence
 
 import numpy as np
 
-from .overlap import within_reach
+from .overlap import within_span
 from .ratios import percent_from_log_ratio, u_percent_from_log_ratio
 
 __all__ = ["SourceOffset", "SourceBiasAnalysis", "gls_one_parameter", "LowRankCovariance",
@@ -319,10 +319,9 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
                    fit_options: dict | None = None) -> SourceBiasAnalysis:
     """Each source's offset from a curve fitted to the other sources.
 
-    Only the source's points within the temperature span of one of the
-    other sources, widened by :data:`~audit.thermo.overlap.JUDGEABLE_REACH`
-    of it on each side, are used (:func:`~audit.thermo.overlap.within_reach`;
-    unlabelled points count as one source): further out the others' curve is an extrapolation whose
+    Only the source's points within the temperature span of the others,
+    widened by :data:`~audit.thermo.overlap.JUDGEABLE_REACH` of it on each
+    side, are used: further out the others' curve is an extrapolation whose
     uncertainty (carried by V below) swamps any offset.  A source with fewer
     than `min_points` such points is listed as not analysed.
 
@@ -377,7 +376,7 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
         # measured only where the others reach: beyond their temperatures their curve is an
         # extrapolation, and the "offset" would be the extrapolation's
         inside = mine.copy()
-        inside[mine] = within_reach(T[mine], T[others], src[others])
+        inside[mine] = within_span(T[mine], T[others])
         if inside.sum() < min_points:
             skipped.append((name, f"{int(inside.sum())} usable point(s) within reach of the other sources' "
                                   f"temperatures, fewer than {min_points}"))

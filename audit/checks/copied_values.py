@@ -329,7 +329,8 @@ def _own_scatter(points: list[Point], deviation_percent, B: float) -> float:
 
     def rounding(p: Point) -> float:
         r_P = pressure_rounding_u_lnP(p.P_text, p.P_text_unit)
-        r_T = _t_rounding(p) * B / p.T_K ** 2 if p.T_K > 0 else math.nan
+        # B/T/T, not B/T²: a temperature of 1e200 K would overflow the square
+        r_T = _t_rounding(p) * B / p.T_K / p.T_K if p.T_K > 0 else math.nan
         return sum(x * x for x in (r_P, r_T) if math.isfinite(x))
 
     explained = _median([rounding(p) for p, _ in judged])
@@ -603,7 +604,7 @@ class CopiedValues(Check):
             # ice at 226 K by ±3.5 %, enough for two-digit pressures to agree by chance)
             # (at temperatures the same to the printed digits a wider σ would only make a match look
             # rarer: there the closest plausible agreement stays the yardstick)
-            blur = B / pa[i].T_K ** 2 * math.hypot(_t_rounding(pa[i]), _t_rounding(pb[j])) \
+            blur = B / pa[i].T_K / pa[i].T_K * math.hypot(_t_rounding(pa[i]), _t_rounding(pb[j])) \
                 if beyond > 0 and pa[i].T_K > 0 else 0.0
             prob *= coincidence_probability(width, mu, math.hypot(sigma(pa[i], pb[j], shifted=beyond > 0), blur))
         return prob

@@ -508,9 +508,12 @@ class _BranchAnalysis:
                 # only a scatter significantly above the pooled one (F test on the two MAD
                 # scales with their effective degrees of freedom): a source merely above it by
                 # chance keeps the pooled scale, and with it the power to find its 4σ errors
-                if mine_scale > pooled and f_dist.sf((mine_scale / pooled) ** 2, nu, nu_pooled) \
-                        < s["source_scale_alpha"]:
-                    out[mine] = math.sqrt((nu * mine_scale ** 2 + nu0 * pooled ** 2) / (nu + nu0))
+                # (numpy floats: a scale ratio of 1e200 from a garbage fit squares to inf, not an error)
+                ratio = np.float64(mine_scale) / np.float64(pooled)
+                with np.errstate(over="ignore"):
+                    if mine_scale > pooled and f_dist.sf(ratio * ratio, nu, nu_pooled) < s["source_scale_alpha"]:
+                        out[mine] = np.sqrt((nu * np.float64(mine_scale) ** 2 + nu0 * np.float64(pooled) ** 2)
+                                            / (nu + nu0))
                     dof[mine] = nu + nu0
             return _with_dof(_few_row_scales(out, src, named), dof, src, named, nu0, with_dof)
         # the prior from the scales about the median: a precise series whose residuals trace the
@@ -522,7 +525,8 @@ class _BranchAnalysis:
             mine = src == name
             if name in own:
                 nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
-                shrunk = math.sqrt((nu * own[name] ** 2 + nu0 * prior ** 2) / (nu + nu0))
+                with np.errstate(over="ignore"):
+                    shrunk = float(np.sqrt((nu * np.float64(own[name]) ** 2 + nu0 * np.float64(prior) ** 2) / (nu + nu0)))
                 out[mine] = max(own[name], shrunk)
                 dof[mine] = nu + nu0
             else:

@@ -171,11 +171,15 @@ class EnthalpyContinuity(Check):
                                         f"{s['step_alpha']})")
             metrics[branch] = m
             if not any(p.startswith(f"{branch}:") for p in problems):
-                if loc.dH.size:
+                if loc.dH.size and m["max_departure_u"] is not None and m["max_departure_percent"] is not None:
                     texts.append(f"{branch}: {loc.dH.size} windows of {s['window']} temperatures"
                                  + (" within one source each" if any(sources) else "")
                                  + f" agree with the smooth ΔH(T) (largest departure {m['max_departure_u']:.2g} u, "
                                  f"{m['max_departure_percent']:.2g} %); no step")
+                elif loc.dH.size:
+                    # windows whose departure is not finite (a fit that cannot be evaluated there)
+                    texts.append(f"{branch}: {loc.dH.size} windows of {s['window']} temperatures, none with a "
+                                 "finite departure from the smooth ΔH(T); no step tested")
                 else:
                     texts.append(f"{branch}: no source has {s['window']} distinct temperatures for a local window; "
                                  "no step")

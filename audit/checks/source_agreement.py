@@ -110,7 +110,13 @@ class SourceAgreement_(Check):
     record carries that cause.  One that lies on the others' curve once its
     temperatures are read in °C, K or °F instead of the header's scale gets
     ``temperature-unit`` and each row's temperature in that scale (tried too
-    on a series every row of which reads below 0 K).  A flagged source whose own
+    on a series every row of which reads below 0 K, and on one no other
+    source reaches in temperature) — on the curve within
+    ``unit_tolerance_percent``, or within ``max_gauge_error_percent`` when
+    the reading removes nine tenths of the series' offset as printed (or it
+    could not be judged as printed) and the series so read keeps the
+    substance's slope (a consensus of biased series is itself tens of
+    percent off).  A flagged source whose own
     slope implies an apparent enthalpy more than ``k``·u and
     ``other_compound_dH_percent`` away from the consensus's, and whose level
     no unit ratio explains, is taken for data of another compound: cause
@@ -157,7 +163,9 @@ class SourceAgreement_(Check):
                                        "of |ln r| when the source keeps the substance's slope [-]", "", 0, 0.5),
         "max_gauge_error_percent": Option(float, "largest pressure-scale error a gauge or calibration gives; a "
                                           "flagged source further off (and beyond max_thermometer_error_K) with "
-                                          "no unit ratio is taken for another compound", "%", 1, 10000),
+                                          "no unit ratio is taken for another compound, and a series read in "
+                                          "another temperature scale may be this far off a consensus of biased "
+                                          "series", "%", 1, 10000),
         "max_thermometer_error_K": Option(float, "largest thermometer error; see max_gauge_error_percent",
                                           "K", 0.1, 1000),
     }
@@ -479,7 +487,13 @@ class SourceAgreement_(Check):
             same = [p for p in every if p.T_text_unit == t_printed]
             t_reading = source_temperature_unit(
                 [p.T_K for p in same], np.log([p.P_Pa for p in same]), t_printed, eq.ln_p,
-                judgeable_range(fit), tolerance) if same else None
+                judgeable_range(fit), tolerance, math.log1p(s["max_gauge_error_percent"] / 100)) if same else None
+            # a reading left further off than the unit tolerance (beside a consensus that is itself off)
+            # must at least keep the substance's slope once so read: another compound's block does not
+            if t_reading is not None and abs(math.log1p(t_reading.remaining_percent / 100)) > tolerance:
+                re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), eq, s)
+                if re_read is None or re_read.beyond:
+                    t_reading = None
             if t_reading is not None:
                 names = {"K": "K", "degC": "°C", "degF": "°F"}
                 real, shown = names[t_reading.real_unit], names[t_reading.printed_unit]

@@ -127,8 +127,8 @@ class SourceTemperatureReading:
     n_judged: int
 
 
-def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, tolerance_lnP: float
-                            ) -> SourceTemperatureReading | None:
+def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, tolerance_lnP: float,
+                            wide_lnP: float = 0.0) -> SourceTemperatureReading | None:
     """The other temperature scale that puts a whole series on the others' curve, or None.
 
     Parameters
@@ -146,6 +146,12 @@ def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, t
     tolerance_lnP : float
         Largest median offset left after the correction [-]; as printed, the
         series must be more than three times this far off (or not judgeable).
+    wide_lnP : float
+        A larger offset [-] still accepted when the reading explains at least
+        nine tenths of the series' offset as printed (or the series was not
+        judgeable as printed): a series in °C under a kelvin header beside
+        biased sources lands near, not on, a consensus that is itself off.
+        The caller checks such a reading further (its slope); 0 turns it off.
 
     Returns
     -------
@@ -199,7 +205,10 @@ def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, t
             continue
         T_alt = np.array([temperature_to_K(v, alt) for v in values])
         off, n = median_offset(T_alt)
-        if off is None or abs(off) > tolerance_lnP:
+        if off is None:
+            continue
+        if abs(off) > tolerance_lnP and not (abs(off) <= wide_lnP
+                                             and (as_printed is None or abs(off) <= 0.1 * abs(as_printed))):
             continue
         if best is None or abs(off) < abs(best[1]):
             best = (alt, off, n, T_alt)

@@ -27,7 +27,7 @@ def _printed(T_K: float, unit: str) -> str:
     return f"{(T_K - b) / a:.2f}"
 
 
-def _compilation(written_in: str, header: str, seed: int = 2):
+def _compilation(written_in: str, header: str, seed: int = 2, others_factor: float = 1.0):
     rng = np.random.default_rng(seed)
     series = [("Lab A", np.linspace(285, 365, 12), "K", "K"),
               ("Lab B", np.linspace(290, 360, 10), "degC", "degC"),
@@ -35,6 +35,8 @@ def _compilation(written_in: str, header: str, seed: int = 2):
     pts, row = [], 0
     for name, T, real, shown in series:
         P = iapws_saturation_pressure(T) * np.exp(rng.normal(0, 0.002, T.size))
+        if name != "Lab X":
+            P = P * others_factor
         for t, p in zip(T, P):
             row += 1
             text = _printed(t, real)
@@ -88,3 +90,17 @@ def test_series_read_below_absolute_zero_gets_its_scale(tmp_path):
     assert len(rows) == 13 and all(p.cause is not None and p.cause.kind == "temperature-unit" for p in rows)
     # each suggested temperature is the printed °F value in kelvin: inside the ice range
     assert all(190.0 < p.cause.suggested_T_K < 235.0 for p in rows)
+
+
+def test_a_series_in_celsius_is_named_beside_a_consensus_that_is_itself_off(default_profile):
+    # Labs A and B both read 12 % high (one gauge correction copied between them, say): Lab X,
+    # printed in °C under a kelvin header, lands 11 % below their curve once read in °C — beyond
+    # the 3 % unit tolerance, but with water's slope and a level no other reading explains
+    ds, true_T = _compilation("degC", "K", others_factor=1.12)
+    result = run_audit(ds, default_profile)
+    x = {s.source: s for s in result.sources}["Lab X"]
+    assert x.extra["cause"]["kind"] == "temperature-unit", x.extra
+    assert x.extra["cause"]["remaining_percent"] == pytest.approx(100 * (1 / 1.12 - 1), abs=1.0)
+    for p in result.points:
+        if p.source == "Lab X":
+            assert abs(p.cause.suggested_T_K - true_T[p.row]) < 0.01

@@ -479,7 +479,9 @@ class _BranchAnalysis:
         out = np.full(r.size, pooled)
         # a source's own scale comes from all its points, fitted or not: the MAD is robust to
         # the source's own outliers, and a scattered source whose points a precise series had
-        # pushed out of the fit must still be measured by its own scatter
+        # pushed out of the fit must still be measured by its own scatter — from three rows or
+        # more: the MAD of two is their half-difference, and one gross row made its own σ 110 %
+        # (a tenfold decimal slip then stood at 2.7 σ)
         named = [name for name in dict.fromkeys(src) if name]
         big = [name for name in named if (src == name).sum() >= s["min_points_source_scale"]]
         groups = [r[src == name] for name in big]
@@ -489,7 +491,7 @@ class _BranchAnalysis:
             groups.append(rest)
         own = {name: _own_scale(r[src == name], inv_T[src == name],
                                       math.log1p(s["max_source_scatter_percent"] / 100))
-               for name in named if (src == name).sum() >= 2}
+               for name in named if (src == name).sum() >= _OWN_SCATTER_ROWS}
         own = {k: v for k, v in own.items() if v > 0}
         nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
         # effective degrees of freedom of each point's scale: the pooled one's are many (∞ here)

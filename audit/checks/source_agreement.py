@@ -82,10 +82,14 @@ class SourceAgreement_(Check):
     P/dT)·ΔT) are estimated by generalised least squares with covariance
     diag(σ²) + J·C·Jᵀ (its own scatter plus the uncertainty C of the others'
     curve), the uncertainty inflated by the Birge ratio; the two models are
-    compared by their Δχ² (equal to ΔAIC, each having one parameter). (3) The
-    worst source beyond both ``k``·u and ``tolerance_percent`` is excluded
+    compared by their Δχ² (equal to ΔAIC, each having one parameter). (3) Of
+    the sources beyond both ``k``·u and ``tolerance_percent``, the one whose
+    absence leaves the others most consistent (least Σ(offset/u)² of the
+    sources still in; of the three furthest off in units of u) is excluded
     from the consensus and the others are re-assessed without it, repeated
-    while candidates remain and at least two sources stay in. (4) Each flagged
+    while candidates remain and at least two sources stay in — the consensus
+    is what most sources say, and the most precise series is the furthest
+    off in units of u whenever the others are off together. (4) Each flagged
     source is suspect, or reject beyond ``reject_tolerance_percent``; with
     three sources or more the consensus is refitted without it. (5) A flagged
     source is then diagnosed in turn: its offset read as the ratio of two
@@ -94,7 +98,9 @@ class SourceAgreement_(Check):
     temperatures read in another scale, and its own apparent enthalpy against
     the consensus's (beyond ``k``·u and ``other_compound_dH_percent``, or an
     offset beyond ``max_gauge_error_percent`` and ``max_thermometer_error_K``)
-    as another compound.
+    as another compound.  Sources are explained one at a time, the first
+    excluded first; after each, the others are compared again without it (a
+    series in another unit was part of every other source's yardstick).
 
     **Example.** Three sources of water data; source "B" reads 3.1 ± 0.2 %
     high everywhere → "B: pressures +3.1 % (u 0.2 %) vs. the other sources;
@@ -286,6 +292,13 @@ class SourceAgreement_(Check):
         from ..thermo.source_bias import source_offsets
 
         u_percent = consensus.u_percent
+
+        def sigmas(points):
+            """Each point's σ in ln P: the consensus's, else the rounding of its printed digits."""
+            sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in points])
+            floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in points], nan=0.0)
+            return np.where(np.isfinite(sig) & (sig > 0), sig, np.maximum(floor, 1e-6))
+
         best: dict[str, SourceAgreement] = {}
         notes: list[str] = []
         order: list[str] = []
@@ -297,9 +310,7 @@ class SourceAgreement_(Check):
                 continue
             T = np.array([p.T_K for p in pts])
             P = np.array([p.P_Pa for p in pts])
-            sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in pts])
-            floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
-            sig = np.where(np.isfinite(sig) & (sig > 0), sig, np.maximum(floor, 1e-6))
+            sig = sigmas(pts)
             keep = np.array([ctx.status[p.row] != "reject" for p in pts])
             eq = branch_model.fit.equation
             fixed = eq.fixed_parameters()
@@ -386,13 +397,9 @@ class SourceAgreement_(Check):
             if newly and (n_src >= 3 or dropped):
                 all_pts = ctx.usable(branch)
                 all_keep = np.array([ctx.status[p.row] != "reject" for p in all_pts])
-                all_sig = np.array([u_percent.get(p.row, math.nan) / 100 for p in all_pts])
-                all_floor = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in all_pts],
-                                          nan=0.0)
-                all_sig = np.where(np.isfinite(all_sig) & (all_sig > 0), all_sig, np.maximum(all_floor, 1e-6))
                 try:
-                    model = model.with_branch(refit_without_sources(branch_model, all_pts, all_keep, all_sig,
-                                                                    leave_out))
+                    model = model.with_branch(refit_without_sources(branch_model, all_pts, all_keep,
+                                                                    sigmas(all_pts), leave_out))
                     notes.append(f"{branch}: consensus refitted without {', '.join(newly)}")
                 except (ValueError, np.linalg.LinAlgError) as exc:
                     notes.append(f"{branch}: consensus could not be refitted without {', '.join(newly)} ({exc})")

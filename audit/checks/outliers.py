@@ -160,13 +160,14 @@ class Outliers(Check):
     or a thermometer offset ΔT·d ln P/dT). (5) A point whose |z| exceeds the
     family-wise critical value — the two-sided normal quantile at the
     per-point level 1 − (1 − α)^(1/n) (Šidák) or α/n (Bonferroni), α =
-    ``reject_alpha`` or ``suspect_alpha`` — is rejected or suspect; a point
-    judged by its own source's estimated scale is rejected only beyond the
-    Student t quantile of that scale's effective degrees of freedom
-    (0.37·(n − 1) of the source's n rows plus those of a
-    ``min_points_source_scale``-row prior; a one- or two-row source, whose
-    scale is borrowed, the prior's alone), so that a small source is not
-    judged as if its scatter were known; Cook's distance is reported for each. (6) For each suspect or rejected point the
+    ``reject_alpha`` or ``suspect_alpha`` — is rejected or suspect; without
+    stated uncertainties a point of a named source is rejected only beyond
+    the Student t quantile of the degrees of freedom with which its source's
+    scatter is known (0.37·(n − 1) of the source's n rows plus those of a
+    ``min_points_source_scale``-row prior, whether it keeps the pooled scale
+    or its own; a one- or two-row source, whose scale is borrowed, the
+    prior's alone), so that a small source is not judged as if its scatter
+    were known; Cook's distance is reported for each. (6) For each suspect or rejected point the
     cause hypotheses (pressure unit, temperature unit, decimal shift,
     transposed digits) are re-scored against the final curve; a cause is named
     when its corrected point lies within ``cause_k`` σ and the next-best

@@ -32,14 +32,15 @@ the set of rejected points and of biased sources stops changing (at most
 
 Without stated uncertainties the scale is a robust (MAD) scale of the
 residuals, pooled unless the Brown–Forsythe test finds the sources'
-scatters different.  A point judged by its own source's scale (estimated
-from that source's rows, shrunk toward the others') is rejected only beyond
-the Student t quantile of that scale's effective degrees of freedom,
-0.37·(n − 1) of its n rows plus the prior's 0.37·(``min_points_source_scale``
-− 1) — the posterior-predictive spread of a scale known from a few rows —
-and is shown as suspect at the normal quantile as before.  A source of one
-or two rows, judged by a scale borrowed from the others, counts the prior's
-alone.
+scatters different.  A point of a named source is rejected only beyond the
+Student t quantile of the effective degrees of freedom with which its
+source's scatter is known — 0.37·(n − 1) of its n rows plus a prior's
+0.37·(``min_points_source_scale`` − 1), whether the source keeps the pooled
+scale or its own (that it shares the pooled scatter is itself known only
+from its rows) — the posterior-predictive spread of a scale known from a few
+rows; it is shown as suspect at the normal quantile as before.  A source of
+one or two rows, judged by a scale borrowed from the others, counts the
+prior's alone; a large source's t is the normal quantile.
 
 The limits (α, the correction, the source tolerances) are the profile's,
 passed in as settings; nothing here is a threshold of its own.  The result
@@ -516,7 +517,9 @@ class _BranchAnalysis:
                     if mine_scale > pooled and f_dist.sf(ratio * ratio, nu, nu_pooled) < s["source_scale_alpha"]:
                         out[mine] = np.sqrt((nu * np.float64(mine_scale) ** 2 + nu0 * np.float64(pooled) ** 2)
                                             / (nu + nu0))
-                    dof[mine] = nu + nu0
+                # whichever scale it keeps, whether this source shares the pooled scatter is known only
+                # from its own rows (the F test above has little power on three): its degrees of freedom
+                dof[mine] = nu + nu0
             return _with_dof(_few_row_scales(out, src, named), dof, src, named, nu0, with_dof)
         # the prior from the scales about the median: a precise series whose residuals trace the
         # equation's own misfit must not, by that trend being removed, lower every source's prior

@@ -58,7 +58,7 @@ import numpy as np
 from ..thermo.overlap import JUDGEABLE_REACH, overlaps_others, within_span
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
-from ..thermo.stats import family_wise_critical, mad_scale, repeated_median_line
+from ..thermo.stats import MAD_EFFICIENCY, family_wise_critical, mad_scale, repeated_median_line
 from ..model import base_phase
 from .model import BranchConsensus, BranchData, SourceShift, finite_or_inf
 
@@ -72,10 +72,8 @@ def _floors(points):
     return np.nan_to_num(fP, nan=0.0), np.nan_to_num(fT, nan=0.0)
 
 
-#: asymptotic efficiency of the MAD for normal data (Rousseeuw & Croux 1993,
-#: doi:10.1080/01621459.1993.10476408): its variance is that of a standard deviation
-#: from 0.37 times as many points
-_MAD_EFFICIENCY = 0.37
+#: asymptotic efficiency of the MAD for normal data (see :data:`audit.thermo.stats.MAD_EFFICIENCY`)
+_MAD_EFFICIENCY = MAD_EFFICIENCY
 
 
 def _own_scale(r, inv_T, max_scale_lnP: float) -> float:

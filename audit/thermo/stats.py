@@ -23,7 +23,7 @@ from scipy import stats
 from .enthalpy import heat_capacity_change
 
 __all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "RepeatedMedianLine",
-           "repeated_median_line", "mad_scale"]
+           "repeated_median_line", "mad_scale", "MAD_EFFICIENCY", "mad_degrees_of_freedom"]
 
 
 @dataclass(frozen=True)
@@ -211,6 +211,33 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
 
 #: MAD of a standard normal variable, Φ⁻¹(3/4); MAD/this estimates σ
 MAD_NORMAL = 0.6744897501960817
+
+
+#: asymptotic efficiency of the MAD for normal data (Rousseeuw & Croux 1993,
+#: doi:10.1080/01621459.1993.10476408): its variance is that of a standard deviation
+#: from 0.37 times as many points
+MAD_EFFICIENCY = 0.37
+
+
+def mad_degrees_of_freedom(n: int) -> float:
+    """Effective degrees of freedom [-] of a MAD scale from n values: 0.37·(n − 1).
+
+    Parameters
+    ----------
+    n : int
+        Number of values (a count).
+
+    Returns
+    -------
+    float
+        Degrees of freedom of the standard deviation as precise as that MAD [-].
+
+    Examples
+    --------
+    >>> round(mad_degrees_of_freedom(8), 2)
+    2.59
+    """
+    return MAD_EFFICIENCY * max(int(n) - 1, 0)
 
 
 def mad_scale(x) -> float:

@@ -101,6 +101,24 @@ class VaporPressureEquation:
     _units: ClassVar[tuple[str, ...]] = ()
 
     # -- interface every form implements -------------------------------------------
+    def design_offset(self, T) -> np.ndarray:
+        """Part of ln P not multiplied by a fitted parameter (linear forms).
+
+        Zero unless a form holds a fixed quantity in ln P (Clarke–Glew's
+        ln p_ref, Wagner's ln Pc), which then overrides this.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K].
+
+        Returns
+        -------
+        ndarray
+            Zeros [ln Pa], one per temperature.
+        """
+        return np.zeros_like(np.atleast_1d(as_temperature(T)))
+
     def ln_p(self, T):  # pragma: no cover - abstract
         """Natural logarithm of the vapor pressure.
 
@@ -355,21 +373,6 @@ class ClausiusClapeyron2(VaporPressureEquation):
         T = np.atleast_1d(as_temperature(T))
         return np.column_stack([np.ones_like(T), 1.0 / T])
 
-    def design_offset(self, T) -> np.ndarray:
-        """Part of ln P not multiplied by a fitted parameter.
-
-        Parameters
-        ----------
-        T : array_like
-            Temperature [K].
-
-        Returns
-        -------
-        ndarray
-            Zeros [ln Pa]: this form has no fixed offset.
-        """
-        return np.zeros_like(np.atleast_1d(as_temperature(T)))
-
     @classmethod
     def from_coefficients(cls, vector, **fixed) -> "ClausiusClapeyron2":
         """Build the form from a coefficient vector of :meth:`design_matrix`.
@@ -460,21 +463,6 @@ class ClausiusClapeyron3(VaporPressureEquation):
         """
         T = np.atleast_1d(as_temperature(T))
         return np.column_stack([np.ones_like(T), 1.0 / T, np.log(T)])
-
-    def design_offset(self, T) -> np.ndarray:
-        """Part of ln P not multiplied by a fitted parameter.
-
-        Parameters
-        ----------
-        T : array_like
-            Temperature [K].
-
-        Returns
-        -------
-        ndarray
-            Zeros [ln Pa]: this form has no fixed offset.
-        """
-        return np.zeros_like(np.atleast_1d(as_temperature(T)))
 
     @classmethod
     def from_coefficients(cls, vector, **fixed) -> "ClausiusClapeyron3":

@@ -304,7 +304,8 @@ class SourceAgreement_(Check):
         order: list[str] = []
         model = consensus
         for branch, branch_model in consensus.branches.items():
-            pts = [p for p in ctx.usable(branch) if p.source not in dropped]
+            all_pts = ctx.usable(branch)
+            pts = [p for p in all_pts if p.source not in dropped]
             src = [p.source for p in pts]
             if len({x for x in src if x}) < 2:
                 continue
@@ -392,10 +393,9 @@ class SourceAgreement_(Check):
                 best.setdefault(name, SourceAgreement(name, sum(1 for x in src if x == name), None, None, None,
                                                       "none", "ok", {"branch": branch, "not_analysed": why}))
             # flagged or dropped sources still in the consensus: refit without them (needs >= 1 other source)
-            leave_out = flagged + sorted(x for x in dropped if x in {p.source for p in ctx.usable(branch)})
+            leave_out = flagged + sorted(x for x in dropped if x in {p.source for p in all_pts})
             newly = [x for x in leave_out if x not in branch_model.excluded_sources]
             if newly and (n_src >= 3 or dropped):
-                all_pts = ctx.usable(branch)
                 all_keep = np.array([ctx.status[p.row] != "reject" for p in all_pts])
                 try:
                     model = model.with_branch(refit_without_sources(branch_model, all_pts, all_keep,

@@ -194,13 +194,20 @@ def _dec_text(value: float, decimals: int) -> str:
     return f"{round(value, decimals):.{decimals}f}"
 
 
-def _rounding_u_ln(text: str) -> float:
-    """Standard uncertainty of ln(value) from the rounding of its printed text (uniform)."""
+def _rounding_u_ln(text: str, digits: int | None = None) -> float:
+    """Standard uncertainty of ln(value) from the rounding of its printed text (uniform).
+
+    With `digits`, the significant digits the value was printed to: an integer
+    such as ``2000`` printed to one digit was rounded to the nearest 1000, not
+    the nearest 1, which the text alone cannot tell.
+    """
     t = text.lower()
     mant, _, exp = t.partition("e")
     dec = len(mant.split(".")[1]) if "." in mant else 0
     step = 10.0 ** (-dec + (int(exp) if exp else 0))
     v = abs(float(text))
+    if digits is not None and v > 0:
+        step = max(step, 10.0 ** (math.floor(math.log10(v)) - digits + 1))
     return step / math.sqrt(12) / v if v > 0 else math.inf
 
 
@@ -463,7 +470,7 @@ def _dlnp_dT(p, T):
 def _u_mean(d: _Draft, P_true):
     """u of the mean ln P of a source: scatter and rounding of P and T (uniform), over √n."""
     n = len(d.T_meas)
-    u_round_P = np.array([_rounding_u_ln(sig_text(p, d.digits)) for p in P_true])
+    u_round_P = np.array([_rounding_u_ln(sig_text(p, d.digits), d.digits) for p in P_true])
     u_round_T = 10.0 ** -d.T_decimals / math.sqrt(12) * np.abs(_dlnp_dT(d.p, d.T_meas))
     var = d.scatter ** 2 + np.mean(u_round_P ** 2 + u_round_T ** 2)
     return math.sqrt(var / n)
@@ -810,7 +817,7 @@ def _plant_point_faults(rng, rows, truths, P_unit, T_unit, p_true):
         kind = POINT_FAULTS[int(rng.integers(len(POINT_FAULTS)))]
         T_txt, P_txt = r.T_text, r.P_text
         also = None
-        sig_eff = math.hypot(t.scatter, _rounding_u_ln(P_txt))
+        sig_eff = math.hypot(t.scatter, _rounding_u_ln(P_txt, t.digits))
         if kind == "random-gross":
             step = max(10 * sig_eff, math.log(1.5)) * rng.choice([-1, 1])
             P_txt = sig_text(float(P_txt) * math.exp(step), t.digits)

@@ -45,6 +45,7 @@ class _SlopeDeparture:
     dH_source: float
     u_dH_source: float
     dH_consensus: float
+    u_dH_consensus: float
     T_ref: float
     percent: float
     #: beyond both k·u and other_compound_dH_percent
@@ -471,7 +472,7 @@ class SourceAgreement_(Check):
             offset = float(np.median(np.log(P) - eq.ln_p(T))) if rows else math.nan
         units = [p.P_text_unit for p in rows]
         tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
-        slope = _slope_departure(T, P, eq, s) if unit_candidate and rows else None
+        slope = _slope_departure(T, P, fit, s) if unit_candidate and rows else None
         # a wide reading (a large unit ratio matched only roughly) must keep the substance's slope:
         # another compound's block 10³ lower can sit near a unit ratio by chance
         wide = s["unit_ratio_tolerance"] if slope is None or not slope.beyond else 0.0
@@ -498,7 +499,7 @@ class SourceAgreement_(Check):
             # a reading left further off than the unit tolerance (beside a consensus that is itself off)
             # must at least keep the substance's slope once so read: another compound's block does not
             if t_reading is not None and abs(math.log1p(t_reading.remaining_percent / 100)) > tolerance:
-                re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), eq, s)
+                re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), fit, s)
                 if re_read is None or re_read.beyond:
                     t_reading = None
             if t_reading is not None:
@@ -516,13 +517,14 @@ class SourceAgreement_(Check):
         # seeds 5000-5199: good sources mass-rejected 7.7 % -> 10.6 %)
         if not flagged or not rows:
             return None
-        slope = slope or _slope_departure(T, P, eq, s)
+        slope = slope or _slope_departure(T, P, fit, s)
         if slope is not None and slope.beyond:
             cause = {"kind": "other-compound", "n_rows": len(rows), "dH_source_J_per_mol": slope.dH_source,
-                     "u_dH_source_J_per_mol": slope.u_dH_source, "dH_consensus_J_per_mol": slope.dH_consensus}
+                     "u_dH_source_J_per_mol": slope.u_dH_source, "dH_consensus_J_per_mol": slope.dH_consensus,
+                     "u_dH_consensus_J_per_mol": slope.u_dH_consensus}
             text = (f"source '{record.source}' implies ΔH = {slope.dH_source / 1e3:.4g} ± "
                     f"{slope.u_dH_source / 1e3:.2g} kJ/mol at {slope.T_ref:.1f} K against "
-                    f"{slope.dH_consensus / 1e3:.4g} kJ/mol from the other sources "
+                    f"{slope.dH_consensus / 1e3:.4g} ± {slope.u_dH_consensus / 1e3:.2g} kJ/mol from the other sources "
                     f"({slope.percent:.2g} % > {s['other_compound_dH_percent']} %, beyond {s['k']} u) and no unit "
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
@@ -544,10 +546,17 @@ def _implausible_level(record: SourceAgreement, s) -> str | None:
             "no unit ratio explains its level: likely another compound's data — exclude it")
 
 
-def _slope_departure(T, P, eq, s):
-    """The source's own two-constant slope against the consensus's (a _SlopeDeparture), or None."""
+def _slope_departure(T, P, fit, s):
+    """The source's own two-constant slope against the consensus's (a _SlopeDeparture), or None.
+
+    The departure is judged against both slopes' uncertainties: the source's
+    own and the consensus fit's at the source's temperatures, which grows
+    where the consensus is extrapolated (a series beside the others, not
+    among them).
+    """
     from ..thermo.enthalpy import apparent_enthalpy
     from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+    from ..thermo.slope import enthalpy_uncertainty
 
     if distinct_temperatures(T) < 3:
         return None
@@ -557,13 +566,19 @@ def _slope_departure(T, P, eq, s):
         return None
     dH_own = -R_GAS * float(own.params[1])
     u_own = R_GAS * float(own.standard_errors[1])
-    dH_cons = float(apparent_enthalpy(eq, own.T_ref))
+    dH_cons = float(apparent_enthalpy(fit.equation, own.T_ref))
+    try:
+        u_cons = float(enthalpy_uncertainty(fit, own.T_ref))
+    except ValueError:  # a consensus without a covariance: its slope taken as exact
+        u_cons = 0.0
+    if not math.isfinite(u_cons):
+        u_cons = 0.0
     departure = dH_own - dH_cons
     if not (math.isfinite(departure) and dH_cons > 0):
         return None
     rel = 100 * abs(departure) / dH_cons
-    beyond = bool(abs(departure) > s["k"] * u_own and rel > s["other_compound_dH_percent"])
-    return _SlopeDeparture(dH_own, u_own, dH_cons, float(own.T_ref), rel, beyond)
+    beyond = bool(abs(departure) > s["k"] * math.hypot(u_own, u_cons) and rel > s["other_compound_dH_percent"])
+    return _SlopeDeparture(dH_own, u_own, dH_cons, u_cons, float(own.T_ref), rel, beyond)
 
 
 #: point-level causes a coherent block's own diagnosis replaces: a digit swapped or a decimal

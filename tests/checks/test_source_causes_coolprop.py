@@ -67,3 +67,21 @@ def test_a_level_beyond_any_gauge_or_thermometer_error_is_another_compound(defau
     # a gauge 40 % high stays a pressure-scale finding without a cause
     x = {s.source: s for s in run_audit(_compilation(None, bias=0.4), default_profile).sources}["Lab X"]
     assert x.status != "ok" and not (x.extra.get("cause") or {})
+
+
+def test_isolated_series_in_mmhg_is_a_unit_not_another_compound(default_profile):
+    # water compiled from IAPWS-IF97 (see the file's first line): the series below the others
+    # is judged against the consensus's slope extrapolated 25 K down, whose uncertainty
+    # (from the fit's covariance) now counts beside the series' own
+    from pathlib import Path
+
+    from audit.ingest import read_table
+
+    path = Path(__file__).parents[1] / "regressions" / "data" / "isolated_mmhg_series_below_the_others.csv"
+    result = run_audit(read_table(path), default_profile)
+    jensen = {s.source: s for s in result.sources}["Jensen 1956"]
+    cause = jensen.extra["cause"]
+    assert cause["kind"] == "pressure-unit"
+    # 1 mmHg = 133.322 387 415 Pa (NIST SP 811, B.8): kPa read as mmHg is ×0.133322
+    assert cause["factor"] == pytest.approx(0.133322387415, rel=1e-9)
+    assert [p.status for p in result.points if p.source == "Jensen 1956"] == ["reject"] * 16

@@ -26,6 +26,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from ..consensus import refit_without_sources
+from ..model import base_phase
 from ..results import STATUS_RANK, Cause, CheckResult, PointFlag, SourceAgreement
 from ..thermo.constants import R as R_GAS
 from ..thermo.ratios import percent_from_log_ratio
@@ -123,7 +124,13 @@ class SourceAgreement_(Check):
     the reading removes nine tenths of the series' offset as printed (or it
     could not be judged as printed) and the series so read keeps the
     substance's slope (a consensus of biased series is itself tens of
-    percent off).  A flagged source whose own
+    percent off).  A series no curve can judge (no other source reaches
+    it) gets the same cause when its own Clausius–Clapeyron line's Trouton
+    ratio lies outside ``trouton_band`` by more than ``k``·u as printed and
+    inside it read in another scale (the upper end raised to
+    ``trouton_max_sublimation`` for a branch that may be a solid's; of two
+    such scales, the one nearer the other sources' own two-constant line).
+    A flagged source whose own
     slope implies an apparent enthalpy more than ``k``·u and
     ``other_compound_dH_percent`` away from the consensus's, and whose level
     no unit ratio explains, is taken for data of another compound: cause
@@ -138,7 +145,8 @@ class SourceAgreement_(Check):
 
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
     ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
-    ``other_compound_dH_percent``, ``max_gauge_error_percent``, ``max_thermometer_error_K``.
+    ``other_compound_dH_percent``, ``max_gauge_error_percent``, ``max_thermometer_error_K``, ``trouton_band``,
+    ``trouton_max_sublimation``.
     """
 
     id = "source-agreement"
@@ -175,6 +183,11 @@ class SourceAgreement_(Check):
                                           "series", "%", 1, 10000),
         "max_thermometer_error_K": Option(float, "largest thermometer error; see max_gauge_error_percent",
                                           "K", 0.1, 1000),
+        "trouton_band": Option(list, "Trouton ratios [low, high] a liquid series' own line may have; a series no "
+                                     "other source reaches, outside it as printed and inside it read in another "
+                                     "temperature scale, was printed in that scale", "J mol⁻¹ K⁻¹"),
+        "trouton_max_sublimation": Option(float, "the band's upper end for a solid or unknown branch (sublimation "
+                                                 "adds the entropy of fusion)", "J mol⁻¹ K⁻¹", 55, 1000),
     }
 
     def run(self, ctx):
@@ -436,10 +449,13 @@ class SourceAgreement_(Check):
            °F instead of the header's scale, the series' median offset from
            the consensus is within ``unit_tolerance_percent``
            (:func:`audit.diagnose.source_units.source_temperature_unit`);
+           for a source not compared, its own line's Trouton ratio
+           (:func:`audit.diagnose.source_units.source_temperature_unit_by_trouton`);
         3. another compound (the same sources) — the slope of the source's own two-constant
            fit implies an apparent enthalpy that departs from the
-           consensus's at the same temperature by more than ``k`` standard
-           uncertainties and ``other_compound_dH_percent``: no gauge or
+           consensus's at the same temperature by more than ``k`` combined
+           standard uncertainties (the source's slope and the consensus's there)
+           and ``other_compound_dH_percent``: no gauge or
            thermometer error changes the slope that much.
         """
         from ..consensus.build import judgeable_range
@@ -502,6 +518,10 @@ class SourceAgreement_(Check):
                 re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), fit, s)
                 if re_read is None or re_read.beyond:
                     t_reading = None
+            if t_reading is None and record.extra.get("not_analysed") and same:
+                t_reading = _trouton_reading(ctx, same, t_printed, branch, s)
+                if t_reading is not None:
+                    return t_reading
             if t_reading is not None:
                 names = {"K": "K", "degC": "°C", "degF": "°F"}
                 real, shown = names[t_reading.real_unit], names[t_reading.printed_unit]
@@ -529,6 +549,47 @@ class SourceAgreement_(Check):
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
         return None
+
+
+_SCALE_NAMES = {"K": "K", "degC": "°C", "degF": "°F"}
+
+
+def _trouton_reading(ctx, rows, printed_unit, branch, s):
+    """(cause, explanation, suggestion) for a series no curve can judge whose own Trouton ratio
+    is impossible as printed and plausible in another temperature scale, else None.
+
+    When two scales give a plausible ratio, the one nearer the other sources' own
+    two-constant line (a Clausius–Clapeyron extrapolation, which cannot bend away as a
+    several-constant form's does) is taken; the consensus of record may hold the series itself.
+    """
+    from ..diagnose.source_units import source_temperature_unit_by_trouton
+    from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+
+    lo, hi = s["trouton_band"]
+    if base_phase(branch) != "liquid":
+        hi = max(hi, s["trouton_max_sublimation"])
+    others = [p for p in ctx.usable(branch) if p.source != rows[0].source and ctx.status[p.row] != "reject"]
+    curve = None
+    T_o = np.array([p.T_K for p in others])
+    if others and distinct_temperatures(T_o) >= 3:
+        try:
+            curve = fit_equation(T_o, np.array([p.P_Pa for p in others]), "cc2", robust=True).equation.ln_p
+        except InsufficientData:
+            curve = None
+    reading = source_temperature_unit_by_trouton(
+        [p.T_K for p in rows], np.log([p.P_Pa for p in rows]), printed_unit, (lo, hi), s["k"], curve)
+    if reading is None:
+        return None
+    real, shown = _SCALE_NAMES[reading.real_unit], _SCALE_NAMES[reading.printed_unit]
+    printed = ("a temperature at or below 0 K" if not math.isfinite(reading.ratio_printed) else
+               f"a Trouton ratio of {reading.ratio_printed:.3g} ± {reading.u_ratio_printed:.2g} J mol⁻¹ K⁻¹")
+    cause = {"kind": "temperature-unit", "n_rows": len(rows), "printed_unit": shown, "real_unit": real,
+             "trouton_ratio_printed": reading.ratio_printed, "trouton_ratio_real": reading.ratio_real}
+    text = (f"the whole series of source '{rows[0].source}' reads as {real}, not {shown}: no other source reaches "
+            f"it, and as printed its own Clausius–Clapeyron line gives {printed}, outside the "
+            f"{lo:g}–{hi:g} any substance has; read in {real} it gives {reading.ratio_real:.3g} J mol⁻¹ K⁻¹")
+    by_row = {p.row: t for p, t in zip(rows, reading.T_K)}
+    return cause, text, lambda p: (by_row.get(p.row), None)
 
 
 def _implausible_level(record: SourceAgreement, s) -> str | None:

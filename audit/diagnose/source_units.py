@@ -21,7 +21,9 @@ from ..units import PRESSURE_UNITS
 from .units import (COMMON_TEMPERATURE_UNITS, canonical_temperature_unit, pressure_unit_size_Pa, split_log_unit,
                     temperature_from_K, temperature_to_K)
 
-__all__ = ["SourceUnitReading", "source_pressure_unit", "SourceTemperatureReading", "source_temperature_unit"]
+__all__ = ["SourceUnitReading", "source_pressure_unit", "TemperatureScaleReading", "SourceTemperatureReading",
+           "source_temperature_unit",
+           "TroutonTemperatureReading", "source_temperature_unit_by_trouton"]
 
 
 @dataclass(frozen=True)
@@ -105,8 +107,8 @@ def source_pressure_unit(offset_lnP: float, printed_unit: str, tolerance_lnP: fl
 
 
 @dataclass(frozen=True)
-class SourceTemperatureReading:
-    """A source's temperatures read in another scale.
+class TemperatureScaleReading:
+    """A series' temperatures read in another scale.
 
     Attributes
     ----------
@@ -114,17 +116,43 @@ class SourceTemperatureReading:
         The scale of the header and the scale the values were really in ('K', 'degC', 'degF').
     T_K : tuple of float
         Each row's temperature in that reading [K] (order of the rows given).
+    """
+
+    printed_unit: str
+    real_unit: str
+    T_K: tuple[float, ...]
+
+
+@dataclass(frozen=True)
+class SourceTemperatureReading(TemperatureScaleReading):
+    """A source's temperatures read in another scale that puts them on the others' curve.
+
+    Attributes
+    ----------
     remaining_percent : float
         The source's median offset from the others' curve after the correction [%].
     n_judged : int
         Rows whose corrected temperature lies where the curve can judge them.
     """
 
-    printed_unit: str
-    real_unit: str
-    T_K: tuple[float, ...]
     remaining_percent: float
     n_judged: int
+
+
+def _series_and_unit(T_K, ln_P, printed_unit):
+    """(T [K], ln P [ln Pa], canonical printed unit) as arrays, or None for an unknown unit."""
+    try:
+        unit = canonical_temperature_unit(printed_unit)
+    except ValueError:
+        return None
+    return np.asarray(T_K, float), np.asarray(ln_P, float), unit
+
+
+def _other_scales(T_K, unit):
+    """(scale, temperatures read in it [K]) for each common scale other than ``unit``."""
+    values = np.array([temperature_from_K(t, unit) for t in T_K])
+    return [(alt, np.array([temperature_to_K(v, alt) for v in values]))
+            for alt in COMMON_TEMPERATURE_UNITS if alt != unit]
 
 
 def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, tolerance_lnP: float,
@@ -173,12 +201,10 @@ def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, t
     >>> r.real_unit, [round(t, 2) for t in r.T_K]
     ('degC', [300.0, 350.0])
     """
-    T_K = np.asarray(T_K, float)
-    ln_P = np.asarray(ln_P, float)
-    try:
-        unit = canonical_temperature_unit(printed_unit)
-    except ValueError:
+    series = _series_and_unit(T_K, ln_P, printed_unit)
+    if series is None:
         return None
+    T_K, ln_P, unit = series
     lo, hi = T_range
     if T_K.size == 0 or not (math.isfinite(lo) and math.isfinite(hi)):
         return None
@@ -198,12 +224,8 @@ def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, t
     as_printed, _ = median_offset(T_K)
     if as_printed is not None and abs(as_printed) <= 3 * tolerance_lnP:
         return None
-    values = np.array([temperature_from_K(t, unit) for t in T_K])
     best = None
-    for alt in COMMON_TEMPERATURE_UNITS:
-        if alt == unit:
-            continue
-        T_alt = np.array([temperature_to_K(v, alt) for v in values])
+    for alt, T_alt in _other_scales(T_K, unit):
         off, n = median_offset(T_alt)
         if off is None:
             continue
@@ -217,3 +239,109 @@ def source_temperature_unit(T_K, ln_P, printed_unit: str, curve_ln_p, T_range, t
     alt, off, n, T_alt = best
     return SourceTemperatureReading(printed_unit=unit, real_unit=alt, T_K=tuple(float(t) for t in T_alt),
                                     remaining_percent=100.0 * math.expm1(off), n_judged=n)
+
+
+@dataclass(frozen=True)
+class TroutonTemperatureReading(TemperatureScaleReading):
+    """A series' temperatures read in another scale because its own Trouton ratio says so.
+
+    Attributes
+    ----------
+    ratio_printed, u_ratio_printed : float
+        Trouton's ratio of the series' own line as printed, and its uncertainty
+        [J mol⁻¹ K⁻¹] (nan when a temperature is at or below 0 K as printed).
+    ratio_real, u_ratio_real : float
+        The same in the reading [J mol⁻¹ K⁻¹].
+    """
+
+    ratio_printed: float
+    u_ratio_printed: float
+    ratio_real: float
+    u_ratio_real: float
+
+
+def source_temperature_unit_by_trouton(T_K, ln_P, printed_unit: str, band, k: float,
+                                       curve_ln_p=None) -> TroutonTemperatureReading | None:
+    """The temperature scale whose reading gives a series a Trouton ratio a substance can have.
+
+    For a series no other source reaches, where no curve can judge it: as
+    printed, its own line's Trouton ratio (:func:`audit.thermo.trouton.line_trouton_ratio`)
+    lies outside ``band`` by more than ``k`` standard uncertainties (or a
+    temperature is at or below 0 K); read in another of K, °C, °F it lies
+    inside the band.  When two readings qualify, the one closer to
+    ``curve_ln_p`` (the others' curve, extrapolated: weak evidence, used
+    only to choose) is taken; without a curve, none.
+
+    Parameters
+    ----------
+    T_K : array_like
+        The series' temperatures as read in ``printed_unit`` [K].
+    ln_P : array_like
+        ln of its pressures [ln Pa].
+    printed_unit : str
+        The temperature unit of the column as printed.
+    band : (float, float)
+        Plausible Trouton ratios [J mol⁻¹ K⁻¹] for the branch.
+    k : float
+        Coverage factor on the printed ratio's uncertainty [-].
+    curve_ln_p : callable, optional
+        ln P [ln Pa] of the others' curve at T [K].
+
+    Returns
+    -------
+    TroutonTemperatureReading or None
+
+    Examples
+    --------
+    Water between 320 and 360 K printed in °C under a kelvin header (pressures
+    from the Clausius–Clapeyron line through water's normal boiling point,
+    373.124 K, with ΔH = 42 kJ/mol — an approximation of IAPWS-95 there):
+
+    >>> import math
+    >>> T = np.array([320.0, 330.0, 340.0, 350.0, 360.0])
+    >>> lnP = math.log(101325.0) - 42000.0 / 8.314462618 * (1 / T - 1 / 373.124)
+    >>> r = source_temperature_unit_by_trouton(T - 273.15, lnP, "K", (55.0, 135.0), 3.0)
+    >>> r.real_unit, round(r.ratio_real, 1), round(r.ratio_printed, 1)
+    ('degC', 112.6, 11.8)
+    """
+    from ..thermo.trouton import line_trouton_ratio
+
+    series = _series_and_unit(T_K, ln_P, printed_unit)
+    if series is None:
+        return None
+    T_K, ln_P, unit = series
+    lo, hi = band
+    if T_K.size < 3 or not np.all(np.isfinite(T_K)) or not np.all(np.isfinite(ln_P)):
+        return None
+    printed = line_trouton_ratio(T_K, ln_P) if np.all(T_K > 0) else None
+    if printed is not None:
+        if lo - k * printed.u_ratio <= printed.ratio <= hi + k * printed.u_ratio:
+            return None  # as printed, a substance could have it
+    elif np.all(T_K > 0):
+        return None  # no line as printed (pressure falling, too few temperatures): nothing to compare
+    readings = []
+    for alt, T_alt in _other_scales(T_K, unit):
+        line = line_trouton_ratio(T_alt, ln_P) if np.all(T_alt > 0) else None
+        if line is not None and lo <= line.ratio <= hi:
+            readings.append((alt, T_alt, line))
+    if len(readings) > 1:
+        if curve_ln_p is None:
+            return None
+
+        def distance(reading):
+            with np.errstate(all="ignore"):
+                d = np.abs(ln_P - curve_ln_p(reading[1]))
+            d = d[np.isfinite(d)]
+            return float(np.median(d)) if d.size else math.inf
+
+        readings.sort(key=distance)
+        if not math.isfinite(distance(readings[0])):
+            return None
+    if not readings:
+        return None
+    alt, T_alt, line = readings[0]
+    return TroutonTemperatureReading(
+        printed_unit=unit, real_unit=alt, T_K=tuple(float(t) for t in T_alt),
+        ratio_printed=printed.ratio if printed is not None else math.nan,
+        u_ratio_printed=printed.u_ratio if printed is not None else math.nan,
+        ratio_real=line.ratio, u_ratio_real=line.u_ratio)

@@ -37,7 +37,10 @@ class ClapeyronLinearity(Check):
     σ²(ln P) = (u_P/P)² + (d ln P/dT)² u_T², nested-model F (or χ²) test;
     equation chosen by AICc among physically sane candidates
     (:func:`audit.thermo.fitting.select_equation`); runs test on the signs of
-    the recommended fit's residuals.
+    the recommended fit's residuals — with named sources, runs counted
+    within each source and pooled (:func:`audit.thermo.stats.grouped_residual_runs`):
+    each source of a compilation sits a little off the consensus, all its
+    points on one side, which is not a misfit of the curve.
 
     **Example.** water 0–100 °C: "liquid: curvature significant (p = 1e-12),
     ΔCp = −44 ± 3 J mol⁻¹ K⁻¹ — within the plausible band; residuals show
@@ -76,7 +79,7 @@ class ClapeyronLinearity(Check):
 
     def run(self, ctx):
         from ..thermo.fitting import distinct_temperatures, fit_equation
-        from ..thermo.stats import curvature_test, residual_runs
+        from ..thermo.stats import curvature_test, grouped_residual_runs
 
         s = ctx.settings(self.id)
         per_branch, flags, warn_texts, metrics = [], [], [], {}
@@ -117,21 +120,23 @@ class ClapeyronLinearity(Check):
             rows_used = np.array(data.rows)[used]
             T_used = data.T[used]
             if resid.size >= s["min_points"]:
-                runs = residual_runs(resid)
+                # within each source: a compilation's sources sit a little apart, each on one side
+                source_of = {p.row: p.source or "" for p in ctx.dataset.points}
+                runs = grouped_residual_runs(resid, [source_of.get(int(r), "") for r in rows_used])
                 m.update({"runs": runs.runs, "expected_runs": runs.expected_runs,
                           "runs_p_value": runs.p_value_too_few, "durbin_watson": runs.durbin_watson})
                 if runs.p_value_too_few < s["runs_alpha"]:
-                    a, b = runs.longest_run_start, runs.longest_run_stop
-                    where = f"{T_used[a]:.2f}–{T_used[b - 1]:.2f} K"
+                    members = list(runs.longest_run_members)
+                    where = f"{T_used[members[0]]:.2f}–{T_used[members[-1]]:.2f} K"
                     t = (f"residuals of the {choice.chosen_name} fit form runs: {runs.runs} runs where "
                          f"{runs.expected_runs:.1f} are expected (p = {runs.p_value_too_few:.2g} < "
                          f"{s['runs_alpha']}), longest {runs.longest_run} points at {where}")
                     text.append("; " + t)
                     warn_texts.append(f"{branch}: {t}")
-                    for r in rows_used[a:b]:
+                    for r in rows_used[members]:
                         flags.append(PointFlag(int(r), self.id, s.severity,
                                                f"in a run of same-sign residuals of the {branch} fit at {where}"))
-                    m["structure_T_range_K"] = [float(T_used[a]), float(T_used[b - 1])]
+                    m["structure_T_range_K"] = [float(T_used[members[0]]), float(T_used[members[-1]])]
                 else:
                     text.append(f"; residuals of the {choice.chosen_name} fit show no runs "
                                 f"(p = {runs.p_value_too_few:.2g})")

@@ -22,7 +22,7 @@ from scipy import stats
 
 from .enthalpy import heat_capacity_change
 
-__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "RepeatedMedianLine",
+__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "grouped_residual_runs", "RepeatedMedianLine",
            "repeated_median_line", "mad_scale", "MAD_EFFICIENCY", "mad_degrees_of_freedom"]
 
 
@@ -129,6 +129,9 @@ class RunsTest:
         Number of points in the longest same-sign run (a count).
     longest_run_start, longest_run_stop : int
         Index range [start, stop) of the longest same-sign run in the input order.
+    longest_run_members : tuple of int
+        Indices (input order) of the points of that run; for runs counted
+        within groups (:func:`grouped_residual_runs`) they need not be contiguous.
     """
 
     n_pos: int
@@ -142,6 +145,7 @@ class RunsTest:
     longest_run: int
     longest_run_start: int
     longest_run_stop: int
+    longest_run_members: tuple[int, ...] = ()
 
     def summary(self) -> str:
         """The runs count, its p values and the Durbin-Watson statistic.
@@ -204,9 +208,87 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
         longest, start, stop = int(lengths[j]), int(nonzero[bounds[j]]), int(nonzero[bounds[j + 1] - 1] + 1)
     else:  # every residual exactly zero (a curve through every point): no run at all
         longest, start, stop = 0, 0, 0
+    members = tuple(int(i) for i in nonzero[bounds[j]:bounds[j + 1]]) if n else ()
     return RunsTest(n_pos=n_pos, n_neg=n_neg, runs=runs, expected_runs=float(mu), z=float(z), p_value=p2,
                     p_value_too_few=p1, durbin_watson=float(durbin_watson(r)) if np.any(r) else math.nan,
-                    longest_run=longest, longest_run_start=start, longest_run_stop=stop)
+                    longest_run=longest, longest_run_start=start, longest_run_stop=stop,
+                    longest_run_members=members)
+
+
+def grouped_residual_runs(residuals_sorted_by_T, groups) -> RunsTest:
+    """Runs of residual signs counted within each group (source), pooled.
+
+    In a compilation, each source's small systematic offset puts its points
+    on one side of the consensus; sorted together, the sources' blocks form
+    runs that say nothing about the curve.  The Wald–Wolfowitz test is
+    conditional on the numbers of each sign, so within one source an offset
+    changes n₊ and n₋ but not the test's validity: runs are counted per
+    group (in order of T within it) and the groups' counts, expectations and
+    variances summed (independent groups; normal approximation of the sum).
+
+    Parameters
+    ----------
+    residuals_sorted_by_T : array_like
+        Residuals in order of increasing T.
+    groups : sequence
+        The group (source) of each residual; one group gives :func:`residual_runs`.
+
+    Returns
+    -------
+    RunsTest
+        The pooled test (no unit; fields as in :class:`RunsTest`); ``n_pos``,
+        ``n_neg`` and ``runs`` are sums over groups, the Durbin-Watson
+        statistic is that of the residuals ordered by group, then T, and the
+        longest run is the longest within any group (its members in input
+        order; start and stop span them).
+
+    Notes
+    -----
+    Verified against :func:`residual_runs` for one group, and against the
+    sum of per-group counts and moments, in ``tests/thermo/test_stats_runs.py``.
+    """
+    r = np.asarray(residuals_sorted_by_T, dtype=float).ravel()
+    g = list(groups)
+    if len(g) != r.size:
+        raise ValueError("one group per residual")
+    labels = list(dict.fromkeys(g))
+    if len(labels) <= 1:
+        return residual_runs(r)
+    if r.size < 2 or not np.all(np.isfinite(r)):
+        raise ValueError("need at least two finite residuals")
+    n_pos = n_neg = runs = 0
+    mu = var = 0.0
+    best: tuple[int, ...] = ()
+    order = []
+    for label in labels:
+        idx = np.array([i for i, x in enumerate(g) if x == label])
+        order.extend(idx.tolist())
+        if idx.size < 2:
+            n_pos += int(np.sum(r[idx] > 0))
+            n_neg += int(np.sum(r[idx] < 0))
+            runs += int(np.any(r[idx] != 0))
+            mu += float(np.any(r[idx] != 0))
+            continue
+        part = residual_runs(r[idx])
+        n_pos, n_neg, runs = n_pos + part.n_pos, n_neg + part.n_neg, runs + part.runs
+        mu += part.expected_runs
+        if part.n_pos and part.n_neg:
+            n = part.n_pos + part.n_neg
+            a = 2.0 * part.n_pos * part.n_neg
+            var += a * (a - n) / (n * n * (n - 1.0))
+        if part.longest_run > len(best):
+            best = tuple(int(idx[i]) for i in part.longest_run_members)
+    z = (runs - mu) / math.sqrt(var) if var > 0 else math.nan
+    p2 = float(2 * stats.norm.sf(abs(z))) if var > 0 else math.nan
+    p1 = float(stats.norm.cdf(z)) if var > 0 else math.nan
+    from statsmodels.stats.stattools import durbin_watson
+
+    by_group = r[np.array(order)]
+    return RunsTest(n_pos=n_pos, n_neg=n_neg, runs=runs, expected_runs=float(mu), z=float(z), p_value=p2,
+                    p_value_too_few=p1,
+                    durbin_watson=float(durbin_watson(by_group)) if np.any(by_group) else math.nan,
+                    longest_run=len(best), longest_run_start=min(best) if best else 0,
+                    longest_run_stop=max(best) + 1 if best else 0, longest_run_members=best)
 
 
 #: MAD of a standard normal variable, Φ⁻¹(3/4); MAD/this estimates σ

@@ -12,6 +12,7 @@ from statsmodels.sandbox.stats.runs import runstest_1samp
 from statsmodels.stats.stattools import durbin_watson
 
 from audit.thermo import enthalpy_steps, local_enthalpy, residual_runs
+from audit.thermo.stats import grouped_residual_runs
 
 from ._data import iapws_ice, iapws_liquid, noisy
 
@@ -33,6 +34,44 @@ def test_longest_run_location():
     res = residual_runs(r)
     assert (res.longest_run, res.longest_run_start, res.longest_run_stop) == (4, 2, 6)
     assert res.runs == 6
+
+
+def test_grouped_runs_with_one_group_is_the_plain_test():
+    r = np.random.default_rng(5).standard_normal(30)
+    assert grouped_residual_runs(r, ["A"] * 30) == residual_runs(r)
+
+
+def test_grouped_runs_sum_the_groups_counts_and_moments():
+    # four sources, each over its own stretch of temperature, each a little off the curve;
+    # statsmodels gives each group's z, from which its runs count follows
+    rng = np.random.default_rng(8)
+    groups = [g for g in "ABCD" for _ in range(12)]
+    offsets = {"A": 0.6, "B": -0.6, "C": 0.6, "D": -0.6}
+    r = rng.normal(0.0, 1.0, 48) + np.array([offsets[g] for g in groups])
+    pooled = grouped_residual_runs(r, groups)
+    runs = mu = var = 0.0
+    for g in "ABCD":
+        part = r[[k for k in range(48) if groups[k] == g]]
+        n_pos, n_neg = int(np.sum(part > 0)), int(np.sum(part < 0))
+        n = n_pos + n_neg
+        m = 2.0 * n_pos * n_neg / n + 1  # Wald & Wolfowitz (1940)
+        v = 2.0 * n_pos * n_neg * (2.0 * n_pos * n_neg - n) / (n * n * (n - 1))
+        z, _ = runstest_1samp(part, cutoff=0, correction=False)
+        runs += m + z * np.sqrt(v)
+        mu, var = mu + m, var + v
+    assert pooled.runs == pytest.approx(runs, abs=1e-9)
+    assert pooled.expected_runs == pytest.approx(mu, rel=1e-12)
+    assert pooled.z == pytest.approx((runs - mu) / np.sqrt(var), rel=1e-9)
+    # sorted together, the sources' offsets make blocks of one sign: fewer runs than chance, read
+    # by the plain test as a misfit of the curve; within the sources there is none
+    assert residual_runs(r).z < pooled.z
+
+
+def test_grouped_longest_run_lists_its_members():
+    r = np.array([1.0, -1.0, 1.0, 1.0, -1.0, 1.0, 1.0, 1.0])
+    res = grouped_residual_runs(r, ["A", "B", "A", "B", "A", "A", "B", "A"])
+    # A: 1, 1, -1, 1, 1 (rows 0, 2, 4, 5, 7); B: -1, 1, 1 (rows 1, 3, 6)
+    assert res.longest_run == 2 and res.longest_run_members in ((0, 2), (5, 7), (3, 6))
 
 
 def test_local_enthalpy_tracks_iapws():

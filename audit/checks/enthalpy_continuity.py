@@ -2,9 +2,12 @@
 
 from __future__ import annotations
 
+from collections import Counter
+
 import numpy as np
 
 from ..results import CheckResult, PointFlag
+from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
 from .fits import recommended
 from ._util import skipped
 from .registry import Check, Option, register
@@ -47,7 +50,10 @@ class EnthalpyContinuity(Check):
     smooth apparent ΔH(T) at the window's centre; the standard uncertainty of
     the difference combines the window's, the curve's and their covariance
     (the window's points are in the fit, as in Hausman's test). A window
-    beyond ``k`` u and ``tolerance_percent`` is flagged. (3) With eight
+    beyond ``k`` u and ``tolerance_percent`` is flagged; for a named source,
+    whose σ is known only from its own rows and a prior's
+    (0.37·(n − 1) degrees of freedom from each, as in ``outliers``), ``k``
+    becomes the Student t quantile of the same one-sided probability. (3) With eight
     distinct temperatures or more, a continuous hinge in ln P vs 1/T (a step
     in ΔH) with a level per source is fitted at every split with at least four
     points a side; its F-test p-value is Bonferroni-adjusted over the splits,
@@ -116,12 +122,23 @@ class EnthalpyContinuity(Check):
             with np.errstate(divide="ignore", invalid="ignore"):
                 z = np.abs(loc.departure) / loc.u_departure
                 rel = 100 * np.abs(loc.departure) / np.abs(loc.smooth)
-            bad = (z > s["k"]) & (rel > s["tolerance_percent"])
+            # a named source's σ is known from its own rows and a prior's (as in outliers): k, meant
+            # for a known σ, becomes the Student t quantile of the same one-sided probability
+            k_window = np.full(z.shape, float(s["k"]))
+            if ctx.dataset.sources:
+                prior = mad_degrees_of_freedom(ctx.settings("outliers")["min_points_source_scale"])
+                n_of = Counter(sources[i] for i in np.flatnonzero(used))
+                for w in range(z.size):
+                    label = sources[int(loc.order[loc.start[w]])]
+                    if label:
+                        k_window[w] = coverage_for_estimated_scale(
+                            s["k"], mad_degrees_of_freedom(n_of[label]) + prior)
+            bad = (z > k_window) & (rel > s["tolerance_percent"])
             for w in np.flatnonzero(bad):
                 window_rows = sorted(int(r) for r in rows[loc.order[loc.start[w]:loc.stop[w]]])
                 msg = (f"local ΔH {loc.dH[w] / 1e3:.4g} ± {loc.u_dH[w] / 1e3:.2g} kJ/mol at "
                        f"{loc.T_center[w]:.2f} K vs {loc.smooth[w] / 1e3:.4g} kJ/mol from the {branch} fit: "
-                       f"{z[w]:.1f} u and {rel[w]:.2g} % (limits {s['k']} u and {s['tolerance_percent']} %)")
+                       f"{z[w]:.1f} u and {rel[w]:.2g} % (limits {k_window[w]:.3g} u and {s['tolerance_percent']} %)")
                 problems.append(f"{branch}: window rows {window_rows[0]}–{window_rows[-1]}: {msg}")
                 centre = window_rows[len(window_rows) // 2]
                 flags.append(PointFlag(centre, self.id, s.severity, msg))

@@ -8,15 +8,7 @@ from ..results import CheckResult, PointFlag
 from ._util import fmt, rows_text, worst_status
 from .duplicates import expected_scatter_lnP, explained_reason, group_series, series_points
 from .registry import Check, Option, register
-from ..thermo.stats import mad_degrees_of_freedom
-
-
-def _coverage_for_estimated_scale(k: float, dof: float) -> float:
-    """The Student t quantile [-] with `dof` degrees of freedom of the one-sided probability that
-    k has under a known (normal) scale: k itself for a scale known from many rows."""
-    from scipy.stats import norm, t
-
-    return float(t.isf(norm.sf(k), max(dof, 1.0))) if dof < 1e6 else k
+from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
 
 
 @register
@@ -96,7 +88,7 @@ class Monotonic(Check):
             # coverage factor k, meant for a known scale, becomes the Student t quantile of the same
             # one-sided probability with those degrees of freedom (a 19-row series scattering 14 % had
             # a MAD of 7 % and falls of 3.6 "σ" between honest neighbours)
-            k = s["k"] if not (named and source) else _coverage_for_estimated_scale(
+            k = s["k"] if not (named and source) else coverage_for_estimated_scale(
                 s["k"], mad_degrees_of_freedom(len(pts)) + mad_degrees_of_freedom(prior_rows))
             kept = [p for p in pts if not explained_reason(ctx, p)]
             # replicates (one temperature within its printed resolution) are the duplicates check's;

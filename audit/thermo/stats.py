@@ -22,7 +22,7 @@ from scipy import stats
 
 from .enthalpy import heat_capacity_change
 
-__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "grouped_residual_runs", "RepeatedMedianLine",
+__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "grouped_residual_runs", "coverage_for_estimated_scale", "RepeatedMedianLine",
            "repeated_median_line", "mad_scale", "MAD_EFFICIENCY", "mad_degrees_of_freedom"]
 
 
@@ -229,9 +229,10 @@ def grouped_residual_runs(residuals_sorted_by_T, groups) -> RunsTest:
     Parameters
     ----------
     residuals_sorted_by_T : array_like
-        Residuals in order of increasing T.
+        Residuals in order of increasing T [any unit: only their signs count].
     groups : sequence
-        The group (source) of each residual; one group gives :func:`residual_runs`.
+        The label of each residual's group (its source); one group gives
+        :func:`residual_runs`.
 
     Returns
     -------
@@ -299,6 +300,39 @@ MAD_NORMAL = 0.6744897501960817
 #: doi:10.1080/01621459.1993.10476408): its variance is that of a standard deviation
 #: from 0.37 times as many points
 MAD_EFFICIENCY = 0.37
+
+
+def coverage_for_estimated_scale(k: float, dof: float) -> float:
+    """The coverage factor for a scale estimated with `dof` degrees of freedom.
+
+    The Student t quantile of the one-sided probability that `k` has under a
+    known (normal) scale: a deviation of k "σ" with σ from a handful of rows
+    is far likelier than with σ known.
+
+    Parameters
+    ----------
+    k : float
+        Coverage factor for a known scale [-].
+    dof : float
+        Degrees of freedom the scale is known with [-] (at least 1 is used).
+
+    Returns
+    -------
+    float
+        The factor [-]; `k` itself for 10⁶ degrees of freedom or more.
+
+    Examples
+    --------
+    Three σ (one-sided 0.135 %) with a scale from five degrees of freedom
+    (Student t tables give t = 5.893 at 0.1 % and 4.773 at 0.25 %, five
+    degrees of freedom, which bracket it):
+
+    >>> round(coverage_for_estimated_scale(3.0, 5.0), 2)
+    5.51
+    """
+    if not dof < 1e6:
+        return k
+    return float(stats.t.isf(stats.norm.sf(k), max(dof, 1.0)))
 
 
 def mad_degrees_of_freedom(n: int) -> float:

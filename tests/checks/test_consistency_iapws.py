@@ -291,3 +291,40 @@ def test_gross_errors_do_not_move_the_phase_break(default_profile):
     assert split.status == "warn" and abs(split.metrics["T_break_K"] - T_TRIPLE) < 2.0, split.message
     good = [p for k, p in enumerate(res.points) if k not in (2, 19, 20, 21)]
     assert all((p.phase == "solid") == (p.T_K < T_TRIPLE) for p in good)
+
+
+def test_window_of_a_small_scattered_source_is_judged_with_its_scale_uncertain(default_profile):
+    # a clean toluene compilation (see the file's first line): five rows of one source scattering
+    # 5 % make a window 4.2 u off the smooth ΔH, u from a σ known from those five rows and a prior;
+    # with the Student t quantile for that σ's few degrees of freedom this is noise, not a cluster
+    from pathlib import Path
+
+    from audit.ingest import read_table
+
+    path = Path(__file__).parents[1] / "regressions" / "data" / "clean_compilation_window_on_noise.csv"
+    res = run_audit(read_table(path), default_profile)
+    assert _check(res, "enthalpy-continuity").status == "pass", _check(res, "enthalpy-continuity").message
+
+
+def test_a_bent_stretch_of_a_large_named_source_is_still_flagged(default_profile):
+    # IAPWS-95 water, two named series of 80 rows at 1 %; in one, six neighbouring rows (41-46)
+    # carry a ramp of 0 to +7 % in P, a local slope no smooth ΔH follows.  Each source's σ is known
+    # with 0.37·(n − 1) + 0.37·(8 − 1) degrees of freedom (its MAD and the prior's), so the limit
+    # is the Student t quantile of the one-sided probability of 4 σ (scipy.stats, independently)
+    from scipy.stats import norm, t
+
+    rng = np.random.default_rng(12)
+    T = np.concatenate([np.linspace(290.0, 370.0, 80), np.linspace(292.0, 368.0, 80)])
+    P = iapws_saturation_pressure(T) * (1 + 0.01 * rng.standard_normal(T.size))
+    P[40:46] *= 1 + np.linspace(0.0, 0.07, 6)
+    res = run_audit(from_arrays(T, P, phase="liquid", source=["Lab A"] * 80 + ["Lab B"] * 80), default_profile)
+    chk = _check(res, "enthalpy-continuity")
+    assert chk.status == "warn", chk.message
+    import re
+
+    n_used = sum(p.status != "reject" for p in res.points if p.source == "Lab A")  # rows the fit used
+    limit = t.isf(norm.sf(4.0), 0.37 * (n_used - 1) + 0.37 * 7)
+    printed = float(re.search(r"limits ([0-9.]+) u", chk.message).group(1))
+    assert printed == pytest.approx(limit, abs=0.005)
+    flagged = {f.row for f in chk.flags}
+    assert flagged and flagged <= set(range(38, 50))

@@ -1,8 +1,8 @@
 """Trouton's ratio of a series' own line, against water's (IAPWS-95, ``iapws`` package).
 
-Reference: ΔH_vap of water at its normal boiling point 373.124 K is
-40.657 kJ/mol (IAPWS-95 via the IAPWS-IF97 steam tables' 2256.4 kJ/kg ×
-18.015 g/mol; quoted from memory of the tables), so ΔH/T_b = 109.0 J mol⁻¹ K⁻¹.
+Reference: ΔH_vap of water at its normal boiling point, from IAPWS-95
+(``tests/references/iapws95_enthalpy.py``: 40.651 kJ/mol at 373.124 K), so
+ΔH/T_b = 108.9 J mol⁻¹ K⁻¹.
 A straight ln P–1/T line through 330–370 K carries the larger apparent ΔH of
 those temperatures (about 42 kJ/mol), so its ratio lies a few percent above.
 """
@@ -15,12 +15,14 @@ import pytest
 from audit.thermo.trouton import line_trouton_ratio
 from tests.conftest import iapws_saturation_pressure
 
+from ..references.iapws95_enthalpy import DH_VAP_TB, T_BOILING
+
 
 def test_water_line_gives_troutons_ratio_near_the_steam_tables():
     T = np.linspace(330.0, 370.0, 9)
     line = line_trouton_ratio(T, np.log(iapws_saturation_pressure(T)))
-    assert line.ratio == pytest.approx(40657.0 / 373.124, rel=0.05)
-    assert line.T_boiling == pytest.approx(373.124, abs=1.0)
+    assert line.ratio == pytest.approx(DH_VAP_TB / T_BOILING, rel=0.05)
+    assert line.T_boiling == pytest.approx(T_BOILING, abs=1.0)
     assert line.u_ratio < 0.5  # exact values: only the line's misfit of the curvature
 
 

@@ -564,6 +564,7 @@ def _trouton_reading(ctx, rows, printed_unit, branch, s):
     """
     from ..diagnose.source_units import source_temperature_unit_by_trouton
     from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+    from .copied_values import printed_value
 
     lo, hi = s["trouton_band"]
     if base_phase(branch) != "liquid":
@@ -576,8 +577,12 @@ def _trouton_reading(ctx, rows, printed_unit, branch, s):
             curve = fit_equation(T_o, np.array([p.P_Pa for p in others]), "cc2", robust=True).equation.ln_p
         except InsufficientData:
             curve = None
+    # each pressure's rounding, an integer's trailing zeros not counted ("2000" printed to one digit
+    # is known to ±500): the cautious reading, for a claim made on the series' own line alone
+    u_print = np.array([printed_value(p.P_text, p.P_text_unit).resolution_lnP / math.sqrt(12.0) for p in rows])
+    u_print = np.where(np.isfinite(u_print) & (u_print > 0), u_print, 1e-6)
     reading = source_temperature_unit_by_trouton(
-        [p.T_K for p in rows], np.log([p.P_Pa for p in rows]), printed_unit, (lo, hi), s["k"], curve)
+        [p.T_K for p in rows], np.log([p.P_Pa for p in rows]), printed_unit, (lo, hi), s["k"], curve, u_print)
     if reading is None:
         return None
     real, shown = _SCALE_NAMES[reading.real_unit], _SCALE_NAMES[reading.printed_unit]

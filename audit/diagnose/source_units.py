@@ -261,7 +261,7 @@ class TroutonTemperatureReading(TemperatureScaleReading):
 
 
 def source_temperature_unit_by_trouton(T_K, ln_P, printed_unit: str, band, k: float,
-                                       curve_ln_p=None) -> TroutonTemperatureReading | None:
+                                       curve_ln_p=None, u_lnP=None) -> TroutonTemperatureReading | None:
     """The temperature scale whose reading gives a series a Trouton ratio a substance can have.
 
     For a series no other source reaches, where no curve can judge it: as
@@ -286,6 +286,9 @@ def source_temperature_unit_by_trouton(T_K, ln_P, printed_unit: str, band, k: fl
         Coverage factor on the printed ratio's uncertainty [-].
     curve_ln_p : callable, optional
         ln P [ln Pa] of the others' curve at T [K].
+    u_lnP : array_like, optional
+        Each pressure's standard uncertainty in ln P [-] (its printed rounding):
+        the printed ratio's uncertainty is never below what they allow.
 
     Returns
     -------
@@ -313,7 +316,7 @@ def source_temperature_unit_by_trouton(T_K, ln_P, printed_unit: str, band, k: fl
     lo, hi = band
     if T_K.size < 3 or not np.all(np.isfinite(T_K)) or not np.all(np.isfinite(ln_P)):
         return None
-    printed = line_trouton_ratio(T_K, ln_P) if np.all(T_K > 0) else None
+    printed = line_trouton_ratio(T_K, ln_P, u_lnP) if np.all(T_K > 0) else None
     if printed is not None:
         if lo - k * printed.u_ratio <= printed.ratio <= hi + k * printed.u_ratio:
             return None  # as printed, a substance could have it
@@ -321,7 +324,7 @@ def source_temperature_unit_by_trouton(T_K, ln_P, printed_unit: str, band, k: fl
         return None  # no line as printed (pressure falling, too few temperatures): nothing to compare
     readings = []
     for alt, T_alt in _other_scales(T_K, unit):
-        line = line_trouton_ratio(T_alt, ln_P) if np.all(T_alt > 0) else None
+        line = line_trouton_ratio(T_alt, ln_P, u_lnP) if np.all(T_alt > 0) else None
         if line is not None and lo <= line.ratio <= hi:
             readings.append((alt, T_alt, line))
     if len(readings) > 1:

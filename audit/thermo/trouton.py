@@ -62,7 +62,7 @@ class LineTrouton:
     T_boiling: float
 
 
-def line_trouton_ratio(T_K, ln_P) -> LineTrouton | None:
+def line_trouton_ratio(T_K, ln_P, u_lnP=None) -> LineTrouton | None:
     """Trouton's ratio of the least-squares line ln P = A + B/T through a series.
 
     Parameters
@@ -71,6 +71,12 @@ def line_trouton_ratio(T_K, ln_P) -> LineTrouton | None:
         Temperatures [K], all positive.
     ln_P : array_like
         ln of the pressures [ln Pa].
+    u_lnP : array_like, optional
+        Each pressure's standard uncertainty in ln P [-], e.g. from its printed
+        rounding.  With it the line is weighted and the intercept's
+        uncertainty is the larger of what these u and the residuals give
+        (Birge ratio at least 1): pressures printed to one digit follow a
+        staircase that a line fits closely, yet say little about its intercept.
 
     Returns
     -------
@@ -97,19 +103,25 @@ def line_trouton_ratio(T_K, ln_P) -> LineTrouton | None:
     if np.any(T <= 0) or np.unique(T).size < 3:
         return None
     x = 1.0 / T
-    X = np.column_stack([np.ones_like(x), x - x.mean()])
-    coef, *_ = np.linalg.lstsq(X, y, rcond=None)
+    u = None if u_lnP is None else np.asarray(u_lnP, float)
+    weighted = u is not None and u.size == T.size and bool(np.all(np.isfinite(u) & (u > 0)))
+    w = 1.0 / u ** 2 if weighted else np.ones_like(x)
+    x_mean = float(np.sum(w * x) / np.sum(w))
+    X = np.column_stack([np.ones_like(x), x - x_mean])
+    sw = np.sqrt(w)
+    coef, *_ = np.linalg.lstsq(X * sw[:, None], y * sw, rcond=None)
     a_c, b = float(coef[0]), float(coef[1])
     if not b < 0:
         return None
     resid = y - X @ coef
     dof = T.size - 2
-    s2 = float(resid @ resid) / dof if dof > 0 else 0.0
-    cov = s2 * np.linalg.inv(X.T @ X)
+    chi2_per_dof = float(np.sum(w * resid ** 2)) / dof if dof > 0 else 0.0
+    scale = max(1.0, chi2_per_dof) if weighted else chi2_per_dof
+    cov = scale * np.linalg.inv((X * w[:, None]).T @ X)
     # A = a_c − b·x̄ (the intercept at 1/T = 0); its variance from the centred fit's covariance
-    grad = np.array([1.0, -x.mean()])
+    grad = np.array([1.0, -x_mean])
     var_A = float(grad @ cov @ grad)
-    A = a_c - b * float(x.mean())
+    A = a_c - b * x_mean
     ratio = R * (A - math.log(P_ATM))
     excess = A - math.log(P_ATM)
     T_b = -b / excess if excess > 0 else math.inf

@@ -60,3 +60,18 @@ def test_isolated_series_printed_right_is_left_alone(default_profile):
     x = {s.source: s for s in result.sources}["Lab X"]
     assert x.extra.get("cause") is None
     assert all(p.status != "reject" for p in result.points)
+
+
+def test_isolated_series_printed_to_one_digit_is_not_reread(default_profile):
+    # acetone, CoolProp (see the file's first line): printed to one digit, the series' own line
+    # says little about its intercept, so its Trouton ratio is no evidence of another scale
+    from pathlib import Path
+
+    from audit.ingest import read_table
+
+    path = Path(__file__).parents[1] / "regressions" / "data" / "isolated_one_digit_series.csv"
+    result = run_audit(read_table(path), default_profile)
+    jensen = {s.source: s for s in result.sources}["Jensen 1904"]
+    assert jensen.extra.get("isolated") is True
+    assert jensen.extra.get("cause") is None
+    assert not any(p.status == "reject" for p in result.points if p.source == "Jensen 1904")

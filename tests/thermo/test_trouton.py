@@ -37,3 +37,20 @@ def test_water_printed_in_celsius_under_kelvin_gives_no_substances_ratio():
                                  ([-5.0, 310.0, 320.0], [1.0, 2.0, 3.0])])  # below 0 K
 def test_no_line_no_ratio(T, P):
     assert line_trouton_ratio(T, np.log(P)) is None
+
+
+def test_pressures_printed_to_one_digit_leave_the_intercept_uncertain():
+    # water at 400-430 K (IAPWS-95) printed to one significant digit: a staircase of 200000,
+    # 300000, ... Pa.  With each value's rounding (step/√12) as its u, the ratio's uncertainty is
+    # never below what the rounding alone propagates to the intercept (numpy's weighted polyfit,
+    # unscaled covariance, computed independently here)
+    T = np.linspace(400.0, 430.0, 12)
+    P = iapws_saturation_pressure(T)
+    step = 10.0 ** np.floor(np.log10(P))
+    printed = np.round(P / step) * step
+    u = step / np.sqrt(12.0) / printed
+    line = line_trouton_ratio(T, np.log(printed), u)
+    _, cov = np.polyfit(1.0 / T, np.log(printed), 1, w=1.0 / u, cov="unscaled")
+    R = 8.314462618
+    assert line.u_ratio >= R * np.sqrt(cov[1, 1]) * (1 - 1e-9)
+    assert abs(line.ratio - DH_VAP_TB / T_BOILING) < 3 * line.u_ratio

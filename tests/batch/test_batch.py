@@ -146,7 +146,10 @@ def test_ctrl_c_leaves_every_dataset_folder_complete_or_absent(tmp_path):
     out = tmp_path / "out"
     proc = subprocess.Popen([sys.executable, "-m", "audit", "batch", str(folder), "--out", str(out), "--jobs", "2",
                              "--format", "json,csv,html", "--no-progress"], cwd=ROOT,
-                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, start_new_session=True)
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, start_new_session=True,
+                            # SIGINT back to its default in the child: a shell running the tests in the
+                            # background starts them with SIGINT ignored, and the child would inherit that
+                            preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
     deadline = time.monotonic() + 120
     while time.monotonic() < deadline and not any((out / f"t{k:02d}" / "report.html").exists() for k in range(40)):
         time.sleep(0.1)

@@ -109,6 +109,16 @@ def test_formats_not_asked_for_are_left_alone(tmp_path, rich_result):
 
 
 def test_sigint_during_the_renames_waits_for_the_whole_set(tmp_path, monkeypatch):
+    # Python's own Ctrl-C handler, whatever this process started with (a shell running the tests
+    # in the background starts them with SIGINT ignored)
+    previous = signal.signal(signal.SIGINT, signal.default_int_handler)
+    try:
+        _sigint_between_renames(tmp_path, monkeypatch)
+    finally:
+        signal.signal(signal.SIGINT, previous)
+
+
+def _sigint_between_renames(tmp_path, monkeypatch):
     renamed = []
     real_replace = os.replace
 

@@ -13,6 +13,7 @@ from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.replicates import (departure_from_median, difference_scale, median_departures,
                                  replicate_differences, replicate_groups)
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
+from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
 from ._util import fmt, rows_text, worst_status
 from .registry import Check, Option, register
 
@@ -126,7 +127,10 @@ class Duplicates(Check):
     replicate scatter from its other groups (a robust scale of the
     within-group differences, once there are ``min_scatter_differences``).
     A replicate is suspect when it departs by more than ``k`` times that
-    scatter, more than what rounding to the printed digits alone explains,
+    scatter (for a named source, whose scatter is known only from its own
+    rows and a prior's, ``k`` becomes the Student t quantile of the same
+    one-sided probability, as in ``outliers``), more than what rounding to
+    the printed digits alone explains,
     and more than the floor ``P_tolerance_percent``.  A row repeated to the
     digit is noted (copied twice?), not suspected.
 
@@ -194,10 +198,16 @@ class Duplicates(Check):
         n_pairs = n_groups = n_rep_rows = 0
         source_scatter: dict[str, float] = {}
 
+        named = bool(ctx.dataset.sources)
+        prior_dof = mad_degrees_of_freedom(ctx.settings("outliers")["min_points_source_scale"])
         for (branch, source), pts in series_points(ctx).items():
             groups = [g for g in group_series(pts, s["T_tolerance_K"], k) if len(g) >= 2]
             if not groups:
                 continue
+            # a named source's σ is known from its own rows and a prior's (as in outliers): the
+            # departure limit k·σ takes the Student t quantile of k's one-sided probability
+            k_dep = (coverage_for_estimated_scale(k, mad_degrees_of_freedom(len(pts)) + prior_dof)
+                     if named and source else k)
             # per group: kept rows, one per printed (T, P) — a copy adds no information
             # on scatter — and the rows already explained
             prepared = []
@@ -243,8 +253,8 @@ class Duplicates(Check):
                 label = f"source {source!r}" if source else "the table"
 
                 def limit_text(sd, res):
-                    lim = max(k * sd, res, floor_ln)
-                    return lim, (f"limit {percent_from_log_ratio(lim):.3g} % (k·σ {100 * k * sd:.3g} %, "
+                    lim = max(k_dep * sd, res, floor_ln)
+                    return lim, (f"limit {percent_from_log_ratio(lim):.3g} % (k·σ {100 * k_dep * sd:.3g} %, "
                                  f"printed digits {100 * res:.3g} %, floor {s['P_tolerance_percent']:g} %)")
 
                 if len(reps) >= 2:

@@ -217,3 +217,18 @@ def test_monotonic_allows_the_falls_a_scattered_series_makes(default_profile, se
     assert np.any(P[1:] < P[:-1] * 0.995)
     res = run_audit(ds, default_profile)
     assert thawed(_check(res, "monotonic").metrics["pairs"]) == []
+
+
+def test_a_replicate_of_a_small_scattered_source_is_judged_with_its_scale_uncertain(default_profile):
+    # a clean acetone compilation (CoolProp curve; see the file's first line): one of three
+    # replicates of 'Adams 1932' at 352.5 K departs -21.8 % from their median, 1.3 k sigma with sigma
+    # known only from that source's rows and a prior's; at the Student t quantile of those degrees
+    # of freedom (as outliers and monotonic judge a named source) that is the source's noise
+    from pathlib import Path
+
+    from audit.ingest import read_table
+
+    path = Path(__file__).parents[1] / "regressions" / "data" / "clean_compilation_replicate_on_noise.csv"
+    res = run_audit(read_table(path), default_profile)
+    dup = next(c for c in res.checks if c.id == "duplicates")
+    assert dup.status == "pass", dup.message

@@ -28,13 +28,18 @@ class ClapeyronLinearity(Check):
     −30 to −120 J mol⁻¹ K⁻¹ for liquids near room temperature), so a
     significant curvature of that sign and size is physics and passes.  A
     curvature implying ΔH rising with temperature (ΔCp > 0 beyond its
-    uncertainty, for a liquid), or an implausibly large |ΔCp|, points to a
+    uncertainty, for a liquid: with the phase not known it is reported, not
+    flagged, since a sublimation's ΔCp is positive at low temperatures, as
+    ice's below about 200 K), or an implausibly large |ΔCp|, points to a
     temperature-scale error, mixed sources or a mislabelled branch; residual
     runs left by the recommended equation mean no smooth curve describes
     the data in that temperature range.
 
     **Method.** Weighted least squares on ln P with the effective variance
-    σ²(ln P) = (u_P/P)² + (d ln P/dT)² u_T², nested-model F (or χ²) test;
+    σ²(ln P) = (u_P/P)² + (d ln P/dT)² u_T², nested-model F (or χ²) test —
+    with two or more named sources, both forms with a level of their own for
+    each source (:func:`audit.thermo.stats.curvature_test_with_levels`), so
+    that sources a little apart do not bend the common curve;
     equation chosen by AICc among physically sane candidates
     (:func:`audit.thermo.fitting.select_equation`); runs test on the signs of
     the recommended fit's residuals — with named sources, runs counted
@@ -79,7 +84,7 @@ class ClapeyronLinearity(Check):
 
     def run(self, ctx):
         from ..thermo.fitting import distinct_temperatures, fit_equation
-        from ..thermo.stats import curvature_test, grouped_residual_runs
+        from ..thermo.stats import curvature_test, curvature_test_with_levels, grouped_residual_runs
 
         s = ctx.settings(self.id)
         per_branch, flags, warn_texts, metrics = [], [], [], {}
@@ -95,6 +100,16 @@ class ClapeyronLinearity(Check):
             f2 = fit_equation(data.T, data.P, "cc2", data.u_T, data.u_P, robust=False, point_weights=w)
             f3 = fit_equation(data.T, data.P, "cc3", data.u_T, data.u_P, robust=False, point_weights=w)
             curv = curvature_test(f2, f3)
+            # with named sources, within each source: two sources a little apart bend a common curve
+            source_of = {p.row: p.source or "" for p in ctx.dataset.points}
+            src = [source_of.get(int(r), "") for r in data.rows]
+            on = w > 0
+            if len({x for x, u in zip(src, on) if u and x}) >= 2:
+                try:
+                    curv = curvature_test_with_levels(data.T[on], np.log(data.P[on]), f3.sigma_lnP_scaled[on],
+                                                      [x for x, u in zip(src, on) if u])
+                except ValueError:
+                    pass  # the sources' temperatures do not fix a curvature within them: the common one
             m = {"n": data.n, "curvature_p_value": curv.p_value, "curvature_test": curv.method,
                  "dCp_J_per_mol_K": curv.dCp, "u_dCp_J_per_mol_K": curv.u_dCp, "T_ref_K": curv.T_ref,
                  "recommended_equation": choice.chosen_name,
@@ -105,10 +120,16 @@ class ClapeyronLinearity(Check):
             dcp_txt = f"ΔCp = {curv.dCp:.3g} ± {curv.u_dCp:.2g} J mol⁻¹ K⁻¹ at {curv.T_ref:.1f} K"
             if not significant:
                 text.append(f"no significant curvature (p = {curv.p_value:.2g} ≥ {s['curvature_alpha']})")
-            elif not is_solid(branch) and curv.dCp - s["positive_dCp_k"] * curv.u_dCp > 0:
+            elif (not is_solid(branch) and abs(curv.dCp) <= band
+                  and curv.dCp - s["positive_dCp_k"] * curv.u_dCp > 0):
                 text.append(f"curvature implies ΔH rising with T: {dcp_txt} > 0 "
                             f"(more than {s['positive_dCp_k']}·u)")
-                warn_texts.append(text[-1])
+                if branch == "unknown":
+                    # a sublimation's ΔCp (vapour minus crystal) is positive at low temperatures, as
+                    # ice's below about 200 K: with the phase not known this is no finding
+                    text.append(" — impossible for a vaporization, possible for a sublimation (phase not known)")
+                else:
+                    warn_texts.append(text[-1])
             elif abs(curv.dCp) > band:
                 text.append(f"curvature implies |ΔCp| beyond the plausible band: {dcp_txt}, limit {band:g}")
                 warn_texts.append(text[-1])

@@ -120,7 +120,7 @@ def recommended(ctx: AuditContext, branch: str):
         try:
             choice = select_equation(data.T, data.P, data.u_T, data.u_P,
                                      Tc=md.get("T_critical"), Pc=md.get("P_critical"),
-                                     branch=base_phase(branch) if branch != "unknown" else "liquid")
+                                     branch=base_phase(branch))
         except ValueError as exc:  # e.g. degenerate data: report, don't crash
             ctx.notes.append(f"no equation could be fitted to the {branch} branch: {exc}")
     cache[branch] = (choice, data)

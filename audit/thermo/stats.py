@@ -22,7 +22,8 @@ from scipy import stats
 
 from .enthalpy import heat_capacity_change
 
-__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "RunsTest", "residual_runs", "grouped_residual_runs", "coverage_for_estimated_scale", "RepeatedMedianLine",
+__all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "curvature_test_with_levels", "RunsTest",
+           "residual_runs", "grouped_residual_runs", "coverage_for_estimated_scale", "RepeatedMedianLine",
            "repeated_median_line", "mad_scale", "MAD_EFFICIENCY", "mad_degrees_of_freedom"]
 
 
@@ -105,6 +106,91 @@ def curvature_test(fit2, fit3) -> CurvatureTest:
     cp = heat_capacity_change(fit3, fit3.T_ref)
     return CurvatureTest(method=method, statistic=float(stat), p_value=p, df=df, dCp=float(cp.value),
                          u_dCp=float(cp.uncertainty), T_ref=fit3.T_ref)
+
+
+def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups) -> CurvatureTest:
+    """The curvature test of :func:`curvature_test` with a level of its own for each group.
+
+    In a compilation each source sits a little off the others; a source a
+    little high at the ends of the range and one a little low in the middle
+    bend a common curve as a real curvature would.  Here both forms,
+
+        ln P = a_g + B/T          and          ln P = a_g + B/T + C ln T,
+
+    give each group (source) g its own level a_g, so the curvature is measured
+    within the sources only.  Weighted least squares with the points' σ,
+    scale estimated (F test on Δχ² with n − G − 2 residual degrees of freedom
+    for G groups); ΔCp = R·C exactly for this form, u(ΔCp) = R·u(C).
+
+    Parameters
+    ----------
+    T_K : array_like
+        Temperatures [K].
+    ln_P : array_like
+        ln of the pressures [ln Pa].
+    sigma_lnP : array_like
+        Each point's standard uncertainty in ln P [-] (relative weights; the
+        scale is estimated).
+    groups : sequence
+        Each point's group label (its source).
+
+    Returns
+    -------
+    CurvatureTest
+        Method 'F', the statistic, p value and implied ΔCp (no unit; the units
+        of its fields are in the docstring of :class:`CurvatureTest`);
+        ``T_ref`` is the weighted mean temperature (1/mean of 1/T).
+
+    Raises
+    ------
+    ValueError
+        When the curved form leaves no residual degree of freedom.
+
+    Notes
+    -----
+    Verified against statsmodels ``WLS`` with one indicator column per group
+    (``compare_f_test`` and the standard error of the ln T coefficient) in
+    ``tests/thermo/test_stats_curvature_levels.py``.
+    """
+    from .constants import R
+
+    T = np.asarray(T_K, float)
+    y = np.asarray(ln_P, float)
+    sig = np.asarray(sigma_lnP, float)
+    labels = list(dict.fromkeys(groups))
+    code = np.array([labels.index(g) for g in groups])
+    n, G = T.size, len(labels)
+    dof3 = n - G - 2
+    if dof3 < 1 or not (np.all(np.isfinite(T)) and np.all(T > 0) and np.all(np.isfinite(y))
+                        and np.all(np.isfinite(sig)) and np.all(sig > 0)):
+        raise ValueError("too few points for a curvature within the groups")
+    w = 1.0 / sig ** 2
+    x = 1.0 / T
+    T_ref = 1.0 / float(np.sum(w * x) / np.sum(w))
+    levels = np.zeros((n, G))
+    levels[np.arange(n), code] = 1.0
+    # centred regressors keep the normal equations well conditioned
+    X2 = np.column_stack([levels, x - 1.0 / T_ref])
+    X3 = np.column_stack([X2, np.log(T / T_ref)])
+    sw = np.sqrt(w)
+
+    def wls(X):
+        beta, *_ = np.linalg.lstsq(X * sw[:, None], y * sw, rcond=None)
+        r = y - X @ beta
+        return beta, float(np.sum(w * r * r))
+
+    _, chi2_2 = wls(X2)
+    beta3, chi2_3 = wls(X3)
+    if np.linalg.matrix_rank(X3 * sw[:, None]) < X3.shape[1]:
+        raise ValueError("the groups' temperatures do not determine a curvature")
+    d_chi2 = max(chi2_2 - chi2_3, 0.0)
+    s2 = chi2_3 / dof3
+    F = d_chi2 / s2 if s2 > 0 else math.inf
+    p = float(stats.f.sf(F, 1, dof3))
+    cov = s2 * np.linalg.inv((X3 * w[:, None]).T @ X3)
+    C, u_C = float(beta3[-1]), math.sqrt(max(float(cov[-1, -1]), 0.0))
+    return CurvatureTest(method="F", statistic=float(F), p_value=p, df=(1, dof3), dCp=R * C, u_dCp=R * u_C,
+                         T_ref=T_ref)
 
 
 @dataclass(frozen=True)

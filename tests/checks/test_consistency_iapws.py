@@ -328,3 +328,35 @@ def test_a_bent_stretch_of_a_large_named_source_is_still_flagged(default_profile
     assert printed == pytest.approx(limit, abs=0.005)
     flagged = {f.row for f in chk.flags}
     assert flagged and flagged <= set(range(38, 50))
+
+
+def test_unlabelled_ice_with_positive_dcp_is_not_taken_for_a_bad_liquid(default_profile):
+    # ice Ih at 180-245 K from IAPWS R14-08, two series without phase labels: the sublimation
+    # curve's own ΔCp is positive here (vapour minus crystal), as a straight-plus-log-T fit of the
+    # exact IAPWS values shows (numpy least squares, below).  With the phase not known the curved
+    # fit stands and nothing is flagged for it
+    rng = np.random.default_rng(5)
+    T = np.concatenate([np.linspace(180, 240, 20), np.linspace(185, 245, 18)])
+    exact = iapws_sublimation_pressure(T)
+    X = np.column_stack([np.ones_like(T), 1 / T, np.log(T)])
+    C_exact = np.linalg.lstsq(X, np.log(exact), rcond=None)[0][2]
+    assert C_exact > 0
+    P = exact * (1 + 0.0005 * rng.standard_normal(T.size))
+    res = run_audit(from_arrays(T, P, source=["Lab A"] * 20 + ["Lab B"] * 18), default_profile)
+    chk = _check(res, "clapeyron-linearity")
+    assert chk.status == "pass", chk.message
+    m = chk.metrics["unknown"]
+    assert m["dCp_J_per_mol_K"] == pytest.approx(8.314462618 * C_exact, abs=3 * m["u_dCp_J_per_mol_K"] + 0.5)
+    assert "possible for a sublimation" in chk.message
+
+
+def test_positive_dcp_of_a_labelled_liquid_is_flagged(default_profile):
+    # IAPWS-95 water at 280-370 K printed at temperatures stretched 1.5-fold about 280 K (a
+    # thermometer scale error): the implied ΔH then rises with T, impossible for a vaporization
+    rng = np.random.default_rng(5)
+    T = np.linspace(280, 370, 25)
+    P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
+    res = run_audit(from_arrays(280 + (T - 280) * 1.5, P, phase="liquid"), default_profile)
+    chk = _check(res, "clapeyron-linearity")
+    assert chk.status == "warn" and "ΔH rising with T" in chk.message
+    assert chk.metrics["liquid"]["dCp_J_per_mol_K"] > 0

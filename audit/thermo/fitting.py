@@ -667,10 +667,12 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
     Tc, Pc : float, optional
         Critical constants [K], [Pa]; the Wagner forms are offered only with them.
     branch : {'liquid', 'solid', 'unknown'}
-        Name of the condensed phase.  The ΔCp < 0 rule is applied to 'liquid'
-        only: for solids ΔCp = Cp,gas - Cp,solid may be positive at low
-        temperature (ice below about 240 K), and a branch of unknown phase may
-        be a solid's.
+        Name of the condensed phase.  The ΔCp < 0 rule is applied to 'liquid' and
+        'unknown': for solids ΔCp = Cp,gas - Cp,solid may be positive at low
+        temperature (ice below about 240 K).  A branch of unknown phase may be
+        a solid's, but without the rule a curve bends through two unrelated
+        series (a series in °C under a kelvin header beside the rest) and
+        passes for a sublimation.
     robust : bool
         Flag: screen gross errors with a robust Clausius-Clapeyron fit first; the
         resulting weights are used for all candidates so that their AICc
@@ -749,7 +751,7 @@ def select_equation(T, P, u_T=None, u_P=None, candidates: Sequence[str] = DEFAUL
         if nchg > 1:
             reasons.append(f"implied ΔH(T) oscillates ({nchg} changes of direction in range)")
         cp = heat_capacity_change(fit, fit.T_ref)
-        if branch == "liquid" and cp.value - significance * cp.uncertainty > 0:
+        if branch != "solid" and cp.value - significance * cp.uncertainty > 0:
             reasons.append(f"implied ΔCp = {cp.value:.3g} ± {cp.uncertainty:.2g} J/(mol K) at "
                            f"{fit.T_ref:.5g} K is significantly positive (ΔCp < 0 for a liquid)")
         if not fit.converged:

@@ -75,3 +75,18 @@ def test_isolated_series_printed_to_one_digit_is_not_reread(default_profile):
     assert jensen.extra.get("isolated") is True
     assert jensen.extra.get("cause") is None
     assert not any(p.status == "reject" for p in result.points if p.source == "Jensen 1904")
+
+
+def test_good_series_beside_one_in_celsius_keeps_its_rows(default_profile):
+    # water, IAPWS-IF97 (see the file's first line): the series in °C under a kelvin header is read
+    # in °C from its own Trouton ratio, and the good series beside it keeps every row
+    from pathlib import Path
+
+    from audit.ingest import read_table
+
+    path = Path(__file__).parents[1] / "regressions" / "data" / "celsius_series_beside_good_series_unknown_phase.csv"
+    result = run_audit(read_table(path), default_profile)
+    by = {s.source: s for s in result.sources}
+    assert by["Quist 2000"].extra["cause"]["kind"] == "temperature-unit"
+    assert by["Tanaka 1934"].status == "ok"
+    assert not any(p.status == "reject" for p in result.points if p.source == "Tanaka 1934")

@@ -107,7 +107,8 @@ class ClapeyronLinearity(Check):
             if len({x for x, u in zip(src, on) if u and x}) >= 2:
                 try:
                     curv = curvature_test_with_levels(data.T[on], np.log(data.P[on]), f3.sigma_lnP_scaled[on],
-                                                      [x for x, u in zip(src, on) if u])
+                                                      [x for x, u in zip(src, on) if u],
+                                                      scale_known=not f3.scale_estimated)
                 except ValueError:
                     pass  # the sources' temperatures do not fix a curvature within them: the common one
             m = {"n": data.n, "curvature_p_value": curv.p_value, "curvature_test": curv.method,

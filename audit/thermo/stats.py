@@ -108,7 +108,7 @@ def curvature_test(fit2, fit3) -> CurvatureTest:
                          u_dCp=float(cp.uncertainty), T_ref=fit3.T_ref)
 
 
-def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups) -> CurvatureTest:
+def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups, scale_known: bool = False) -> CurvatureTest:
     """The curvature test of :func:`curvature_test` with a level of its own for each group.
 
     In a compilation each source sits a little off the others; a source a
@@ -118,9 +118,11 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups) -> CurvatureTest:
         ln P = a_g + B/T          and          ln P = a_g + B/T + C ln T,
 
     give each group (source) g its own level a_g, so the curvature is measured
-    within the sources only.  Weighted least squares with the points' σ,
-    scale estimated (F test on Δχ² with n − G − 2 residual degrees of freedom
-    for G groups); ΔCp = R·C exactly for this form, u(ΔCp) = R·u(C).
+    within the sources only.  Weighted least squares with the points' σ:
+    with the scale estimated, an F test on Δχ² with n − G − 2 residual degrees
+    of freedom for G groups; with the σ stated (`scale_known`), Δχ² referred to
+    χ²(1), as :func:`curvature_test` does.  ΔCp = R·C exactly for this form,
+    u(ΔCp) = R·u(C).
 
     Parameters
     ----------
@@ -129,15 +131,17 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups) -> CurvatureTest:
     ln_P : array_like
         ln of the pressures [ln Pa].
     sigma_lnP : array_like
-        Each point's standard uncertainty in ln P [-] (relative weights; the
-        scale is estimated).
+        Each point's standard uncertainty in ln P [-] (relative weights unless
+        `scale_known`).
     groups : sequence
         Each point's group label (its source).
+    scale_known : bool
+        Flag: the σ are stated uncertainties, not to be rescaled by the residuals.
 
     Returns
     -------
     CurvatureTest
-        Method 'F', the statistic, p value and implied ΔCp (no unit; the units
+        Method 'F' or 'chi2', the statistic, p value and implied ΔCp (no unit; the units
         of its fields are in the docstring of :class:`CurvatureTest`);
         ``T_ref`` is the weighted mean temperature (1/mean of 1/T).
 
@@ -149,7 +153,8 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups) -> CurvatureTest:
     Notes
     -----
     Verified against statsmodels ``WLS`` with one indicator column per group
-    (``compare_f_test`` and the standard error of the ln T coefficient) in
+    (``compare_f_test``, the weighted residual sums of squares for a known scale, and the
+    standard errors of the ln T coefficient) in
     ``tests/thermo/test_stats_curvature_levels.py``.
     """
     from .constants import R
@@ -184,12 +189,15 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups) -> CurvatureTest:
     if np.linalg.matrix_rank(X3 * sw[:, None]) < X3.shape[1]:
         raise ValueError("the groups' temperatures do not determine a curvature")
     d_chi2 = max(chi2_2 - chi2_3, 0.0)
-    s2 = chi2_3 / dof3
-    F = d_chi2 / s2 if s2 > 0 else math.inf
-    p = float(stats.f.sf(F, 1, dof3))
+    if scale_known:
+        s2, stat, p, df, method = 1.0, d_chi2, float(stats.chi2.sf(d_chi2, 1)), (1,), "chi2"
+    else:
+        s2 = chi2_3 / dof3
+        stat = d_chi2 / s2 if s2 > 0 else math.inf
+        p, df, method = float(stats.f.sf(stat, 1, dof3)), (1, dof3), "F"
     cov = s2 * np.linalg.inv((X3 * w[:, None]).T @ X3)
     C, u_C = float(beta3[-1]), math.sqrt(max(float(cov[-1, -1]), 0.0))
-    return CurvatureTest(method="F", statistic=float(F), p_value=p, df=(1, dof3), dCp=R * C, u_dCp=R * u_C,
+    return CurvatureTest(method=method, statistic=float(stat), p_value=p, df=df, dCp=R * C, u_dCp=R * u_C,
                          T_ref=T_ref)
 
 

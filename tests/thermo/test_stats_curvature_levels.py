@@ -54,3 +54,23 @@ def test_source_offsets_do_not_bend_the_curve():
     res = curvature_test_with_levels(T, y, sig, g)
     assert res.dCp < 0
     assert abs(res.dCp - (-43.0)) < 3 * res.u_dCp + 10.0
+
+
+def test_with_stated_uncertainties_the_chi2_difference_is_referred_to_chi2_1():
+    # σ known: Δχ² = 2·(loglik₃ − loglik₂) of the weighted fits (statsmodels compare_lr_test,
+    # whose likelihoods estimate the scale, gives the same statistic only up to that scale), so the
+    # check is against the weighted residual sums of squares and bse without rescaling
+    T, y, sig, g = _three_series(seed=6)
+    res = curvature_test_with_levels(T, y, sig, g, scale_known=True)
+    dummies = np.column_stack([[x == k for x in g] for k in "ABC"]).astype(float)
+    X2 = np.column_stack([dummies, 1 / T])
+    X3 = np.column_stack([X2, np.log(T)])
+    w = 1 / sig ** 2
+    f2, f3 = sm.WLS(y, X2, weights=w).fit(), sm.WLS(y, X3, weights=w).fit()
+    d_chi2 = f2.ssr - f3.ssr  # WLS ssr is the weighted sum of squared residuals
+    assert res.method == "chi2" and res.df == (1,)
+    assert res.statistic == pytest.approx(d_chi2, rel=1e-6)
+    from scipy.stats import chi2
+
+    assert res.p_value == pytest.approx(chi2.sf(d_chi2, 1), rel=1e-6, abs=1e-300)
+    assert res.u_dCp == pytest.approx(R * f3.bse[-1] / np.sqrt(f3.scale), rel=1e-6)

@@ -105,11 +105,19 @@ def line_trouton_ratio(T_K, ln_P, u_lnP=None) -> LineTrouton | None:
     x = 1.0 / T
     u = None if u_lnP is None else np.asarray(u_lnP, float)
     weighted = u is not None and u.size == T.size and bool(np.all(np.isfinite(u) & (u > 0)))
-    w = 1.0 / u ** 2 if weighted else np.ones_like(x)
-    x_mean = float(np.sum(w * x) / np.sum(w))
-    X = np.column_stack([np.ones_like(x), x - x_mean])
-    sw = np.sqrt(w)
-    coef, *_ = np.linalg.lstsq(X * sw[:, None], y * sw, rcond=None)
+    with np.errstate(all="ignore"):
+        w = 1.0 / u ** 2 if weighted else np.ones_like(x)
+        x_mean = float(np.sum(w * x) / np.sum(w))
+        X = np.column_stack([np.ones_like(x), x - x_mean])
+        sw = np.sqrt(w)
+        A_w, y_w = X * sw[:, None], y * sw
+    # a printed value of 1e-300 gives a weight beyond the float range: no line is determined
+    if not (np.all(np.isfinite(A_w)) and np.all(np.isfinite(y_w)) and math.isfinite(x_mean)):
+        return None
+    try:
+        coef, *_ = np.linalg.lstsq(A_w, y_w, rcond=None)
+    except np.linalg.LinAlgError:
+        return None
     a_c, b = float(coef[0]), float(coef[1])
     if not b < 0:
         return None
@@ -117,11 +125,16 @@ def line_trouton_ratio(T_K, ln_P, u_lnP=None) -> LineTrouton | None:
     dof = T.size - 2
     chi2_per_dof = float(np.sum(w * resid ** 2)) / dof if dof > 0 else 0.0
     scale = max(1.0, chi2_per_dof) if weighted else chi2_per_dof
-    cov = scale * np.linalg.inv((X * w[:, None]).T @ X)
+    try:
+        cov = scale * np.linalg.inv((X * w[:, None]).T @ X)
+    except np.linalg.LinAlgError:
+        return None
     # A = a_c − b·x̄ (the intercept at 1/T = 0); its variance from the centred fit's covariance
     grad = np.array([1.0, -x_mean])
     var_A = float(grad @ cov @ grad)
     A = a_c - b * x_mean
+    if not (math.isfinite(var_A) and math.isfinite(A)):
+        return None
     ratio = R * (A - math.log(P_ATM))
     excess = A - math.log(P_ATM)
     T_b = -b / excess if excess > 0 else math.inf

@@ -178,16 +178,21 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups, scale_known: bool =
     X2 = np.column_stack([levels, x - 1.0 / T_ref])
     X3 = np.column_stack([X2, np.log(T / T_ref)])
     sw = np.sqrt(w)
+    if not (np.all(np.isfinite(X3 * sw[:, None])) and np.all(np.isfinite(y * sw))):
+        raise ValueError("weights or values beyond the float range")
 
     def wls(X):
         beta, *_ = np.linalg.lstsq(X * sw[:, None], y * sw, rcond=None)
         r = y - X @ beta
         return beta, float(np.sum(w * r * r))
 
-    _, chi2_2 = wls(X2)
-    beta3, chi2_3 = wls(X3)
-    if np.linalg.matrix_rank(X3 * sw[:, None]) < X3.shape[1]:
-        raise ValueError("the groups' temperatures do not determine a curvature")
+    try:
+        _, chi2_2 = wls(X2)
+        beta3, chi2_3 = wls(X3)
+        if np.linalg.matrix_rank(X3 * sw[:, None]) < X3.shape[1]:
+            raise ValueError("the groups' temperatures do not determine a curvature")
+    except np.linalg.LinAlgError as exc:
+        raise ValueError(f"the least-squares problem failed: {exc}") from None
     d_chi2 = max(chi2_2 - chi2_3, 0.0)
     if scale_known:
         s2, stat, p, df, method = 1.0, d_chi2, float(stats.chi2.sf(d_chi2, 1)), (1,), "chi2"
@@ -195,8 +200,13 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups, scale_known: bool =
         s2 = chi2_3 / dof3
         stat = d_chi2 / s2 if s2 > 0 else math.inf
         p, df, method = float(stats.f.sf(stat, 1, dof3)), (1, dof3), "F"
-    cov = s2 * np.linalg.inv((X3 * w[:, None]).T @ X3)
+    try:
+        cov = s2 * np.linalg.inv((X3 * w[:, None]).T @ X3)
+    except np.linalg.LinAlgError as exc:
+        raise ValueError(f"the curvature's covariance is singular: {exc}") from None
     C, u_C = float(beta3[-1]), math.sqrt(max(float(cov[-1, -1]), 0.0))
+    if not (math.isfinite(C) and math.isfinite(u_C)):
+        raise ValueError("the curvature is not determined in floating point")
     return CurvatureTest(method=method, statistic=float(stat), p_value=p, df=df, dCp=R * C, u_dCp=R * u_C,
                          T_ref=T_ref)
 

@@ -23,3 +23,23 @@ def fmt(x: float, digits: int = 6) -> str:
 
 def skipped(check_cls, why: str, **metrics) -> CheckResult:
     return CheckResult(check_cls.id, check_cls.title, "skipped", why, metrics)
+
+
+def coverage_for_source(ctx, k: float, source: str | None, rows) -> float:
+    """The coverage factor for a departure judged by the σ of one source's rows.
+
+    A named source's σ (without a stated u(P) on every row) is known only
+    from its own ``rows`` and a prior's — 0.37·(n − 1) degrees of freedom
+    each, the prior's n being ``outliers.min_points_source_scale`` — so `k`,
+    meant for a known σ, becomes the Student t quantile of the same one-sided
+    probability (:func:`audit.thermo.stats.coverage_for_estimated_scale`), as
+    ``outliers`` judges the source's points.  Unnamed rows, and rows that all
+    state their u(P), keep `k`.
+    """
+    from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
+
+    rows = list(rows)
+    if not (ctx.dataset.sources and source) or all(p.u_P_Pa for p in rows):
+        return k
+    prior = ctx.settings("outliers")["min_points_source_scale"]
+    return coverage_for_estimated_scale(k, mad_degrees_of_freedom(len(rows)) + mad_degrees_of_freedom(prior))

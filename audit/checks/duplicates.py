@@ -13,8 +13,7 @@ from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.replicates import (departure_from_median, difference_scale, median_departures,
                                  replicate_differences, replicate_groups)
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
-from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
-from ._util import fmt, rows_text, worst_status
+from ._util import coverage_for_source, fmt, rows_text, worst_status
 from .registry import Check, Option, register
 
 _SQRT3 = math.sqrt(3.0)
@@ -198,16 +197,13 @@ class Duplicates(Check):
         n_pairs = n_groups = n_rep_rows = 0
         source_scatter: dict[str, float] = {}
 
-        named = bool(ctx.dataset.sources)
-        prior_dof = mad_degrees_of_freedom(ctx.settings("outliers")["min_points_source_scale"])
         for (branch, source), pts in series_points(ctx).items():
             groups = [g for g in group_series(pts, s["T_tolerance_K"], k) if len(g) >= 2]
             if not groups:
                 continue
             # a named source's σ is known from its own rows and a prior's (as in outliers): the
             # departure limit k·σ takes the Student t quantile of k's one-sided probability
-            k_dep = (coverage_for_estimated_scale(k, mad_degrees_of_freedom(len(pts)) + prior_dof)
-                     if named and source else k)
+            k_dep = coverage_for_source(ctx, k, source, pts)
             # per group: kept rows, one per printed (T, P) — a copy adds no information
             # on scatter — and the rows already explained
             prepared = []

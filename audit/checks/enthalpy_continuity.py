@@ -2,14 +2,13 @@
 
 from __future__ import annotations
 
-from collections import Counter
+from collections import defaultdict
 
 import numpy as np
 
 from ..results import CheckResult, PointFlag
-from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
 from .fits import recommended
-from ._util import skipped
+from ._util import coverage_for_source, skipped
 from .registry import Check, Option, register
 
 
@@ -124,15 +123,12 @@ class EnthalpyContinuity(Check):
                 rel = 100 * np.abs(loc.departure) / np.abs(loc.smooth)
             # a named source's σ is known from its own rows and a prior's (as in outliers): k, meant
             # for a known σ, becomes the Student t quantile of the same one-sided probability
-            k_window = np.full(z.shape, float(s["k"]))
-            if ctx.dataset.sources:
-                prior = mad_degrees_of_freedom(ctx.settings("outliers")["min_points_source_scale"])
-                n_of = Counter(sources[i] for i in np.flatnonzero(used))
-                for w in range(z.size):
-                    label = sources[int(loc.order[loc.start[w]])]
-                    if label:
-                        k_window[w] = coverage_for_estimated_scale(
-                            s["k"], mad_degrees_of_freedom(n_of[label]) + prior)
+            rows_of = defaultdict(list)
+            for i in np.flatnonzero(used):
+                rows_of[sources[i]].append(data.points[i])
+            k_of = {label: coverage_for_source(ctx, s["k"], label, pts) for label, pts in rows_of.items()}
+            k_window = np.array([k_of.get(sources[int(loc.order[a])], s["k"]) for a in loc.start], dtype=float)
+            k_window = k_window.reshape(z.shape)
             bad = (z > k_window) & (rel > s["tolerance_percent"])
             for w in np.flatnonzero(bad):
                 window_rows = sorted(int(r) for r in rows[loc.order[loc.start[w]:loc.stop[w]]])

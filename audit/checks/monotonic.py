@@ -5,10 +5,9 @@ from __future__ import annotations
 import math
 
 from ..results import CheckResult, PointFlag
-from ._util import fmt, rows_text, worst_status
+from ._util import coverage_for_source, fmt, rows_text, worst_status
 from .duplicates import expected_scatter_lnP, explained_reason, group_series, series_points
 from .registry import Check, Option, register
-from ..thermo.stats import coverage_for_estimated_scale, mad_degrees_of_freedom
 
 
 @register
@@ -81,15 +80,12 @@ class Monotonic(Check):
         pairs: list[list[int]] = []
         left: list[list[int]] = []
         explained_rows: set[int] = set()
-        named = bool(ctx.dataset.sources)
-        prior_rows = ctx.settings("outliers")["min_points_source_scale"]
         for (_, source), pts in series_points(ctx).items():
             # a named source's scatter is known from its own rows and a prior's (as in outliers): the
             # coverage factor k, meant for a known scale, becomes the Student t quantile of the same
             # one-sided probability with those degrees of freedom (a 19-row series scattering 14 % had
             # a MAD of 7 % and falls of 3.6 "σ" between honest neighbours)
-            k = s["k"] if not (named and source) else coverage_for_estimated_scale(
-                s["k"], mad_degrees_of_freedom(len(pts)) + mad_degrees_of_freedom(prior_rows))
+            k = coverage_for_source(ctx, s["k"], source, pts)
             kept = [p for p in pts if not explained_reason(ctx, p)]
             # replicates (one temperature within its printed resolution) are the duplicates check's;
             # each group enters the series through its median-pressure row

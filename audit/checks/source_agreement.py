@@ -39,6 +39,10 @@ _MAX_TRIALS = 3
 
 
 
+#: how a temperature scale is named in a message
+_SCALE_NAMES = {"K": "K", "degC": "°C", "degF": "°F"}
+
+
 @dataclass(frozen=True)
 class _SlopeDeparture:
     """A source's own apparent ΔH [J/mol] (two-constant fit) against the consensus's at T_ref [K]."""
@@ -523,8 +527,7 @@ class SourceAgreement_(Check):
                 if t_reading is not None:
                     return t_reading
             if t_reading is not None:
-                names = {"K": "K", "degC": "°C", "degF": "°F"}
-                real, shown = names[t_reading.real_unit], names[t_reading.printed_unit]
+                real, shown = _SCALE_NAMES[t_reading.real_unit], _SCALE_NAMES[t_reading.printed_unit]
                 cause = {"kind": "temperature-unit", "n_rows": len(same), "printed_unit": shown,
                          "real_unit": real, "remaining_percent": t_reading.remaining_percent}
                 text = (f"the whole series of source '{record.source}' reads as {real}, not {shown}: its "
@@ -549,9 +552,6 @@ class SourceAgreement_(Check):
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
         return None
-
-
-_SCALE_NAMES = {"K": "K", "degC": "°C", "degF": "°F"}
 
 
 def _trouton_reading(ctx, rows, printed_unit, branch, s):
@@ -580,7 +580,9 @@ def _trouton_reading(ctx, rows, printed_unit, branch, s):
     # each pressure's rounding, an integer's trailing zeros not counted ("2000" printed to one digit
     # is known to ±500): the cautious reading, for a claim made on the series' own line alone
     u_print = np.array([printed_value(p.P_text, p.P_text_unit).resolution_lnP / math.sqrt(12.0) for p in rows])
-    u_print = np.where(np.isfinite(u_print) & (u_print > 0), u_print, 1e-6)
+    known = np.isfinite(u_print) & (u_print > 0)
+    # a cell whose rounding cannot be read weighs as the series' typical one; none readable: no weights
+    u_print = np.where(known, u_print, float(np.median(u_print[known]))) if known.any() else None
     reading = source_temperature_unit_by_trouton(
         [p.T_K for p in rows], np.log([p.P_Pa for p in rows]), printed_unit, (lo, hi), s["k"], curve, u_print)
     if reading is None:
@@ -590,9 +592,9 @@ def _trouton_reading(ctx, rows, printed_unit, branch, s):
                f"a Trouton ratio of {reading.ratio_printed:.3g} ± {reading.u_ratio_printed:.2g} J mol⁻¹ K⁻¹")
     cause = {"kind": "temperature-unit", "n_rows": len(rows), "printed_unit": shown, "real_unit": real,
              "trouton_ratio_printed": reading.ratio_printed, "trouton_ratio_real": reading.ratio_real}
-    text = (f"the whole series of source '{rows[0].source}' reads as {real}, not {shown}: no other source reaches "
-            f"it, and as printed its own Clausius–Clapeyron line gives {printed}, outside the "
-            f"{lo:g}–{hi:g} any substance has; read in {real} it gives {reading.ratio_real:.3g} J mol⁻¹ K⁻¹")
+    text = (f"the whole series of source '{rows[0].source}' reads as {real}, not {shown}: the other sources' "
+            f"curve cannot judge it, and as printed its own Clausius–Clapeyron line gives {printed}, outside "
+            f"the {lo:g}–{hi:g} any substance has; read in {real} it gives {reading.ratio_real:.3g} J mol⁻¹ K⁻¹")
     by_row = {p.row: t for p, t in zip(rows, reading.T_K)}
     return cause, text, lambda p: (by_row.get(p.row), None)
 

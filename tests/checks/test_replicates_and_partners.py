@@ -232,3 +232,21 @@ def test_a_replicate_of_a_small_scattered_source_is_judged_with_its_scale_uncert
     res = run_audit(read_table(path), default_profile)
     dup = next(c for c in res.checks if c.id == "duplicates")
     assert dup.status == "pass", dup.message
+
+
+def test_coverage_for_a_source_follows_how_its_sigma_is_known():
+    # Student t quantiles from scipy.stats, independently: a named source of 12 rows without stated
+    # u(P) has 0.37·11 + 0.37·7 degrees of freedom (its MAD and the prior's, min_points_source_scale 8)
+    from types import SimpleNamespace
+
+    from scipy.stats import norm, t
+
+    from audit.checks._util import coverage_for_source
+
+    ctx = SimpleNamespace(dataset=SimpleNamespace(sources=("Lab A",)),
+                          settings=lambda check: {"min_points_source_scale": 8})
+    bare = [SimpleNamespace(u_P_Pa=None)] * 12
+    stated = [SimpleNamespace(u_P_Pa=10.0)] * 12
+    assert coverage_for_source(ctx, 3.0, "Lab A", bare) == pytest.approx(t.isf(norm.sf(3.0), 0.37 * 11 + 0.37 * 7))
+    assert coverage_for_source(ctx, 3.0, "Lab A", stated) == 3.0
+    assert coverage_for_source(ctx, 3.0, None, bare) == 3.0

@@ -101,14 +101,12 @@ class ClapeyronLinearity(Check):
             f3 = fit_equation(data.T, data.P, "cc3", data.u_T, data.u_P, robust=False, point_weights=w)
             curv = curvature_test(f2, f3)
             # with named sources, within each source: two sources a little apart bend a common curve
-            source_of = {p.row: p.source or "" for p in ctx.dataset.points}
-            src = [source_of.get(int(r), "") for r in data.rows]
+            src = np.array([p.source or "" for p in data.points], dtype=object)
             on = w > 0
-            if len({x for x, u in zip(src, on) if u and x}) >= 2:
+            if len({x for x in src[on] if x}) >= 2:
                 try:
                     curv = curvature_test_with_levels(data.T[on], np.log(data.P[on]), f3.sigma_lnP_scaled[on],
-                                                      [x for x, u in zip(src, on) if u],
-                                                      scale_known=not f3.scale_estimated)
+                                                      list(src[on]), scale_known=not f3.scale_estimated)
                 except ValueError:
                     pass  # the sources' temperatures do not fix a curvature within them: the common one
             m = {"n": data.n, "curvature_p_value": curv.p_value, "curvature_test": curv.method,
@@ -143,8 +141,7 @@ class ClapeyronLinearity(Check):
             T_used = data.T[used]
             if resid.size >= s["min_points"]:
                 # within each source: a compilation's sources sit a little apart, each on one side
-                source_of = {p.row: p.source or "" for p in ctx.dataset.points}
-                runs = grouped_residual_runs(resid, [source_of.get(int(r), "") for r in rows_used])
+                runs = grouped_residual_runs(resid, list(src[used]))
                 m.update({"runs": runs.runs, "expected_runs": runs.expected_runs,
                           "runs_p_value": runs.p_value_too_few, "durbin_watson": runs.durbin_watson})
                 if runs.p_value_too_few < s["runs_alpha"]:

@@ -58,7 +58,8 @@ import numpy as np
 from ..thermo.overlap import JUDGEABLE_REACH, overlaps_others, within_span
 from ..thermo.ratios import percent_from_log_ratio
 from ..thermo.rounding import pressure_rounding_u_lnP, temperature_rounding_u_K
-from ..thermo.stats import MAD_EFFICIENCY, family_wise_critical, mad_scale, repeated_median_line
+from ..thermo.stats import (MAD_EFFICIENCY, family_wise_critical, mad_degrees_of_freedom, mad_scale,
+                           repeated_median_line)
 from ..model import base_phase
 from .model import BranchConsensus, BranchData, SourceShift, finite_or_inf
 
@@ -70,10 +71,6 @@ def _floors(points):
     fP = np.array([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in points])
     fT = np.array([temperature_rounding_u_K(p.T_text, p.T_text_unit) for p in points])
     return np.nan_to_num(fP, nan=0.0), np.nan_to_num(fT, nan=0.0)
-
-
-#: asymptotic efficiency of the MAD for normal data (see :data:`audit.thermo.stats.MAD_EFFICIENCY`)
-_MAD_EFFICIENCY = MAD_EFFICIENCY
 
 
 def _own_scale(r, inv_T, max_scale_lnP: float) -> float:
@@ -492,7 +489,7 @@ class _BranchAnalysis:
                                       math.log1p(s["max_source_scatter_percent"] / 100))
                for name in named if (src == name).sum() >= _OWN_SCATTER_ROWS}
         own = {k: v for k, v in own.items() if v > 0}
-        nu0 = _MAD_EFFICIENCY * (s["min_points_source_scale"] - 1)
+        nu0 = mad_degrees_of_freedom(s["min_points_source_scale"])
         # effective degrees of freedom of each point's scale: the pooled one's are many (∞ here)
         dof = np.full(r.size, np.inf)
         if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
@@ -502,10 +499,10 @@ class _BranchAnalysis:
             # it), so each source's own scale, shrunk toward the pooled one, raises its σ
             from scipy.stats import f as f_dist
 
-            nu_pooled = _MAD_EFFICIENCY * max(int(np.count_nonzero(active)) - 1, 1)
+            nu_pooled = MAD_EFFICIENCY * max(int(np.count_nonzero(active)) - 1, 1)
             for name, mine_scale in own.items():
                 mine = src == name
-                nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
+                nu = mad_degrees_of_freedom(int(mine.sum()))
                 # only a scatter significantly above the pooled one (F test on the two MAD
                 # scales with their effective degrees of freedom): a source merely above it by
                 # chance keeps the pooled scale, and with it the power to find its 4σ errors
@@ -527,7 +524,7 @@ class _BranchAnalysis:
         for name in named:
             mine = src == name
             if name in own:
-                nu = _MAD_EFFICIENCY * (int(mine.sum()) - 1)
+                nu = mad_degrees_of_freedom(int(mine.sum()))
                 with np.errstate(over="ignore"):
                     shrunk = float(np.sqrt((nu * np.float64(own[name]) ** 2 + nu0 * np.float64(prior) ** 2) / (nu + nu0)))
                 out[mine] = max(own[name], shrunk)

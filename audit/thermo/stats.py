@@ -265,6 +265,13 @@ class RunsTest:
                 f"[{self.longest_run_start}:{self.longest_run_stop}]")
 
 
+def _runs_moments(n_pos: int, n_neg: int) -> tuple[float, float]:
+    """Mean and variance of the number of runs of n₊ and n₋ signs in random order (both > 0)."""
+    n = n_pos + n_neg
+    a = 2.0 * n_pos * n_neg
+    return a / n + 1.0, a * (a - n) / (n * n * (n - 1.0))
+
+
 def residual_runs(residuals_sorted_by_T) -> RunsTest:
     """Wald-Wolfowitz runs test on the signs of residuals, and Durbin-Watson.
 
@@ -299,8 +306,7 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
     changes = np.flatnonzero(s[1:] != s[:-1]) + 1
     runs = int(changes.size + 1) if n else 0
     if n_pos and n_neg and n > 1:
-        mu = 2.0 * n_pos * n_neg / n + 1.0
-        var = 2.0 * n_pos * n_neg * (2.0 * n_pos * n_neg - n) / (n * n * (n - 1.0))
+        mu, var = _runs_moments(n_pos, n_neg)
         z = (runs - mu) / math.sqrt(var) if var > 0 else 0.0
         p2, p1 = float(2 * stats.norm.sf(abs(z))), float(stats.norm.cdf(z))
     else:  # all residuals of one sign: a single run, maximal structure
@@ -378,9 +384,7 @@ def grouped_residual_runs(residuals_sorted_by_T, groups) -> RunsTest:
         n_pos, n_neg, runs = n_pos + part.n_pos, n_neg + part.n_neg, runs + part.runs
         mu += part.expected_runs
         if part.n_pos and part.n_neg:
-            n = part.n_pos + part.n_neg
-            a = 2.0 * part.n_pos * part.n_neg
-            var += a * (a - n) / (n * n * (n - 1.0))
+            var += _runs_moments(part.n_pos, part.n_neg)[1]
         if part.longest_run > len(best):
             best = tuple(int(idx[i]) for i in part.longest_run_members)
     z = (runs - mu) / math.sqrt(var) if var > 0 else math.nan

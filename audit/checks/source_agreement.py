@@ -26,6 +26,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from ..consensus import refit_without_sources
+from ..diagnose.units import TEMPERATURE_SYMBOL
 from ..model import base_phase
 from ..results import STATUS_RANK, Cause, CheckResult, PointFlag, SourceAgreement
 from ..thermo.constants import R as R_GAS
@@ -37,10 +38,6 @@ from .registry import Check, Option, register
 #: sources tried as the one to set aside in each round (the furthest off in units of u first)
 _MAX_TRIALS = 3
 
-
-
-#: how a temperature scale is named in a message
-_SCALE_NAMES = {"K": "K", "degC": "°C", "degF": "°F"}
 
 
 @dataclass(frozen=True)
@@ -527,7 +524,7 @@ class SourceAgreement_(Check):
                 if t_reading is not None:
                     return t_reading
             if t_reading is not None:
-                real, shown = _SCALE_NAMES[t_reading.real_unit], _SCALE_NAMES[t_reading.printed_unit]
+                real, shown = TEMPERATURE_SYMBOL[t_reading.real_unit], TEMPERATURE_SYMBOL[t_reading.printed_unit]
                 cause = {"kind": "temperature-unit", "n_rows": len(same), "printed_unit": shown,
                          "real_unit": real, "remaining_percent": t_reading.remaining_percent}
                 text = (f"the whole series of source '{record.source}' reads as {real}, not {shown}: its "
@@ -587,7 +584,7 @@ def _trouton_reading(ctx, rows, printed_unit, branch, s):
         [p.T_K for p in rows], np.log([p.P_Pa for p in rows]), printed_unit, (lo, hi), s["k"], curve, u_print)
     if reading is None:
         return None
-    real, shown = _SCALE_NAMES[reading.real_unit], _SCALE_NAMES[reading.printed_unit]
+    real, shown = TEMPERATURE_SYMBOL[reading.real_unit], TEMPERATURE_SYMBOL[reading.printed_unit]
     printed = ("a temperature at or below 0 K" if not math.isfinite(reading.ratio_printed) else
                f"a Trouton ratio of {reading.ratio_printed:.3g} ± {reading.u_ratio_printed:.2g} J mol⁻¹ K⁻¹")
     cause = {"kind": "temperature-unit", "n_rows": len(rows), "printed_unit": shown, "real_unit": real,

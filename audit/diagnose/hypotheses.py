@@ -38,7 +38,7 @@ from dataclasses import dataclass
 
 from ..model import Point
 from ..thermo.rounding import parse_printed_number
-from .units import (COMMON_PRESSURE_UNITS, COMMON_TEMPERATURE_UNITS, canonical_temperature_unit,
+from .units import (COMMON_PRESSURE_UNITS, COMMON_TEMPERATURE_UNITS, TEMPERATURE_SYMBOL, canonical_temperature_unit,
                     pressure_unit_size_Pa, pressure_units_of_size, split_log_unit, temperature_from_K,
                     temperature_to_K)
 
@@ -138,7 +138,6 @@ def temperature_unit_hypotheses(p: Point) -> list[Hypothesis]:
     except ValueError:
         return []
     value = temperature_from_K(p.T_K, unit)
-    names = {"K": "K", "degC": "°C", "degF": "°F"}
     out = []
     for alt in COMMON_TEMPERATURE_UNITS:
         if alt == unit:
@@ -147,7 +146,7 @@ def temperature_unit_hypotheses(p: Point) -> list[Hypothesis]:
         if T_new <= 0:
             continue
         out.append(Hypothesis("temperature-unit", T_new, p.P_Pa, "T", p.T_text,
-                              f"T printed '{p.T_text}' taken as {names[unit]} but written in {names[alt]}"))
+                              f"T printed '{p.T_text}' taken as {TEMPERATURE_SYMBOL[unit]} but written in {TEMPERATURE_SYMBOL[alt]}"))
     return out
 
 

@@ -15,7 +15,8 @@ import math
 from audit.units import (PRESSURE_UNITS, kelvin_affine, parse_pressure_unit, parse_temperature_unit, pascal_per,
                          split_log_prefix)
 
-__all__ = ["COMMON_PRESSURE_UNITS", "COMMON_TEMPERATURE_UNITS", "pressure_unit_size_Pa", "pressure_units_of_size",
+__all__ = ["COMMON_PRESSURE_UNITS", "COMMON_TEMPERATURE_UNITS", "TEMPERATURE_SYMBOL", "pressure_unit_size_Pa",
+           "pressure_units_of_size",
            "temperature_to_K", "temperature_from_K", "split_log_unit", "canonical_temperature_unit"]
 
 #: Pressure units a value may have been printed in by mistake: every unit a table header may
@@ -24,6 +25,8 @@ __all__ = ["COMMON_PRESSURE_UNITS", "COMMON_TEMPERATURE_UNITS", "pressure_unit_s
 COMMON_PRESSURE_UNITS: tuple[str, ...] = tuple(PRESSURE_UNITS)
 #: Temperature units a value may have been printed in by mistake.
 COMMON_TEMPERATURE_UNITS: tuple[str, ...] = ("K", "degC", "degF")
+#: How a temperature unit's canonical name is written in a message.
+TEMPERATURE_SYMBOL: dict[str, str] = {"K": "K", "degC": "°C", "degF": "°F", "degR": "°R"}
 
 _LOG_BASE = {"log10": 10.0, "ln": math.e}
 

@@ -23,6 +23,7 @@ from typing import ClassVar, Mapping
 
 import numpy as np
 
+from ..diagnose.units import TEMPERATURE_SYMBOL
 from ..thermo.equations import VaporPressureEquation, _pressure_ln_factor, _temperature_affine, as_temperature
 
 __all__ = ["Reading", "SheetEquation", "equation_for", "y_and_slope", "LOG_FACTOR", "unit_label"]
@@ -32,11 +33,10 @@ LOG_FACTOR = {"log10": math.log(10.0), "ln": 1.0}
 #: forms defined in ln P by construction: the reading's base is not theirs to choose
 NATURAL_LOG_FORMS = ("wagner-2.5-5", "wagner-3-6", "clarke-glew")
 _WAGNER_EXPONENTS = {"wagner-2.5-5": (1.0, 1.5, 2.5, 5.0), "wagner-3-6": (1.0, 1.5, 3.0, 6.0)}
-_T_SYMBOL = {"K": "K", "degC": "°C", "degF": "°F", "degR": "°R"}
 
 
 def unit_label(T_unit: str) -> str:
-    return _T_SYMBOL.get(T_unit, T_unit)
+    return TEMPERATURE_SYMBOL.get(T_unit, T_unit)
 
 
 @dataclass(frozen=True, order=True)

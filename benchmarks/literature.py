@@ -31,7 +31,13 @@ own path (``audit.cli.audit_file``).  Printed, beside the targets:
 Tune on one seed range and report another (e.g. ``--seed 1000`` then ``--seed 5000``).
 
 Run:  python benchmarks/literature.py [--compilations 200] [--seed 1000] [--jobs 2] [--profile default]
-                                      [--keep-errors DIR]
+                                      [--keep-errors DIR] [--name-substance]
+
+With ``--name-substance`` each compilation is audited as a curator who knows
+its substance would run it (``--substance``): the reference correlation of the
+substance (IAPWS for water, the ``chemicals`` library's coefficient sets for
+the organic liquids; the compilations are drawn from IAPWS and CoolProp, so the
+library's sets are an independent yardstick) joins the sources' own.
 """
 
 from __future__ import annotations
@@ -124,8 +130,16 @@ def score(comp, result) -> dict:
     return out
 
 
-def run_one(seed: int, profile: str = "default", keep: str | None = None) -> dict:
-    """Draw, write and audit the compilation of one seed; return its figures or its error."""
+def substance_name(comp) -> str:
+    """The name a curator would give ``--substance`` for a compilation (ice is water's solid)."""
+    return "water" if comp.substance in ("ice", "water+ice") else comp.substance
+
+
+def run_one(seed: int, profile: str = "default", keep: str | None = None, name_substance: bool = False) -> dict:
+    """Draw, write and audit the compilation of one seed; return its figures or its error.
+
+    With `name_substance`, the audit is told the substance (as ``--substance`` does), so
+    its reference correlation is one more yardstick of the sources."""
     from audit.cli import audit_file
     from audit.errors import InputError
 
@@ -134,7 +148,8 @@ def run_one(seed: int, profile: str = "default", keep: str | None = None) -> dic
     with tempfile.TemporaryDirectory() as tmp:
         path = comp.write(Path(tmp) / f"compilation_{seed}.csv")
         try:
-            _, _, result = audit_file(str(path), profile=profile, audited_at="2024-01-01T00:00:00Z")
+            _, _, result = audit_file(str(path), profile=profile, audited_at="2024-01-01T00:00:00Z",
+                                      substance=substance_name(comp) if name_substance else None)
         except InputError as exc:
             return {"seed": seed, "fault": comp.fault, "input_error": str(exc).splitlines()[0]}
         # the benchmark's job is to count crashes: any other exception is recorded, not hidden
@@ -247,17 +262,20 @@ def main(argv=None) -> None:
     ap.add_argument("--jobs", type=int, default=2)
     ap.add_argument("--profile", default="default", help="rule profile name or .toml path")
     ap.add_argument("--keep-errors", metavar="DIR", help="write the CSV of every compilation that errs here")
+    ap.add_argument("--name-substance", action="store_true",
+                    help="tell the audit each compilation's substance (as --substance does)")
     a = ap.parse_args(argv)
     seeds = range(a.seed, a.seed + a.compilations)
     t0 = time.time()
     results = []
-    job = partial(run_one, profile=a.profile, keep=a.keep_errors)
+    job = partial(run_one, profile=a.profile, keep=a.keep_errors, name_substance=a.name_substance)
     with Pool(a.jobs) as pool:
         for k, r in enumerate(pool.imap_unordered(job, seeds, chunksize=2), 1):
             results.append(r)
             if k % 50 == 0:
                 print(f"  {k}/{len(seeds)} compilations, {time.time() - t0:.0f} s", flush=True)
-    report(sorted(results, key=lambda r: r["seed"]), seeds, a.profile, time.time() - t0)
+    report(sorted(results, key=lambda r: r["seed"]), seeds,
+           a.profile + (", substance named" if a.name_substance else ""), time.time() - t0)
 
 
 if __name__ == "__main__":

@@ -51,8 +51,10 @@ class BranchSplit(Check):
 
     **Method.** Unlabelled usable rows are sorted by temperature. With a known
     triple point no break is searched for: rows below T_triple are solid, the
-    others liquid (a side of fewer than ``min_points_per_side`` rows that are
-    all gross errors joins the other side). Otherwise, in this order: (1)
+    others liquid, except rows above ``max_solid_pressure_ratio`` times a known
+    triple-point pressure, which no row below the triple point can reach (they
+    are in error and are judged with the liquid); a side of fewer than
+    ``min_points_per_side`` rows that are all gross errors joins the other side. Otherwise, in this order: (1)
     gross errors are set aside — Siegel's repeated-median line of ln P on 1/T
     drops rows more than a factor 3 off it, then a Tukey-robust three-constant
     (constant-ΔCp) fit drops rows more than 10 robust σ (normal-consistent
@@ -82,7 +84,7 @@ class BranchSplit(Check):
     p = 1e-15): slopes 51.1 and 45.0 kJ/mol; rows 1–12 solid, 13–25 liquid".
 
     **Options.** ``alpha``, ``min_points_per_side``, ``min_dH_ratio``, ``max_gap_sigma``,
-    ``min_jump_percent``, ``min_transition_dH_ratio``.
+    ``min_jump_percent``, ``min_transition_dH_ratio``, ``max_solid_pressure_ratio``.
     """
 
     id = "branch-split"
@@ -106,6 +108,9 @@ class BranchSplit(Check):
         "min_jump_percent": Option(float, "smallest difference of the two lines' P at the break taken as a "
                                    "level jump (straight lines through curved branches miss by a few %)",
                                    "%", 0.0, 1000.0),
+        "max_solid_pressure_ratio": Option(float, "with a known triple point: an unlabelled row below its "
+                                           "temperature and above this many times its pressure lies on "
+                                           "neither curve and is judged with the liquid [-]", "", 1.0, 1e6),
         "min_transition_dH_ratio": Option(float, "smallest ratio of low-T to high-T apparent ΔH_sub taken as "
                                           "a transition between two crystal forms [-]", "", 1.0, 3.0),
     }
@@ -118,7 +123,11 @@ class BranchSplit(Check):
             return skipped(self, "every usable row carries a phase label")
         known = known_triple_point(ctx)
         if known is not None:
-            return self._by_known_triple_point(unlabelled, labelled, known, s)
+            # rows rejected before (beyond Pc, say) still lie on one side of the triple point; their
+            # branch lets source-agreement diagnose their source with the rest of its rows
+            rejected = [p for p in ctx.dataset.points if p.readable and p.phase == "unknown"
+                        and ctx.status[p.row] == "reject" and math.isfinite(p.T_K) and math.isfinite(p.P_Pa)]
+            return self._by_known_triple_point(unlabelled, labelled, known, s, rejected)
         if labelled:
             return skipped(self, f"{len(unlabelled)} rows lack a phase label while {len(labelled)} have one; "
                                  "the unlabelled rows are audited as their own branch")
@@ -179,14 +188,26 @@ class BranchSplit(Check):
                            f"liquid{text} — label the phases to confirm", metrics, flags, phase_inferred=inferred,
                            phase_basis=basis)
 
-    def _by_known_triple_point(self, unlabelled, labelled, known, s):
+    def _by_known_triple_point(self, unlabelled, labelled, known, s, rejected=()):
         """Unlabelled rows below the known triple-point temperature are solid, the others liquid.
 
         A side holding only a few rows that are all gross errors against the
         whole set (a kelvin value in a °C column puts an ice row at 510 K) is
         no branch: those rows join the other side, where a fit judges them.
+        Rows ``rejected`` before get their side too (counted apart).
         """
-        inferred = {p.row: ("solid" if p.T_K < known.T_K else "liquid") for p in unlabelled}
+        limit = (known.P_Pa * s["max_solid_pressure_ratio"] if known.P_Pa is not None and known.P_Pa > 0
+                 else math.inf)
+
+        def side(p):
+            # below the triple point both curves stay under the triple-point pressure: a row far
+            # above it lies on neither and is in error (a temperature in °C under a kelvin header, a
+            # pressure in another unit); it is judged with the liquid, where the rest of its source
+            # and a unit reading can explain it, not made a solid branch of its own
+            return "solid" if p.T_K < known.T_K and not p.P_Pa > limit else "liquid"
+
+        inferred = {p.row: side(p) for p in unlabelled}
+        impossible = {p.row for p in unlabelled if p.T_K < known.T_K and p.P_Pa > limit}
         inferred = _lone_gross_rows_joined(unlabelled, inferred, s["min_points_per_side"])
         n_s = sum(1 for v in inferred.values() if v == "solid")
         n_l = len(inferred) - n_s
@@ -195,7 +216,11 @@ class BranchSplit(Check):
         message = (f"{len(inferred)} rows without a phase label taken as {sides} by the known triple point "
                    f"{known.T_K:.6g} K ({known.source})"
                    + (f"; {len(labelled)} rows keep their labels" if labelled else ""))
-        metrics = {"T_triple_K": known.T_K, "triple_point_source": known.source, "n_solid": n_s, "n_liquid": n_l}
+        if impossible:
+            message += (f"; {len(impossible)} row(s) below it but above {s['max_solid_pressure_ratio']:g} × the "
+                        f"triple-point pressure {known.P_Pa:.4g} Pa lie on neither curve: judged with the liquid")
+        metrics = {"T_triple_K": known.T_K, "triple_point_source": known.source, "n_solid": n_s, "n_liquid": n_l,
+                   "n_above_triple_pressure": len(impossible)}
         basis = f"the known triple point {known.T_K:.6g} K ({known.source})"
         status = "pass"
         forms = None if labelled else _second_crystal_form([p for p in unlabelled if inferred[p.row] == "solid"], s)
@@ -207,6 +232,10 @@ class BranchSplit(Check):
                         "label the forms to confirm")
             metrics["T_transition_K"] = T_trs
             status = s.severity
+        before = {p.row: side(p) for p in rejected if p.row not in inferred}
+        if forms is not None:
+            before = _name_forms(before, {p.row: p.T_K for p in rejected}, forms[0])
+        inferred = {**inferred, **before}
         return CheckResult(self.id, self.title, status, message, metrics, phase_inferred=inferred,
                            phase_basis=basis)
 

@@ -144,10 +144,22 @@ class SourceAgreement_(Check):
     its own: a series 4.9 times the others' with the substance's slope is
     no miscalibration.
 
+    When the substance is named (``--substance`` or the metadata), its
+    reference correlation (:mod:`audit.reference_curves`: the metadata's
+    ``[reference_equation]``, IAPWS for water, else the ``chemicals``
+    library's coefficient sets for the liquid) is one more yardstick: eight
+    points of it over the branch's temperatures join every "other sources"
+    fit in (2), weighing together as two measurements with the curve's
+    uncertainty (never below ``reference_u_floor_percent``); a series no
+    other source reaches is then compared with it, one source left beside
+    the reference may be set aside in (3), and with two sources the one off
+    is named.  The unit readings in (5) are tried against the reference too
+    when the others' curve gives none.
+
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
     ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
     ``other_compound_dH_percent``, ``max_gauge_error_percent``, ``max_thermometer_error_K``, ``trouton_band``,
-    ``trouton_max_sublimation``.
+    ``trouton_max_sublimation``, ``reference_u_floor_percent``.
     """
 
     id = "source-agreement"
@@ -187,6 +199,9 @@ class SourceAgreement_(Check):
         "trouton_band": Option(list, "Trouton ratios [low, high] a liquid series' own line may have; a series no "
                                      "other source reaches, outside it as printed and inside it read in another "
                                      "temperature scale, was printed in that scale", "J mol⁻¹ K⁻¹"),
+        "reference_u_floor_percent": Option(float, "standard uncertainty taken for a reference correlation "
+                                                   "of the named substance that states none (its curve is one "
+                                                   "more yardstick of the sources)", "%", 0.01, 50),
         "trouton_max_sublimation": Option(float, "the band's upper end for a solid or unknown branch (sublimation "
                                                  "adds the entropy of fusion)", "J mol⁻¹ K⁻¹", 55, 1000),
     }
@@ -201,7 +216,11 @@ class SourceAgreement_(Check):
         original = ctx.consensus
         if not original:
             return skipped(self, "no consensus fit to compare sources with (outliers check did not fit)")
-        best, model, notes, order = self._compare(ctx, original, s, frozenset())
+        from ..reference_curves import reference_curves
+
+        references = reference_curves(ctx.dataset, s["reference_u_floor_percent"] / 100)
+        best, model, notes, order = self._compare(ctx, original, s, frozenset(), references)
+        reference_fits = _reference_fits(ctx, references, original)
         explained: dict[str, tuple] = {}
 
         def rank(r):
@@ -218,7 +237,7 @@ class SourceAgreement_(Check):
         for _ in range(len(best)):
             found = None
             for r in sorted((r for r in best.values() if r.source not in explained), key=rank):
-                diagnosis = self._source_cause(ctx, r, model, s)
+                diagnosis = self._source_cause(ctx, r, model, s, reference_fits)
                 if diagnosis is not None:
                     found = (r, diagnosis)
                     break
@@ -228,7 +247,7 @@ class SourceAgreement_(Check):
             rest = [n for n in best if n not in explained]
             if not any(best[n].status != "ok" for n in rest):
                 continue
-            again, model, notes, order = self._compare(ctx, original, s, frozenset(explained))
+            again, model, notes, order = self._compare(ctx, original, s, frozenset(explained), references)
             notes.append(f"sources compared again without {', '.join(sorted(explained))}")
             best = {n: (explained[n][0] if n in explained else again.get(n, best[n])) for n in best}
         records = list(best.values())
@@ -296,7 +315,7 @@ class SourceAgreement_(Check):
         return CheckResult(self.id, self.title, worst_status(len(bad), s.severity), message, metrics,
                            tuple(flags), point_status=point_status, causes=causes)
 
-    def _compare(self, ctx, consensus, s, dropped: frozenset):
+    def _compare(self, ctx, consensus, s, dropped: frozenset, references: dict):
         """Compare every source with the others, per branch, leaving out ``dropped`` sources.
 
         Returns (records by source, the consensus refitted without the flagged sources,
@@ -322,7 +341,11 @@ class SourceAgreement_(Check):
             all_pts = ctx.usable(branch)
             pts = [p for p in all_pts if p.source not in dropped]
             src = [p.source for p in pts]
-            if len({x for x in src if x}) < 2:
+            # two named sources among the branch's readable rows, also those rejected already: a
+            # source all of whose rows were rejected is still diagnosed as a whole
+            named = {p.source for p in ctx.dataset.points if p.readable and p.source and p.source not in dropped
+                     and ctx.phase(p) == branch}
+            if len(named) < 2 or not any(src):
                 continue
             T = np.array([p.T_K for p in pts])
             P = np.array([p.P_Pa for p in pts])
@@ -338,9 +361,28 @@ class SourceAgreement_(Check):
             T_all = np.array([p.T_K for p in everyone])
             src_all = np.array([p.source for p in everyone], dtype=object)
             kept_all = np.array([ctx.status[p.row] in ("ok", "suspect") for p in everyone])
+            reference = references.get(branch)
+            # over the usable points' span, below a fixed critical temperature of the form
+            anchor = (_reference_anchor(reference, T, fixed.get("Tc", math.inf))
+                      if reference is not None else None)
+            if anchor is not None:
+                T_ref, P_ref, sig_ref = anchor
+                T = np.concatenate([T, T_ref])
+                P = np.concatenate([P, P_ref])
+                sig = np.concatenate([sig, sig_ref])
+                src = src + [None] * T_ref.size
+                keep = np.concatenate([keep, np.ones(T_ref.size, bool)])
+                more = len(reference.sets) - 1
+                notes.append(f"{branch}: the substance's reference correlation ({reference.sets[0].name}"
+                             + (f", and {more} more set(s)" if more else "") + ") is one more yardstick")
             isolated = {}
             for name in dict.fromkeys(src_all):
                 mine = src_all == name
+                if anchor is not None and overlaps_others(np.concatenate([T_all, anchor[0]]),
+                                                          np.concatenate([mine, np.zeros(anchor[0].size, bool)]),
+                                                          np.concatenate([np.zeros(mine.size, bool),
+                                                                          np.ones(anchor[0].size, bool)])):
+                    continue
                 if not overlaps_others(T_all, mine, kept_all & ~mine):
                     isolated[name] = (f"no other source reaches its temperatures ({T_all[mine].min():.5g}–"
                                       f"{T_all[mine].max():.5g} K): an offset there would be an "
@@ -360,7 +402,7 @@ class SourceAgreement_(Check):
                 while True:
                     candidates = [o for o in analysis.offsets if o.source not in excluded and off(o)]
                     # keep at least two sources in the consensus
-                    if not candidates or len(analysis.offsets) - len(excluded) <= 2:
+                    if not candidates or len(analysis.offsets) - len(excluded) <= (1 if anchor else 2):
                         break
                     # the consensus is what most sources say: of the sources off, set aside the one
                     # whose absence leaves the rest most consistent (the most precise series is the
@@ -393,7 +435,7 @@ class SourceAgreement_(Check):
                            "delta_chi2_pressure_minus_temperature": o.delta_chi2,
                            "pattern_decisive": o.preferred_pattern(s["pattern_delta_chi2"]) is not None,
                            "birge_ratio": o.birge_ratio, "T_range_K": list(o.T_range),
-                           "two_sources_only": n_src == 2})
+                           "two_sources_only": n_src == 2 and anchor is None})
                 prev = best.get(o.source)
                 if prev is None or STATUS_RANK[status] > STATUS_RANK[prev.status]:
                     best[o.source] = rec
@@ -436,7 +478,7 @@ class SourceAgreement_(Check):
                          if o.source not in excluded and o.source not in isolated))
 
     @staticmethod
-    def _source_cause(ctx, record: SourceAgreement, consensus, s):
+    def _source_cause(ctx, record: SourceAgreement, consensus, s, reference_fits=None):
         """(cause, explanation, suggestion) of a source that is wrong as a whole, or None.
 
         ``suggestion(point)`` gives the row's suggested (T [K], P [Pa]), None
@@ -458,13 +500,21 @@ class SourceAgreement_(Check):
            standard uncertainties (the source's slope and the consensus's there)
            and ``other_compound_dH_percent``: no gauge or
            thermometer error changes the slope that much.
+
+        When the substance's reference correlation covers the branch
+        (``reference_fits``: branch → the consensus's form fitted to it), the
+        unit readings (1, 2) are tried against it too when the consensus gives
+        none: a consensus of few or biased series, or none left once the
+        flagged sources are set aside, reads no unit ratio a reference reads.
         """
-        from ..consensus.build import judgeable_range
-        from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
 
         branch = record.extra.get("branch")
         branch_model = consensus.get(branch)
         fit = None if branch_model is None else branch_model.fit
+        yardsticks = [(f, name) for f, name in ((fit, "the other sources"),
+                                                ((reference_fits or {}).get(branch),
+                                                 "the substance's reference correlation")) if f is not None]
+        fit = yardsticks[0][0] if yardsticks else None
         # every row with a pressure, also those read below 0 K (°C printed under a kelvin header):
         # the temperature-scale reading is tried on them, the other readings on the rows above 0 K
         every = [p for p in ctx.dataset.points if p.source == record.source and p.readable
@@ -484,60 +534,16 @@ class SourceAgreement_(Check):
         unit_candidate = flagged or mostly_rejected or not rows
         T = np.array([p.T_K for p in rows])
         P = np.array([p.P_Pa for p in rows])
-        eq = fit.equation
-        with np.errstate(all="ignore"):
-            offset = float(np.median(np.log(P) - eq.ln_p(T))) if rows else math.nan
-        units = [p.P_text_unit for p in rows]
-        tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
-        slope = _slope_departure(T, P, fit, s) if unit_candidate and rows else None
-        # a wide reading (a large unit ratio matched only roughly) must keep the substance's slope:
-        # another compound's block 10³ lower can sit near a unit ratio by chance
-        wide = s["unit_ratio_tolerance"] if slope is None or not slope.beyond else 0.0
-        reading = None
-        if unit_candidate and rows:
-            reading = source_pressure_unit(offset, max(set(units), key=units.count), tolerance, wide)
-        if reading is not None:
-            cause = {"kind": "pressure-unit", "n_rows": len(rows), "printed_unit": reading.printed_unit,
-                     "real_unit": reading.real_unit, "factor": reading.factor,
-                     "remaining_percent": reading.remaining_percent}
-            text = (f"the whole series of source '{record.source}' reads as {reading.real_unit}, not "
-                    f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with the other "
-                    f"sources within {reading.remaining_percent:+.2g} %")
-            return cause, text, lambda p, f=reading.factor: (None, p.P_Pa * f)
-        # a series no other source reaches in temperature, with pressures the others reach, is
-        # what a whole series in °C under a kelvin header looks like: its scale is tried too
-        if unit_candidate or record.extra.get("isolated"):
-            t_units = [p.T_text_unit for p in every]
-            t_printed = max(set(t_units), key=t_units.count) if t_units else "K"
-            same = [p for p in every if p.T_text_unit == t_printed]
-            t_reading = source_temperature_unit(
-                [p.T_K for p in same], np.log([p.P_Pa for p in same]), t_printed, eq.ln_p,
-                judgeable_range(fit), tolerance, math.log1p(s["max_gauge_error_percent"] / 100)) if same else None
-            # a reading left further off than the unit tolerance (beside a consensus that is itself off)
-            # must at least keep the substance's slope once so read: another compound's block does not
-            if t_reading is not None and abs(math.log1p(t_reading.remaining_percent / 100)) > tolerance:
-                re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), fit, s)
-                if re_read is None or re_read.beyond:
-                    t_reading = None
-            if t_reading is None and record.extra.get("not_analysed") and same:
-                t_reading = _trouton_reading(ctx, same, t_printed, branch, s)
-                if t_reading is not None:
-                    return t_reading
-            if t_reading is not None:
-                real, shown = TEMPERATURE_SYMBOL[t_reading.real_unit], TEMPERATURE_SYMBOL[t_reading.printed_unit]
-                cause = {"kind": "temperature-unit", "n_rows": len(same), "printed_unit": shown,
-                         "real_unit": real, "remaining_percent": t_reading.remaining_percent}
-                text = (f"the whole series of source '{record.source}' reads as {real}, not {shown}: its "
-                        f"temperatures read in {real} put {t_reading.n_judged} of its {len(same)} rows on the "
-                        f"other sources' curve within {t_reading.remaining_percent:+.2g} % (median)")
-                by_row = {p.row: t for p, t in zip(same, t_reading.T_K)}
-                return cause, text, lambda p: (by_row.get(p.row), None)
+        for yardstick, against in yardsticks:
+            found = _unit_reading(ctx, record, rows, every, T, P, yardstick, s, unit_candidate, branch, against)
+            if found is not None:
+                return found
         # the slope test only for sources already off the others: on every source it
         # rejected good scattered series whose few rows give a noisy slope (benchmark
         # seeds 5000-5199: good sources mass-rejected 7.7 % -> 10.6 %)
         if not flagged or not rows:
             return None
-        slope = slope or _slope_departure(T, P, fit, s)
+        slope = _slope_departure(T, P, fit, s)
         if slope is not None and slope.beyond:
             cause = {"kind": "other-compound", "n_rows": len(rows), "dH_source_J_per_mol": slope.dH_source,
                      "u_dH_source_J_per_mol": slope.u_dH_source, "dH_consensus_J_per_mol": slope.dH_consensus,
@@ -549,6 +555,120 @@ class SourceAgreement_(Check):
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
         return None
+
+
+def _unit_reading(ctx, record, rows, every, T, P, fit, s, unit_candidate, branch, against):
+    """(cause, explanation, suggestion) when the whole series reads in another pressure unit or
+    temperature scale against the curve `fit` (named `against` in the explanation), else None
+    (see ``_source_cause``, steps 1–2)."""
+    from ..consensus.build import judgeable_range
+    from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
+
+    eq = fit.equation
+    with np.errstate(all="ignore"):
+        offset = float(np.median(np.log(P) - eq.ln_p(T))) if rows else math.nan
+    units = [p.P_text_unit for p in rows]
+    tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
+    slope = _slope_departure(T, P, fit, s) if unit_candidate and rows else None
+    # a wide reading (a large unit ratio matched only roughly) must keep the substance's slope:
+    # another compound's block 10³ lower can sit near a unit ratio by chance
+    wide = s["unit_ratio_tolerance"] if slope is None or not slope.beyond else 0.0
+    reading = None
+    if unit_candidate and rows:
+        reading = source_pressure_unit(offset, max(set(units), key=units.count), tolerance, wide)
+    if reading is not None:
+        cause = {"kind": "pressure-unit", "n_rows": len(rows), "printed_unit": reading.printed_unit,
+                 "real_unit": reading.real_unit, "factor": reading.factor,
+                 "remaining_percent": reading.remaining_percent}
+        text = (f"the whole series of source '{record.source}' reads as {reading.real_unit}, not "
+                f"{reading.printed_unit}: its pressures ×{reading.factor:.6g} agree with {against} "
+                f"within {reading.remaining_percent:+.2g} %")
+        return cause, text, lambda p, f=reading.factor: (None, p.P_Pa * f)
+    # a series no other source reaches in temperature, with pressures the others reach, is
+    # what a whole series in °C under a kelvin header looks like: its scale is tried too
+    if unit_candidate or record.extra.get("isolated"):
+        t_units = [p.T_text_unit for p in every]
+        t_printed = max(set(t_units), key=t_units.count) if t_units else "K"
+        same = [p for p in every if p.T_text_unit == t_printed]
+        t_reading = source_temperature_unit(
+            [p.T_K for p in same], np.log([p.P_Pa for p in same]), t_printed, eq.ln_p,
+            judgeable_range(fit), tolerance, math.log1p(s["max_gauge_error_percent"] / 100)) if same else None
+        # a reading left further off than the unit tolerance (beside a consensus that is itself off)
+        # must at least keep the substance's slope once so read: another compound's block does not
+        if t_reading is not None and abs(math.log1p(t_reading.remaining_percent / 100)) > tolerance:
+            re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), fit, s)
+            if re_read is None or re_read.beyond:
+                t_reading = None
+        if t_reading is None and record.extra.get("not_analysed") and same:
+            t_reading = _trouton_reading(ctx, same, t_printed, branch, s)
+            if t_reading is not None:
+                return t_reading
+        if t_reading is not None:
+            real, shown = TEMPERATURE_SYMBOL[t_reading.real_unit], TEMPERATURE_SYMBOL[t_reading.printed_unit]
+            cause = {"kind": "temperature-unit", "n_rows": len(same), "printed_unit": shown,
+                     "real_unit": real, "remaining_percent": t_reading.remaining_percent}
+            text = (f"the whole series of source '{record.source}' reads as {real}, not {shown}: its "
+                    f"temperatures read in {real} put {t_reading.n_judged} of its {len(same)} rows on the "
+                    f"curve of {against} within {t_reading.remaining_percent:+.2g} % (median)")
+            by_row = {p.row: t for p, t in zip(same, t_reading.T_K)}
+            return cause, text, lambda p: (by_row.get(p.row), None)
+    return None
+
+
+#: points of the reference curve put among the other sources, evenly in 1/T over the branch's data
+_ANCHOR_POINTS = 8
+
+
+def _reference_anchor(reference, T_data, T_below=math.inf, points=_ANCHOR_POINTS):
+    """(T [K], P [Pa], σ(ln P) [-]) of the reference curve as points among the other sources,
+    over the data's temperatures where the reference is valid (and below `T_below` [K], a
+    critical temperature the consensus's form is reduced by); None when it covers none of them.
+
+    The reference's error is not independent from point to point but smooth along T, so its
+    `points` together must not weigh as that many independent measurements: each gets
+    √(points/2) times the curve's uncertainty, and together they weigh as two (one at each
+    end of the range).
+    """
+    T_data = np.asarray(T_data, float)
+    if T_data.size == 0:
+        return None
+    span_lo, span_hi = reference.T_span
+    lo, hi = max(float(T_data.min()), span_lo), min(float(T_data.max()), span_hi, T_below)
+    if not hi >= lo:
+        return None
+    T = 1.0 / np.linspace(1.0 / lo, 1.0 / hi, points) if hi > lo else np.array([lo])
+    ln = reference.ln_p(T)
+    u = reference.u_ln_p(T)
+    ok = np.isfinite(ln) & np.isfinite(u) & (u > 0) & (T < T_below)
+    if not ok.any():
+        return None
+    return T[ok], np.exp(ln[ok]), u[ok] * math.sqrt(points / 2)
+
+
+def _reference_fits(ctx, references: dict, consensus) -> dict:
+    """Branch → the consensus's equation form fitted to the reference curve over the branch's
+    readable rows (a yardstick with a covariance, as the consensus is); branches the reference
+    does not cover, or where the fit fails, are left out."""
+    from ..thermo.fitting import fit_equation
+
+    out = {}
+    for branch, branch_model in consensus.branches.items():
+        reference = references.get(branch)
+        if reference is None:
+            continue
+        T_rows = [p.T_K for p in ctx.dataset.points if p.readable and ctx.phase(p) == branch
+                  and math.isfinite(p.T_K) and p.T_K > 0]
+        eq = branch_model.fit.equation
+        fixed = eq.fixed_parameters()
+        anchor = _reference_anchor(reference, T_rows, fixed.get("Tc", math.inf), points=4 * _ANCHOR_POINTS)
+        if anchor is None or anchor[0].size < 4:
+            continue
+        T, P, sig = anchor
+        try:
+            out[branch] = fit_equation(T, P, type(eq), u_P=P * sig, robust=False, **fixed)
+        except (ValueError, np.linalg.LinAlgError):
+            continue
+    return out
 
 
 def _trouton_reading(ctx, rows, printed_unit, branch, s):

@@ -152,6 +152,7 @@ def judgeable_range(fit) -> tuple[float, float]:
 
     The fitted range widened by a quarter of its span on each side; further
     out, the extrapolation's σ grows with the slope until anything "fits".
+    A form reduced by a fixed critical temperature ends just below it.
 
     Parameters
     ----------
@@ -165,7 +166,12 @@ def judgeable_range(fit) -> tuple[float, float]:
     """
     lo, hi = fit.T_range  # of the points the fit used
     span = hi - lo
-    return lo - JUDGEABLE_REACH * span, hi + JUDGEABLE_REACH * span
+    top = hi + JUDGEABLE_REACH * span
+    # a form reduced by a critical temperature is not defined at or above it
+    Tc = fit.equation.fixed_parameters().get("Tc")
+    if Tc is not None and math.isfinite(Tc) and Tc > hi:
+        top = min(top, math.nextafter(float(Tc), 0.0))
+    return lo - JUDGEABLE_REACH * span, top
 
 
 def _median_u(values, floor: float) -> float:

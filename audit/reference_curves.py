@@ -31,6 +31,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .thermo.equations import ln_p_where_defined
+
 __all__ = ["ReferenceSet", "ReferenceCurve", "reference_curves", "IAPWS_LIQUID_U_LNP", "IAPWS_ICE_U_LNP"]
 
 #: standard uncertainty of ln P of the IAPWS-95 saturation pressure: ±0.025 % (k = 2) from the
@@ -86,7 +88,8 @@ class ReferenceCurve:
         for i, s in enumerate(self.sets):
             inside = (T >= s.T_min) & (T <= s.T_max)
             if inside.any():
-                ln[i, inside] = _ln_p_where_defined(s.equation, T[inside])
+                with np.errstate(all="ignore"):
+                    ln[i, inside] = ln_p_where_defined(s.equation, T[inside])
                 u[i, inside] = s.u_lnP
         ln[~np.isfinite(ln)] = np.nan
         return ln, u
@@ -176,22 +179,6 @@ def reference_curves(dataset, floor_u_lnP: float) -> dict[str, ReferenceCurve]:
     if liquid or solid:
         out["unknown"] = ReferenceCurve("unknown", tuple(solid) + tuple(liquid))
     return out
-
-
-def _ln_p_where_defined(equation, T):
-    """ln P of `equation` at `T` [K], NaN where it is not defined (a library set's stated range
-    can reach past the critical temperature its own reduced form needs to stay below)."""
-    with np.errstate(all="ignore"):
-        try:
-            return np.asarray(equation.ln_p(T), float)
-        except (ValueError, ArithmeticError):
-            out = np.full(T.size, np.nan)
-            for k, t in enumerate(T):
-                try:
-                    out[k] = float(np.asarray(equation.ln_p(np.array([t])), float)[0])
-                except (ValueError, ArithmeticError):
-                    pass
-            return out
 
 
 def _melting_point(constants) -> float | None:

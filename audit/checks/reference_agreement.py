@@ -43,8 +43,10 @@ class ReferenceAgreement(Check):
     are flagged as compared by extrapolation, and points where the reference
     is undefined are left out. (3) Per branch, and per source when there are
     two or more, the bias (mean deviation), the RMS and the standard error of
-    the mean s/√n (sample standard deviation, n − 1 degrees of freedom) are
-    computed; a bias beyond ``k`` times its standard error plus
+    the mean s/√n (sample standard deviation, n − 1 degrees of freedom; never
+    below the points' own standard uncertainty, the consensus's or the
+    rounding of the printed digits, so that one row or a few that happen to
+    agree do not claim a scatter of zero) are computed; a bias beyond ``k`` times its standard error plus
     ``tolerance_percent`` is reported.
 
     **Example.** "liquid vs IAPWS-95 auxiliary equation: bias +0.012 ± 0.010 %,
@@ -84,6 +86,7 @@ class ReferenceAgreement(Check):
             P = np.array([p.P_Pa for p in pts])
             P_ref = _reference_p(eq, T)
             dev = 100 * (P - P_ref) / P_ref
+            u_points = _point_u_percent(ctx, pts)
             outside = (T < T_lo) | (T > T_hi)
             for p, o in zip(pts, outside):
                 if o:
@@ -107,7 +110,12 @@ class ReferenceAgreement(Check):
                     continue
                 bias = float(d.mean())
                 rms = float(np.sqrt(np.mean(d ** 2)))
-                se = float(d.std(ddof=1) / np.sqrt(d.size)) if d.size > 1 else float("nan")
+                # the points' own standard uncertainty is a floor on their scatter: one row, or a
+                # few that happen to agree, says nothing of a source's scatter
+                own = u_points[mask]
+                var = max(float(d.var(ddof=1)) if d.size > 1 else 0.0,
+                          float(np.mean(own[np.isfinite(own)] ** 2)) if np.isfinite(own).any() else 0.0)
+                se = math.sqrt(var / d.size) if var > 0 else float("nan")
                 lim = s["k"] * (se if np.isfinite(se) else 0.0) + s["tolerance_percent"]
                 metrics[label] = {"n": int(d.size), "bias_percent": bias, "u_bias_percent": se,
                                   "rms_percent": rms, "limit_percent": lim, "reference": name,
@@ -193,6 +201,21 @@ def _from_metadata(table: dict, file_name: str):
         raise InputError(f"{where} valid_from_K = {lo!r}, valid_to_K = {hi!r} must be finite, above 0 K, "
                          "low then high", file=file_name)
     return branch, (eq, lo, hi, f"{table['form']} ({table['source']})")
+
+
+def _point_u_percent(ctx, points) -> np.ndarray:
+    """Each point's standard uncertainty [%]: the consensus's, else the rounding of its printed
+    pressure; NaN when neither is known."""
+    from ..thermo.rounding import pressure_rounding_u_lnP
+
+    u_cons = ctx.consensus.u_percent if ctx.consensus else {}
+    out = []
+    for p in points:
+        u = u_cons.get(p.row, math.nan)
+        if not (math.isfinite(u) and u > 0):
+            u = 100 * pressure_rounding_u_lnP(p.P_text, p.P_text_unit)
+        out.append(u)
+    return np.array(out, float)
 
 
 def _reference_p(eq, T) -> np.ndarray:

@@ -362,3 +362,20 @@ def test_positive_dcp_of_a_labelled_liquid_is_flagged(default_profile):
     chk = _check(res, "clapeyron-linearity")
     assert chk.status == "warn" and "ΔH rising with T" in chk.message
     assert chk.metrics["liquid"]["dCp_J_per_mol_K"] > 0
+
+
+def test_reference_agreement_does_not_judge_a_one_row_source_against_zero_scatter(default_profile):
+    # two sources of 12 rows at 0.05 % noise and a third of one row printed to three significant
+    # digits (rounding up to ±0.5 % here), 0.3 % off IAPWS-95 by its rounding alone: its bias has
+    # no sample scatter, and its own uncertainty (the consensus's, at least its rounding) is the
+    # floor — it must not be flagged against the tolerance alone (it was, limit 0.1 %)
+    rng = np.random.default_rng(11)
+    T = np.concatenate([np.linspace(290.0, 360.0, 24), [325.0]])
+    P = iapws_saturation_pressure(T) * (1 + 0.0005 * rng.standard_normal(T.size))
+    P[-1] = float(f"{iapws_saturation_pressure([325.0])[0] * 1.003:.3g}")
+    src = ["A", "B"] * 12 + ["C"]
+    res = run_audit(from_arrays(T, P, phase="liquid", source=src, substance="water"), default_profile)
+    chk = _check(res, "reference-agreement")
+    assert abs(chk.metrics["liquid/C"]["bias_percent"]) > 0.1  # beyond the tolerance alone
+    assert chk.metrics["liquid/C"]["u_bias_percent"] > 0.05
+    assert chk.status == "pass"

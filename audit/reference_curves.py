@@ -107,6 +107,11 @@ class ReferenceCurve:
         out[has] = np.nanmedian(ln[:, has], axis=0)
         return out
 
+    def dlnp_dT(self, T) -> np.ndarray:
+        """d ln P/dT of :meth:`ln_p` [1/K], by central difference over ±0.01 K."""
+        T = np.atleast_1d(np.asarray(T, float))
+        return (self.ln_p(T + 0.01) - self.ln_p(T - 0.01)) / 0.02
+
     def u_ln_p(self, T) -> np.ndarray:
         """Standard uncertainty of :meth:`ln_p` [-]: the covering sets' median stated
         uncertainty, or half their spread when that is larger; NaN where none covers."""

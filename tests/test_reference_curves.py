@@ -62,3 +62,14 @@ def test_a_set_whose_range_reaches_past_its_own_critical_temperature_does_not_ra
     ln = liquid.ln_p(T)
     assert ln.shape == (len(T),)
     assert all(math.isfinite(v) for v in liquid.ln_p([500.0]))
+
+
+def test_slope_of_the_water_curve_matches_iapws_95():
+    # d ln P/dT of the IAPWS-95 saturation curve (iapws package), central difference over ±0.5 K
+    from tests.conftest import iapws_saturation_pressure
+
+    liquid = reference_curves(Dataset(points=(), metadata=Metadata(substance="water")), 0.01)["liquid"]
+    for T in (300.0, 373.124, 500.0):
+        p = iapws_saturation_pressure([T - 0.5, T + 0.5])
+        expected = (math.log(p[1]) - math.log(p[0])) / 1.0
+        assert liquid.dlnp_dT([T])[0] == pytest.approx(expected, rel=1e-3)

@@ -350,6 +350,7 @@ class SourceAgreement_(Check):
             T = np.array([p.T_K for p in pts])
             P = np.array([p.P_Pa for p in pts])
             sig = sigmas(pts)
+            rounding = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
             keep = np.array([ctx.status[p.row] != "reject" for p in pts])
             eq = branch_model.fit.equation
             fixed = eq.fixed_parameters()
@@ -370,6 +371,7 @@ class SourceAgreement_(Check):
                 T = np.concatenate([T, T_ref])
                 P = np.concatenate([P, P_ref])
                 sig = np.concatenate([sig, sig_ref])
+                rounding = np.concatenate([rounding, np.zeros(T_ref.size)])
                 src = src + [None] * T_ref.size
                 keep = np.concatenate([keep, np.ones(T_ref.size, bool)])
                 more = len(reference.sets) - 1
@@ -423,8 +425,7 @@ class SourceAgreement_(Check):
                     continue
                 if off(o):
                     status = "reject" if abs(o.bias_percent) > s["reject_tolerance_percent"] else "suspect"
-                    pattern = o.preferred_pattern(s["pattern_delta_chi2"]) or (
-                        "temperature-offset" if o.delta_chi2 > 0 else "pressure-scale")
+                    pattern = _pattern(o, reference, T, P, rounding, src, keep, s["pattern_delta_chi2"])
                     flagged.append(o.source)
                 else:
                     status, pattern = "ok", "none"
@@ -643,6 +644,38 @@ def _reference_anchor(reference, T_data, T_below=math.inf, points=_ANCHOR_POINTS
     if not ok.any():
         return None
     return T[ok], np.exp(ln[ok]), u[ok] * math.sqrt(points / 2)
+
+
+def _pattern(offset, reference, T, P, rounding, src, keep, min_delta_chi2) -> str:
+    """'pressure-scale' or 'temperature-offset' for a flagged source.
+
+    Against the substance's reference, when it covers three of the source's
+    points or more and tells the two patterns apart (|Δχ²| ≥ the threshold):
+    its shape is known far better than the others' curve's, whose slope error
+    over a narrow range fakes either pattern. The source's points are weighed
+    by its own scatter about its own Clausius–Clapeyron line (robust, never
+    below the rounding of its printed digits): a thermometer offset moves
+    that line, it does not scatter the points about it. Else the
+    leave-one-out comparison's decisive pattern, else the sign of its Δχ².
+    """
+    from ..thermo.source_bias import pattern_against_curve
+    from ..thermo.stats import mad_scale
+
+    if reference is not None:
+        mine = keep & (np.asarray(src, dtype=object) == offset.source)
+        Tm = T[mine]
+        inside = reference.covers(Tm) if Tm.size else np.zeros(0, bool)
+        if inside.sum() >= 4 and np.unique(Tm[inside]).size >= 3:
+            Tm, lnPm = Tm[inside], np.log(P[mine][inside])
+            line = np.polyval(np.polyfit(1.0 / Tm, lnPm, 1), 1.0 / Tm)
+            own = mad_scale(lnPm - line)
+            sigma = np.maximum(np.maximum(rounding[mine][inside], own), 1e-6)
+            delta = pattern_against_curve(lnPm - reference.ln_p(Tm), sigma, reference.dlnp_dT(Tm),
+                                          float(np.median(reference.u_ln_p(Tm))))
+            if math.isfinite(delta) and abs(delta) >= min_delta_chi2:
+                return "temperature-offset" if delta > 0 else "pressure-scale"
+    return offset.preferred_pattern(min_delta_chi2) or (
+        "temperature-offset" if offset.delta_chi2 > 0 else "pressure-scale")
 
 
 def _reference_fits(ctx, references: dict, consensus) -> dict:

@@ -56,7 +56,7 @@ from .overlap import within_span
 from .ratios import percent_from_log_ratio, u_percent_from_log_ratio
 
 __all__ = ["SourceOffset", "SourceBiasAnalysis", "gls_one_parameter", "LowRankCovariance",
-           "gls_one_parameter_low_rank", "source_offsets"]
+           "gls_one_parameter_low_rank", "source_offsets", "pattern_against_curve"]
 
 
 @dataclass(frozen=True)
@@ -407,3 +407,40 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
             chi2_pressure_scale=pres.chi2, chi2_temperature_offset=temp.chi2, birge_ratio=birge,
             T_range=(float(Ts.min()), float(Ts.max()))))
     return SourceBiasAnalysis(tuple(offsets), tuple(skipped))
+
+
+def pattern_against_curve(residual, sigma, slope, u_level) -> float:
+    """Δχ² (pressure scale − temperature offset) of one source's residuals from a trusted curve.
+
+    The two one-parameter models of :func:`source_offsets`, fitted to the
+    residuals r = ln P − ln P_curve(T) with covariance
+    V = diag(σ²) + u_level²·11ᵀ: the curve's error is taken as a level common
+    to all the source's points (a reference correlation is far better known
+    in shape than in level), so the decision rests on how the source's
+    departure changes along T, which the curve's shape pins, not on the
+    curve's own level.
+
+    Parameters
+    ----------
+    residual : array_like, shape (n,)
+        ln P of the source's points minus the curve's [-].
+    sigma : array_like, shape (n,)
+        Each point's standard uncertainty in ln P [-].
+    slope : array_like, shape (n,)
+        The curve's d ln P/dT at the points [1/K].
+    u_level : float
+        Standard uncertainty of the curve's level in ln P [-].
+
+    Returns
+    -------
+    float
+        χ²(pressure scale) − χ²(temperature offset) [-]: positive favours the
+        temperature offset; NaN with fewer than three points.
+    """
+    r = np.asarray(residual, float)
+    if r.size < 3:
+        return math.nan
+    V = LowRankCovariance(np.asarray(sigma, float) ** 2, np.ones((r.size, 1)), np.array([[float(u_level) ** 2]]))
+    pres = gls_one_parameter_low_rank(np.ones(r.size), r, V)
+    temp = gls_one_parameter_low_rank(-np.asarray(slope, float), r, V)
+    return pres.chi2 - temp.chi2

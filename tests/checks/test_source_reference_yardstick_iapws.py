@@ -91,3 +91,20 @@ def test_series_beyond_the_critical_pressure_as_printed_keeps_its_branch_and_get
     cause = rec["B"].extra.get("cause") or {}
     assert cause.get("kind") == "pressure-unit" and cause.get("real_unit") == "mPa"
     assert rec["A"].status == "ok"
+
+
+def test_a_thermometer_offset_the_scattered_sources_cannot_show_is_found_and_named(default_profile):
+    # B: 16 rows at 0.02 % noise, thermometer 0.5 K high over 290–370 K (ΔlnP falls from -3.4 % to
+    # -2.1 % along the range, from the IAPWS slope); A: 6 rows at 3 % noise, whose curve can show
+    # neither B's offset nor its pattern
+    T = np.concatenate([np.linspace(295.0, 365.0, 6), np.linspace(290.0, 370.0, 16)])
+    dsA, _ = water_table(T[:6], noise=0.03, seed=10, source="A", phase="liquid")
+    dsB, _ = water_table(T[6:], noise=0.0002, seed=9, source="B", phase="liquid", P_sig=6,
+                         T_shift={"B": 0.5})
+    ds = replace(dsA, points=dsA.points + tuple(replace(p, row=p.row + 6) for p in dsB.points))
+    _, alone = _audit(ds, default_profile, named=False)
+    assert alone["B"].status == "ok"
+    _, rec = _audit(ds, default_profile, named=True)
+    assert rec["B"].status != "ok" and rec["B"].pattern == "temperature-offset"
+    assert rec["B"].temperature_offset_K == pytest.approx(0.5, abs=0.15)
+    assert rec["A"].status == "ok"

@@ -189,10 +189,13 @@ def every_source(ctx: AuditContext, records) -> tuple[SourceAgreement, ...]:
                 reason = _source_cause_reason(rec.extra["cause"])
             elif rec.status == "ok":
                 reason = "agrees with the other sources within its uncertainty"
-            elif rec.pattern == "temperature-offset" and rec.temperature_offset_K is not None:
-                reason = f"temperatures read {rec.temperature_offset_K:+.3g} K off the other sources"
             else:
-                reason = f"pressures {rec.bias_percent:+.3g} % off the other sources"
+                yardstick = ("the substance's reference correlation" if rec.extra.get("judged_against") == "reference"
+                             else "the other sources")
+                if rec.pattern == "temperature-offset" and rec.temperature_offset_K is not None:
+                    reason = f"temperatures read {rec.temperature_offset_K:+.3g} K off {yardstick}"
+                else:
+                    reason = f"pressures {rec.bias_percent:+.3g} % off {yardstick}"
             out.append(replace(rec, extra={**rec.extra, **counts, "reason": reason}))
             continue
         usable = len(rows) - n_reject - n_unreadable

@@ -153,8 +153,16 @@ class SourceAgreement_(Check):
     uncertainty (never below ``reference_u_floor_percent``); a series no
     other source reaches is then compared with it, one source left beside
     the reference may be set aside in (3), and with two sources the one off
-    is named.  The unit readings in (5) are tried against the reference too
-    when the others' curve gives none.
+    is named.  A source the others pass is also compared with the reference
+    alone (its uncertainty a level common to the source's points): beyond
+    ``k``·u and ``tolerance_percent`` of it, the source is set aside from
+    the others' yardstick and all are compared again — two precise series
+    off together otherwise vouch for each other.  A flagged source's pattern
+    is taken from its residuals from the reference when they decide it
+    (|Δχ²| ≥ ``pattern_delta_chi2``, each point weighed by the source's own
+    scatter about its own line): the reference's shape is known far better
+    than the others' curve's.  The unit readings in (5) are tried against
+    the reference too when the others' curve gives none.
 
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
     ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
@@ -290,7 +298,9 @@ class SourceAgreement_(Check):
             else:
                 what = (f"temperatures read {r.temperature_offset_K:+.3g} K high"
                         if r.pattern == "temperature-offset" else f"pressures {r.bias_percent:+.3g} % off")
-                msg = (f"source '{r.source}' is systematically off the other sources: {what} "
+                yardstick = ("the substance's reference correlation"
+                             if r.extra.get("judged_against") == "reference" else "the other sources")
+                msg = (f"source '{r.source}' is systematically off {yardstick}: {what} "
                        f"(bias {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} %, pattern {r.pattern})")
             if r.extra.get("two_sources_only"):
                 msg += "; with two sources only, which one is off cannot be told"
@@ -298,7 +308,9 @@ class SourceAgreement_(Check):
                 if p.source == r.source and ctx.status[p.row] in ("ok", "suspect"):
                     flags.append(PointFlag(p.row, self.id, "warn", msg))
         if bad:
-            message = "; ".join(f"'{r.source}' {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} % ({r.pattern})"
+            message = "; ".join(f"'{r.source}' {r.bias_percent:+.3g} ± {r.u_bias_percent:.2g} % ({r.pattern}"
+                                + (", against the reference" if r.extra.get("judged_against") == "reference" else "")
+                                + ")"
                                 if r.bias_percent is not None else f"'{r.source}' (not compared)" for r in bad)
             kinds = [(r.source, r.extra["cause"]) for r in bad if r.extra.get("cause")]
             if kinds:
@@ -414,6 +426,17 @@ class SourceAgreement_(Check):
                               for o in candidates[:_MAX_TRIALS] for again in (analyse(excluded + [o.source]),)]
                     _, worst, analysis = min(trials, key=lambda t: t[0])
                     excluded.append(worst)
+                # series the others pass but the reference does not (precise series off together
+                # make each other's yardstick) are set aside too, and the rest compared again
+                by_reference: list[str] = []
+                if reference is not None:
+                    by_reference = [o.source for o in analysis.offsets
+                                    if o.source not in excluded and o.source not in isolated and not off(o)
+                                    and (r := _offset_against_reference(o.source, reference, T, P, sig, src,
+                                                                        keep)) is not None and off(r)]
+                    if by_reference:
+                        excluded.extend(by_reference)
+                        analysis = analyse(excluded)
             except (ValueError, np.linalg.LinAlgError) as exc:
                 notes.append(f"{branch}: {exc}")
                 continue
@@ -423,6 +446,13 @@ class SourceAgreement_(Check):
             for o in analysis.offsets:
                 if o.source in isolated:
                     continue
+                against = {"judged_against": "reference"} if o.source in by_reference else {}
+                if not off(o) and reference is not None:
+                    # the others may be off together (two precise series agreeing with each
+                    # other, the reference not): the reference has its own say
+                    versus = _offset_against_reference(o.source, reference, T, P, sig, src, keep)
+                    if versus is not None and off(versus):
+                        o, against = versus, {"judged_against": "reference"}
                 if off(o):
                     status = "reject" if abs(o.bias_percent) > s["reject_tolerance_percent"] else "suspect"
                     pattern = _pattern(o, reference, T, P, rounding, src, keep, s["pattern_delta_chi2"])
@@ -436,7 +466,7 @@ class SourceAgreement_(Check):
                            "delta_chi2_pressure_minus_temperature": o.delta_chi2,
                            "pattern_decisive": o.preferred_pattern(s["pattern_delta_chi2"]) is not None,
                            "birge_ratio": o.birge_ratio, "T_range_K": list(o.T_range),
-                           "two_sources_only": n_src == 2 and anchor is None})
+                           "two_sources_only": n_src == 2 and anchor is None, **against})
                 prev = best.get(o.source)
                 if prev is None or STATUS_RANK[status] > STATUS_RANK[prev.status]:
                     best[o.source] = rec
@@ -644,6 +674,22 @@ def _reference_anchor(reference, T_data, T_below=math.inf, points=_ANCHOR_POINTS
     if not ok.any():
         return None
     return T[ok], np.exp(ln[ok]), u[ok] * math.sqrt(points / 2)
+
+
+def _offset_against_reference(source, reference, T, P, sig, src, keep):
+    """The source's offset from the reference curve alone (:func:`offset_against_curve`, the
+    curve's uncertainty a common level), over its kept points the curve covers; None with
+    fewer than three such points."""
+    from ..thermo.source_bias import offset_against_curve
+
+    mine = keep & (np.asarray(src, dtype=object) == source)
+    Tm = T[mine]
+    inside = reference.covers(Tm) if Tm.size else np.zeros(0, bool)
+    if inside.sum() < 3:
+        return None
+    Tm = Tm[inside]
+    return offset_against_curve(source, Tm, np.log(P[mine][inside]) - reference.ln_p(Tm), sig[mine][inside],
+                                reference.dlnp_dT(Tm), float(np.median(reference.u_ln_p(Tm))))
 
 
 def _pattern(offset, reference, T, P, rounding, src, keep, min_delta_chi2) -> str:

@@ -56,7 +56,7 @@ from .overlap import within_span
 from .ratios import percent_from_log_ratio, u_percent_from_log_ratio
 
 __all__ = ["SourceOffset", "SourceBiasAnalysis", "gls_one_parameter", "LowRankCovariance",
-           "gls_one_parameter_low_rank", "source_offsets", "pattern_against_curve"]
+           "gls_one_parameter_low_rank", "source_offsets", "offset_against_curve", "pattern_against_curve"]
 
 
 @dataclass(frozen=True)
@@ -409,21 +409,26 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
     return SourceBiasAnalysis(tuple(offsets), tuple(skipped))
 
 
-def pattern_against_curve(residual, sigma, slope, u_level) -> float:
-    """Δχ² (pressure scale − temperature offset) of one source's residuals from a trusted curve.
+def offset_against_curve(source: str, T, residual, sigma, slope, u_level) -> SourceOffset | None:
+    """One source's offset from a trusted curve (a reference correlation), both patterns.
 
     The two one-parameter models of :func:`source_offsets`, fitted to the
     residuals r = ln P − ln P_curve(T) with covariance
     V = diag(σ²) + u_level²·11ᵀ: the curve's error is taken as a level common
     to all the source's points (a reference correlation is far better known
-    in shape than in level), so the decision rests on how the source's
-    departure changes along T, which the curve's shape pins, not on the
-    curve's own level.
+    in shape than in level).  So a pressure-scale offset is uncertain by at
+    least u_level, and the choice between the two patterns rests on how the
+    departure changes along T, which the curve's shape pins.  Standard
+    uncertainties are inflated by the Birge ratio as in :func:`source_offsets`.
 
     Parameters
     ----------
+    source : str
+        Name of the source.
+    T : array_like, shape (n,)
+        Temperatures of its points [K].
     residual : array_like, shape (n,)
-        ln P of the source's points minus the curve's [-].
+        ln P of its points minus the curve's [-].
     sigma : array_like, shape (n,)
         Each point's standard uncertainty in ln P [-].
     slope : array_like, shape (n,)
@@ -433,14 +438,41 @@ def pattern_against_curve(residual, sigma, slope, u_level) -> float:
 
     Returns
     -------
-    float
-        χ²(pressure scale) − χ²(temperature offset) [-]: positive favours the
-        temperature offset; NaN with fewer than three points.
+    SourceOffset or None
+        As :func:`source_offsets` gives (no unit; the units of its fields are
+        in the docstring of :class:`SourceOffset`); None with fewer than three points.
     """
     r = np.asarray(residual, float)
-    if r.size < 3:
-        return math.nan
-    V = LowRankCovariance(np.asarray(sigma, float) ** 2, np.ones((r.size, 1)), np.array([[float(u_level) ** 2]]))
-    pres = gls_one_parameter_low_rank(np.ones(r.size), r, V)
+    T = np.asarray(T, float)
+    n = r.size
+    if n < 3:
+        return None
+    V = LowRankCovariance(np.asarray(sigma, float) ** 2, np.ones((n, 1)), np.array([[float(u_level) ** 2]]))
+    pres = gls_one_parameter_low_rank(np.ones(n), r, V)
     temp = gls_one_parameter_low_rank(-np.asarray(slope, float), r, V)
-    return pres.chi2 - temp.chi2
+    birge = math.sqrt(min(pres.chi2, temp.chi2) / (n - 1))
+    infl = max(1.0, birge)
+    return SourceOffset(source=source, n=n, offset_lnP=pres.estimate, u_offset_lnP=pres.standard_error * infl,
+                        temperature_offset_K=temp.estimate, u_temperature_offset_K=temp.standard_error * infl,
+                        chi2_pressure_scale=pres.chi2, chi2_temperature_offset=temp.chi2, birge_ratio=birge,
+                        T_range=(float(T.min()), float(T.max())))
+
+
+def pattern_against_curve(residual, sigma, slope, u_level) -> float:
+    """Δχ² (pressure scale − temperature offset) of one source's residuals from a trusted curve
+    (:func:`offset_against_curve`): positive favours the temperature offset; NaN with fewer than
+    three points.
+
+    Parameters
+    ----------
+    residual, sigma, slope, u_level
+        As for :func:`offset_against_curve` ([-], [-], [1/K], [-]).
+
+    Returns
+    -------
+    float
+        χ²(pressure scale) − χ²(temperature offset) [-].
+    """
+    r = np.asarray(residual, float)
+    o = offset_against_curve("", np.zeros(r.size), r, sigma, slope, u_level)
+    return math.nan if o is None else o.delta_chi2

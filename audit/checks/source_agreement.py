@@ -271,7 +271,7 @@ class SourceAgreement_(Check):
                     point_status[p.row] = "reject"
                     causes[p.row] = Cause(cause["kind"], text, *suggest(p))
         whole = {r.source for r in records if r.extra.get("cause")}
-        for row, cause in _block_causes(ctx, model, s, whole).items():
+        for row, cause in _block_causes(ctx, model, s, whole, references).items():
             point_status[row] = "reject"
             causes[row] = cause
         # a level no gauge or thermometer error reaches, once the unit readings and the blocks had
@@ -850,7 +850,7 @@ def _slope_departure(T, P, fit, s):
 _REPLACEABLE = (None, "digit-swap", "decimal-shift")
 
 
-def _block_causes(ctx, model, s, whole_sources) -> dict:
+def _block_causes(ctx, model, s, whole_sources, references=None) -> dict:
     """Causes for contiguous blocks of rejected rows that form a series of their own.
 
     Within one source (or the unnamed rows), in input order, a run of at
@@ -861,15 +861,23 @@ def _block_causes(ctx, model, s, whole_sources) -> dict:
     in another pressure unit or temperature scale when one explains its
     level (the same tests as for a whole source), else another compound's
     rows pasted into the table.
+
+    With the substance's reference curve (``references``, by branch), a run
+    of more than ``min_block_rows`` rows of a named source far from the
+    reference (beyond ``k`` times the reference's uncertainty and
+    ``tolerance_percent``) and, in median, from the rest of the source
+    (beyond ``k`` times the rest's scatter about the reference, never below
+    its printed rounding), in a source that also has ``min_block_rows`` rows near the
+    reference, is judged the same way against the reference, rejected or
+    not: a precise block can capture the consensus and pass, while the
+    source's own right rows are rejected around it.
     """
     from ..consensus.build import judgeable_range
-    from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
-    from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+    from ..thermo.rounding import pressure_rounding_u_lnP
     from ..thermo.stats import mad_scale
 
     out: dict = {}
     m = s["min_block_rows"]
-    tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
     for branch, c in model.branches.items():
         eq = c.fit.equation
         groups: dict = {}
@@ -877,59 +885,102 @@ def _block_causes(ctx, model, s, whole_sources) -> dict:
             if (p.readable and ctx.phase(p) == branch and p.source not in whole_sources
                     and math.isfinite(p.T_K) and p.T_K > 0 and math.isfinite(p.P_Pa) and p.P_Pa > 0):
                 groups.setdefault(p.source or "", []).append(p)
+        reference = (references or {}).get(branch)
         for name, pts in groups.items():
-            runs, run = [], []
-            for p in pts:
-                cause = ctx.causes.get(p.row)
-                if ctx.status[p.row] == "reject" and (cause is None or cause.kind in _REPLACEABLE):
-                    run.append(p)
-                else:
-                    runs.append(run)
-                    run = []
-            runs.append(run)
-            for run in runs:
-                if len(run) < m:
+            def where(run, name=name):
+                return f"rows {run[0].row}–{run[-1].row}" + (f" of source '{name}'" if name else "")
+
+            for run in _runs(pts, lambda p: ctx.status[p.row] == "reject" and (
+                    ctx.causes.get(p.row) is None or ctx.causes[p.row].kind in _REPLACEABLE), m):
+                out.update(_judge_block(run, eq.ln_p, judgeable_range(c.fit), s, where(run), "the consensus"))
+            if reference is None or not name:
+                continue
+            T = np.array([p.T_K for p in pts])
+            with np.errstate(all="ignore"):
+                r = np.log([p.P_Pa for p in pts]) - reference.ln_p(T)
+                limit = s["k"] * reference.u_ln_p(T) + math.log1p(s["tolerance_percent"] / 100)
+            near = np.isfinite(r) & (np.abs(r) <= limit)
+            if near.sum() < m:
+                continue
+            far = {p.row for p, ri, li in zip(pts, r, limit) if math.isfinite(ri) and abs(ri) > li}
+            rounding = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
+            index = {p.row: i for i, p in enumerate(pts)}
+            for run in _runs(pts, lambda p: p.row in far and p.row not in out, m + 1):
+                if all(ctx.causes.get(p.row) is not None and ctx.causes[p.row].kind not in _REPLACEABLE
+                       for p in run):
                     continue
-                T = np.array([p.T_K for p in run])
-                P = np.array([p.P_Pa for p in run])
-                if distinct_temperatures(T) < 3:
+                # far also from the rest of the source, beyond k times the rest's own scatter
+                # about the reference (never below its printed rounding): a scattered series
+                # has runs of rows off any curve by chance
+                inside = np.zeros(len(pts), bool)
+                inside[[index[p.row] for p in run]] = True
+                rest = ~inside & np.isfinite(r)
+                if rest.sum() < m:
                     continue
-                with np.errstate(all="ignore"):
-                    r = np.log(P) - eq.ln_p(T)
-                if not np.all(np.isfinite(r)):
+                spread = max(mad_scale(r[rest]), float(np.median(rounding[rest])))
+                if not abs(float(np.median(r[inside])) - float(np.median(r[rest]))) > s["k"] * spread:
                     continue
-                offset = float(np.median(r))
-                try:
-                    own = fit_equation(T, P, "cc2", robust=True)
-                except (InsufficientData, ValueError, np.linalg.LinAlgError):
-                    continue
-                own_scale = mad_scale(own.residuals_lnP)
-                if not abs(offset) > s["k"] * max(own_scale, tolerance / s["k"]):
-                    continue
-                where = f"rows {run[0].row}–{run[-1].row}" + (f" of source '{name}'" if name else "")
-                units = [p.P_text_unit for p in run]
-                reading = source_pressure_unit(offset, max(set(units), key=units.count), tolerance)
-                if reading is not None:
-                    text = (f"{where} form a block printed in {reading.real_unit}, not {reading.printed_unit}: "
-                            f"×{reading.factor:.6g} puts them on the consensus within "
-                            f"{reading.remaining_percent:+.2g} %")
-                    out.update({p.row: Cause("pressure-unit", text, None, p.P_Pa * reading.factor) for p in run})
-                    continue
-                t_units = [p.T_text_unit for p in run]
-                t_printed = max(set(t_units), key=t_units.count)
-                same = [p for p in run if p.T_text_unit == t_printed]
-                t_reading = source_temperature_unit([p.T_K for p in same], np.log([p.P_Pa for p in same]),
-                                                    t_printed, eq.ln_p, judgeable_range(c.fit), tolerance)
-                if t_reading is not None and len(same) == len(run):
-                    text = (f"{where} form a block whose temperatures were printed in {t_reading.real_unit}, not "
-                            f"{t_reading.printed_unit}: so read, they lie on the consensus within "
-                            f"{t_reading.remaining_percent:+.2g} %")
-                    out.update({p.row: Cause("temperature-unit", text, t, None) for p, t in zip(same, t_reading.T_K)})
-                    continue
-                text = (f"{where} form a block of their own: {len(run)} rows "
-                        f"{percent_from_log_ratio(offset):+.3g} % off the consensus with only "
-                        f"{100 * own_scale:.2g} % scatter among themselves, and no unit ratio or temperature "
-                        "scale explains the level — likely another compound's rows pasted into the table; "
-                        "exclude them")
-                out.update({p.row: Cause("other-compound", text, None, None) for p in run})
+                out.update(_judge_block(run, reference.ln_p, reference.T_span, s, where(run),
+                                        "the substance's reference correlation"))
     return out
+
+
+def _runs(points, member, min_len) -> list[list]:
+    """Maximal runs, in input order, of at least `min_len` consecutive points for which `member` holds."""
+    runs, run = [], []
+    for p in points:
+        if member(p):
+            run.append(p)
+        else:
+            runs.append(run)
+            run = []
+    runs.append(run)
+    return [r for r in runs if len(r) >= min_len]
+
+
+def _judge_block(run, curve_ln_p, judgeable, s, where: str, against: str) -> dict:
+    """Row → Cause for a run of rows that forms a series of its own off `curve_ln_p` (see
+    :func:`_block_causes`); empty when the run is no such block."""
+    from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
+    from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
+    from ..thermo.stats import mad_scale
+
+    tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
+    T = np.array([p.T_K for p in run])
+    P = np.array([p.P_Pa for p in run])
+    if distinct_temperatures(T) < 3:
+        return {}
+    with np.errstate(all="ignore"):
+        r = np.log(P) - curve_ln_p(T)
+    if not np.all(np.isfinite(r)):
+        return {}
+    offset = float(np.median(r))
+    try:
+        own = fit_equation(T, P, "cc2", robust=True)
+    except (InsufficientData, ValueError, np.linalg.LinAlgError):
+        return {}
+    own_scale = mad_scale(own.residuals_lnP)
+    if not abs(offset) > s["k"] * max(own_scale, tolerance / s["k"]):
+        return {}
+    units = [p.P_text_unit for p in run]
+    reading = source_pressure_unit(offset, max(set(units), key=units.count), tolerance)
+    if reading is not None:
+        text = (f"{where} form a block printed in {reading.real_unit}, not {reading.printed_unit}: "
+                f"×{reading.factor:.6g} puts them on {against} within {reading.remaining_percent:+.2g} %")
+        return {p.row: Cause("pressure-unit", text, None, p.P_Pa * reading.factor) for p in run}
+    t_units = [p.T_text_unit for p in run]
+    t_printed = max(set(t_units), key=t_units.count)
+    same = [p for p in run if p.T_text_unit == t_printed]
+    t_reading = source_temperature_unit([p.T_K for p in same], np.log([p.P_Pa for p in same]),
+                                        t_printed, curve_ln_p, judgeable, tolerance)
+    if t_reading is not None and len(same) == len(run):
+        text = (f"{where} form a block whose temperatures were printed in {t_reading.real_unit}, not "
+                f"{t_reading.printed_unit}: so read, they lie on {against} within "
+                f"{t_reading.remaining_percent:+.2g} %")
+        return {p.row: Cause("temperature-unit", text, t, None) for p, t in zip(same, t_reading.T_K)}
+    text = (f"{where} form a block of their own: {len(run)} rows "
+            f"{percent_from_log_ratio(offset):+.3g} % off {against} with only "
+            f"{100 * own_scale:.2g} % scatter among themselves, and no unit ratio or temperature "
+            "scale explains the level — likely another compound's rows pasted into the table; "
+            "exclude them")
+    return {p.row: Cause("other-compound", text, None, None) for p in run}

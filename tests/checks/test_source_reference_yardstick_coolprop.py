@@ -40,3 +40,27 @@ def test_two_precise_series_off_together_are_named_against_the_reference(default
         assert rec[lab].pattern == "pressure-scale"
     assert rec["Lab C"].status == "ok"
     assert any("reference correlation" in rec[lab].extra["reason"] for lab in ("Lab A", "Lab B"))
+
+
+def test_a_precise_block_of_another_compound_inside_a_source_is_found_against_the_reference(default_profile):
+    # water (IAPWS-95, iapws package): 'Lab A' and 'Lab B' 5 rows each at 3 % noise; 'Lab X' 24
+    # rows at 0.05 % noise whose rows 7-18 are ethanol (CoolProp) at the same temperatures, about
+    # 2.5 times water's pressure there. X's precise block carries the consensus with it; against
+    # IAPWS (the substance named) the block is a series of its own, and the rest of X is water
+    from tests.conftest import iapws_saturation_pressure
+
+    rng = np.random.default_rng(31)
+    Ta, Tb, Tx = np.linspace(300, 360, 5), np.linspace(305, 355, 5), np.linspace(300, 360, 24)
+    block = slice(6, 18)
+    Px = iapws_saturation_pressure(Tx)
+    Px[block] = [PropsSI("P", "T", t, "Q", 0, "Ethanol") for t in Tx[block]]
+    T = np.concatenate([Ta, Tb, Tx])
+    P = np.concatenate([iapws_saturation_pressure(Ta), iapws_saturation_pressure(Tb), Px])
+    P = P * np.exp(np.concatenate([rng.normal(0, 0.03, 10), rng.normal(0, 5e-4, 24)]))
+    ds = from_arrays(T, P, source=["Lab A"] * 5 + ["Lab B"] * 5 + ["Lab X"] * 24, phase="liquid")
+    result = run_audit(with_library_constants(ds, "water"), default_profile)
+    x = [p for p in result.points if p.source == "Lab X"]
+    assert all(p.status == "reject" and p.cause.kind == "other-compound" for p in x[block])
+    assert "reference correlation" in x[6].cause.explanation
+    assert not [p.row for p in x[:6] + x[18:] if p.status == "reject"]
+    assert all(p.status != "reject" for p in result.points if p.source != "Lab X")

@@ -865,6 +865,11 @@ def generate_table(ch: Chooser, family: str | None = None) -> Table:
         kwargs["metadata_toml"] = _metadata_toml(ch, rng, curve, water, features)
         if water and ch.chance(0.05):
             kwargs["substance"] = "water"
+        elif not water and ch.chance(0.04):
+            # a real substance's name on an invented curve: its reference correlation disagrees
+            # with every row, at any level and slope
+            kwargs["substance"] = ch.pick(("toluene", "benzene", "ethanol"))
+            features.append("named-other-substance")
         header = [c.header for c in cols]
     else:
         header, rows = _garbage(ch, rng, features)

@@ -6,7 +6,8 @@ CoolProp HEOS for the organics), with the edge cases a curator meets:
 sources measured at one or two temperatures only (replicate groups),
 one-row sources, one source spanning 1e-8 Pa to 1e5 Pa (ice at 130 K to
 water at 373 K), rows printed twice, sources on disjoint temperature
-ranges, and every planted fault class.  Each table goes through the command
+ranges, and every planted fault class; half of them with the substance
+named (``--substance``), so its reference correlation joins the sources.  Each table goes through the command
 line (``vpaudit check --format json,csv``); the run must end with exit code
 0 or 1 (never an ``InputError``: the tables are well formed), and
 findings.json must hold one point per input row, in order, whose source is
@@ -35,13 +36,15 @@ from hypothesis import strategies as st
 
 from audit.cli import main
 from benchmarks.compilations import FAULTS, from_unit_T, make_compilation, pascal_per
+from benchmarks.literature import substance_name
 
 
 FOUND = Path(__file__).with_name("found")
 
 
-def _audit_points(text: str, sources: list[str]) -> list[dict]:
-    """Audit `text` through the CLI; assert exit 0 or 1 and one point per row, in order, with its source."""
+def _audit_points(text: str, sources: list[str], substance: str | None = None) -> list[dict]:
+    """Audit `text` through the CLI (with ``--substance`` when given); assert exit 0 or 1 and one
+    point per row, in order, with its source."""
     with tempfile.TemporaryDirectory() as folder:
         data = Path(folder) / "compilation.csv"
         data.write_text(text, encoding="utf-8")
@@ -49,7 +52,8 @@ def _audit_points(text: str, sources: list[str]) -> list[dict]:
         # VPAUDIT_DEBUG: an internal error raises with its traceback instead of becoming exit 3
         with mock.patch.dict(os.environ, {"VPAUDIT_DEBUG": "1"}):
             code = main(["check", str(data), "--format", "json,csv", "--out", str(out),
-                         "--audit-time", "2024-01-01T00:00:00Z"])
+                         "--audit-time", "2024-01-01T00:00:00Z"]
+                        + (["--substance", substance] if substance else []))
         assert code in (0, 1), f"exit code {code}"
         assert data.read_text(encoding="utf-8") == text
         points = json.loads((out / "findings.json").read_text(encoding="utf-8"))["points"]
@@ -63,15 +67,16 @@ def _audit_points(text: str, sources: list[str]) -> list[dict]:
           suppress_health_check=[HealthCheck.too_slow])
 @given(seed=st.integers(0, 2 ** 32 - 1), fault=st.sampled_from(FAULTS),
        replicate_only=st.booleans(), one_point_sources=st.booleans(), wide_span=st.booleans(),
-       identical_rows=st.booleans(), no_overlap=st.booleans())
+       identical_rows=st.booleans(), no_overlap=st.booleans(), named=st.booleans())
 def test_compilation_ends_with_exit_0_or_1_and_one_point_per_row(seed, fault, replicate_only, one_point_sources,
-                                                                 wide_span, identical_rows, no_overlap):
+                                                                 wide_span, identical_rows, no_overlap, named):
     comp = make_compilation(np.random.default_rng(seed), fault=fault, replicate_only=replicate_only,
                             one_point_sources=one_point_sources, wide_span=wide_span,
                             identical_rows=identical_rows, no_overlap=no_overlap)
     text = comp.to_csv()
     note(f"seed {seed}, fault {fault}, substance {comp.substance}\n{text[:4000]}")
-    points = _audit_points(text, [r.source for r in comp.rows])
+    # named: as a curator who knows the substance runs it (its reference joins the sources)
+    points = _audit_points(text, [r.source for r in comp.rows], substance_name(comp) if named else None)
     P_factor = pascal_per(comp.P_unit)
     for p, r in zip(points, comp.rows):
         assert p["status"] in ("ok", "suspect", "reject")  # every cell printed is a number

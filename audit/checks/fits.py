@@ -181,7 +181,14 @@ def corrected_crossing(ctx: AuditContext, low_branch: str, low_fit, high_branch:
         model, why = real_gas_model(ctx, branch)
         if model is None:
             notes.append(f"{branch}: {why}")
-        dz.append(float(model.evaluate(est.T, est.P).delta_z[0]) if model is not None else 1.0)
+        d = float(model.evaluate(est.T, est.P).delta_z[0]) if model is not None else 1.0
+        if not (math.isfinite(d) and d > 0):
+            # the virial model outside its range (a pressure near or above Pc at a low temperature):
+            # no correction rather than an impossible one
+            notes.append(f"{branch}: the real-gas model gives Δz = {d:.3g} at the crossing ({est.T:.5g} K, "
+                         f"{est.P:.4g} Pa), outside its range: apparent enthalpy kept")
+            d = 1.0
+        dz.append(d)
     if dz != [1.0, 1.0]:
         est = intersect_branches(low_fit, high_fit, delta_z_solid=dz[0], delta_z_liquid=dz[1])
     return est, notes

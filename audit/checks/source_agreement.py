@@ -22,6 +22,7 @@ from __future__ import annotations
 import math
 
 from dataclasses import dataclass, replace
+from functools import partial
 
 import numpy as np
 
@@ -595,9 +596,13 @@ def _unit_reading(ctx, record, rows, every, T, P, fit, s, unit_candidate, branch
     from ..consensus.build import judgeable_range
     from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
 
+    from ..thermo.equations import ln_p_where_defined
+
     eq = fit.equation
     with np.errstate(all="ignore"):
-        offset = float(np.median(np.log(P) - eq.ln_p(T))) if rows else math.nan
+        # rows beyond a reduced form's Tc are left out of the level, not allowed to stop the reading
+        r = np.log(P) - ln_p_where_defined(eq, T) if rows else np.array([])
+        offset = float(np.median(r[np.isfinite(r)])) if np.isfinite(r).any() else math.nan
     units = [p.P_text_unit for p in rows]
     tolerance = math.log1p(s["unit_tolerance_percent"] / 100)
     slope = _slope_departure(T, P, fit, s) if unit_candidate and rows else None
@@ -830,7 +835,10 @@ def _slope_departure(T, P, fit, s):
         return None
     dH_own = -R_GAS * float(own.params[1])
     u_own = R_GAS * float(own.standard_errors[1])
-    dH_cons = float(apparent_enthalpy(fit.equation, own.T_ref))
+    try:
+        dH_cons = float(apparent_enthalpy(fit.equation, own.T_ref))
+    except ValueError:  # the source's temperatures beyond a reduced form's Tc: no slope to compare
+        return None
     try:
         u_cons = float(enthalpy_uncertainty(fit, own.T_ref))
     except ValueError:  # a consensus without a covariance: its slope taken as exact
@@ -873,6 +881,7 @@ def _block_causes(ctx, model, s, whole_sources, references=None) -> dict:
     source's own right rows are rejected around it.
     """
     from ..consensus.build import judgeable_range
+    from ..thermo.equations import ln_p_where_defined
     from ..thermo.rounding import pressure_rounding_u_lnP
     from ..thermo.stats import mad_scale
 
@@ -892,7 +901,8 @@ def _block_causes(ctx, model, s, whole_sources, references=None) -> dict:
 
             for run in _runs(pts, lambda p: ctx.status[p.row] == "reject" and (
                     ctx.causes.get(p.row) is None or ctx.causes[p.row].kind in _REPLACEABLE), m):
-                out.update(_judge_block(run, eq.ln_p, judgeable_range(c.fit), s, where(run), "the consensus"))
+                out.update(_judge_block(run, partial(ln_p_where_defined, eq), judgeable_range(c.fit), s, where(run),
+                                        "the consensus"))
             if reference is None or not name:
                 continue
             T = np.array([p.T_K for p in pts])

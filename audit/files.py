@@ -26,8 +26,32 @@ def audit_file(data: str, *, profile="default", overrides=None, metadata: str | 
 
     prof = _profile(profile)
     dataset = read_table(data, overrides, metadata_path=metadata, row_limit=prof.row_limit)
-    dataset = with_library_constants(dataset, substance)
+    if substance:
+        dataset = with_library_constants(dataset, substance)
+    else:
+        dataset = _metadata_substance(dataset)
     return dataset, prof, run_audit(dataset, prof, audited_at=audited_at)
+
+
+def _metadata_substance(dataset):
+    """The library's constants for a substance the metadata names (by CAS number, else by name),
+    as ``--substance`` gives them; a name the library does not know is noted, not an error (the
+    metadata may name an invented or proprietary substance)."""
+    from dataclasses import replace
+
+    from .errors import InputError
+    from .substances import with_library_constants
+
+    md = dataset.metadata
+    key = (md.cas or "").strip() or (md.substance or "").strip()
+    if not key:
+        return dataset
+    try:
+        return with_library_constants(dataset, key)
+    except InputError:
+        return replace(dataset, notes=dataset.notes + (
+            f"the metadata's substance {key!r} is not in the property library: no library constants or "
+            "reference correlation (give them in the metadata file)",))
 
 
 def audit_sheet_file(path: str, *, profile="default", audited_at: str | None = None):

@@ -21,12 +21,12 @@ def test_audit_find_verify_reaudit_and_compare(tmp_path, capsys):
     shutil.copytree(COLLECTION, inputs)
     archive = tmp_path / "audits.sqlite"
     assert main(["batch", str(inputs), "--out", str(tmp_path / "run1"), "--jobs", "2", "--no-progress",
-                 "--archive", str(archive)]) == 0  # warnings only: exit 0 without --strict
+                 "--archive", str(archive)]) == 1  # one dataset fails (ethanol: rows above its Pc)
     capsys.readouterr()
 
     assert main(["archive", "list", "--archive", str(archive), "--substance", "ethanol"]) == 0
     listed = capsys.readouterr().out.strip().splitlines()
-    assert len(listed) == 1 and "ethanol_supplier.csv" in listed[0] and "WARN" in listed[0].upper()
+    assert len(listed) == 1 and "ethanol_supplier.csv" in listed[0] and "FAIL" in listed[0].upper()
     first_id = int(listed[0].split()[0].lstrip("#"))
 
     assert main(["archive", "verify", "--archive", str(archive)]) == 0

@@ -165,6 +165,14 @@ class SourceAgreement_(Check):
     than the others' curve's.  The unit readings in (5) are tried against
     the reference too when the others' curve gives none.
 
+    Within a source, a run of rows that forms a series of its own is
+    diagnosed as a block (another unit, scale or compound): among rows
+    rejected one by one against the consensus; against the reference, when
+    named; and, for a source flagged as off as a whole, against the others'
+    curve refitted without it — a source most of whose rows are another
+    compound's is off as a whole, and its rows of this substance show which
+    rows are not.
+
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
     ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
     ``other_compound_dH_percent``, ``max_gauge_error_percent``, ``max_thermometer_error_K``, ``trouton_band``,
@@ -272,7 +280,8 @@ class SourceAgreement_(Check):
                     point_status[p.row] = "reject"
                     causes[p.row] = Cause(cause["kind"], text, *suggest(p))
         whole = {r.source for r in records if r.extra.get("cause")}
-        for row, cause in _block_causes(ctx, model, s, whole, references).items():
+        off = {r.source for r in records if r.status != "ok" and not r.extra.get("cause")}
+        for row, cause in _block_causes(ctx, model, s, whole, references, off).items():
             point_status[row] = "reject"
             causes[row] = cause
         # a level no gauge or thermometer error reaches, once the unit readings and the blocks had
@@ -858,7 +867,7 @@ def _slope_departure(T, P, fit, s):
 _REPLACEABLE = (None, "digit-swap", "decimal-shift")
 
 
-def _block_causes(ctx, model, s, whole_sources, references=None) -> dict:
+def _block_causes(ctx, model, s, whole_sources, references=None, off_sources=frozenset()) -> dict:
     """Causes for contiguous blocks of rejected rows that form a series of their own.
 
     Within one source (or the unnamed rows), in input order, a run of at
@@ -878,12 +887,14 @@ def _block_causes(ctx, model, s, whole_sources, references=None) -> dict:
     its printed rounding), in a source that also has ``min_block_rows`` rows near the
     reference, is judged the same way against the reference, rejected or
     not: a precise block can capture the consensus and pass, while the
-    source's own right rows are rejected around it.
+    source's own right rows are rejected around it.  The same search runs
+    on each source flagged as off (``off_sources``) against the others'
+    curve, refitted without it: a source most of whose rows are another
+    compound's is off as a whole, and its rows of this substance show
+    which rows are not.
     """
     from ..consensus.build import judgeable_range
     from ..thermo.equations import ln_p_where_defined
-    from ..thermo.rounding import pressure_rounding_u_lnP
-    from ..thermo.stats import mad_scale
 
     out: dict = {}
     m = s["min_block_rows"]
@@ -903,35 +914,59 @@ def _block_causes(ctx, model, s, whole_sources, references=None) -> dict:
                     ctx.causes.get(p.row) is None or ctx.causes[p.row].kind in _REPLACEABLE), m):
                 out.update(_judge_block(run, partial(ln_p_where_defined, eq), judgeable_range(c.fit), s, where(run),
                                         "the consensus"))
-            if reference is None or not name:
+            if not name:
                 continue
-            T = np.array([p.T_K for p in pts])
-            with np.errstate(all="ignore"):
-                r = np.log([p.P_Pa for p in pts]) - reference.ln_p(T)
-                limit = s["k"] * reference.u_ln_p(T) + math.log1p(s["tolerance_percent"] / 100)
-            near = np.isfinite(r) & (np.abs(r) <= limit)
-            if near.sum() < m:
-                continue
-            far = {p.row for p, ri, li in zip(pts, r, limit) if math.isfinite(ri) and abs(ri) > li}
-            rounding = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
-            index = {p.row: i for i, p in enumerate(pts)}
-            for run in _runs(pts, lambda p: p.row in far and p.row not in out, m + 1):
-                if all(ctx.causes.get(p.row) is not None and ctx.causes[p.row].kind not in _REPLACEABLE
-                       for p in run):
-                    continue
-                # far also from the rest of the source, beyond k times the rest's own scatter
-                # about the reference (never below its printed rounding): a scattered series
-                # has runs of rows off any curve by chance
-                inside = np.zeros(len(pts), bool)
-                inside[[index[p.row] for p in run]] = True
-                rest = ~inside & np.isfinite(r)
-                if rest.sum() < m:
-                    continue
-                spread = max(mad_scale(r[rest]), float(np.median(rounding[rest])))
-                if not abs(float(np.median(r[inside])) - float(np.median(r[rest]))) > s["k"] * spread:
-                    continue
-                out.update(_judge_block(run, reference.ln_p, reference.T_span, s, where(run),
-                                        "the substance's reference correlation"))
+            if reference is not None:
+                out.update(_blocks_off_a_curve(ctx, pts, reference.ln_p, reference.u_ln_p, reference.T_span,
+                                               s, where, "the substance's reference correlation", out))
+            if name in off_sources:
+                # a flagged source most of whose rows are another compound's: the others' curve,
+                # refitted without it, shows which of its rows are this substance's
+                fit = c.fit
+                cov = np.asarray(fit.covariance) * max(1.0, fit.scale) ** 2
+
+                def u_fit(T, eq=eq, cov=cov):
+                    J = eq.jacobian_ln_p(np.atleast_1d(np.asarray(T, float)))
+                    return np.sqrt(np.maximum(np.einsum("ij,jk,ik->i", J, cov, J), 0.0))
+
+                out.update(_blocks_off_a_curve(ctx, pts, partial(ln_p_where_defined, eq), u_fit,
+                                               judgeable_range(fit), s, where, "the other sources", out))
+    return out
+
+
+def _blocks_off_a_curve(ctx, pts, curve_ln_p, curve_u, judgeable, s, where, against: str, found: dict) -> dict:
+    """Blocks of one named source's rows (in input order) far from a curve (beyond ``k`` times
+    its uncertainty and ``tolerance_percent``) and, in median, from the rest of the source (beyond
+    ``k`` times the rest's scatter about the curve, never below its printed rounding), in a source
+    with ``min_block_rows`` rows near the curve; each judged by :func:`_judge_block`."""
+    from ..thermo.rounding import pressure_rounding_u_lnP
+    from ..thermo.stats import mad_scale
+
+    out: dict = {}
+    m = s["min_block_rows"]
+    T = np.array([p.T_K for p in pts])
+    with np.errstate(all="ignore"):
+        r = np.log([p.P_Pa for p in pts]) - curve_ln_p(T)
+        limit = s["k"] * np.asarray(curve_u(T), float) + math.log1p(s["tolerance_percent"] / 100)
+    near = np.isfinite(r) & np.isfinite(limit) & (np.abs(r) <= limit)
+    if near.sum() < m:
+        return out
+    far = {p.row for p, ri, li in zip(pts, r, limit) if math.isfinite(ri) and math.isfinite(li) and abs(ri) > li}
+    rounding = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
+    index = {p.row: i for i, p in enumerate(pts)}
+    for run in _runs(pts, lambda p: p.row in far and p.row not in found and p.row not in out, m + 1):
+        if all(ctx.causes.get(p.row) is not None and ctx.causes[p.row].kind not in _REPLACEABLE for p in run):
+            continue
+        # a scattered series has runs of rows off any curve by chance
+        inside = np.zeros(len(pts), bool)
+        inside[[index[p.row] for p in run]] = True
+        rest = ~inside & np.isfinite(r)
+        if rest.sum() < m:
+            continue
+        spread = max(mad_scale(r[rest]), float(np.median(rounding[rest])))
+        if not abs(float(np.median(r[inside])) - float(np.median(r[rest]))) > s["k"] * spread:
+            continue
+        out.update(_judge_block(run, curve_ln_p, judgeable, s, where(run), against))
     return out
 
 

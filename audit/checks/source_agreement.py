@@ -836,6 +836,10 @@ def _slope_departure(T, P, fit, s):
     from ..thermo.fitting import InsufficientData, distinct_temperatures, fit_equation
     from ..thermo.slope import enthalpy_uncertainty
 
+    # a series re-read in another temperature scale can put a row at or below 0 K: not on any line
+    T, P = np.asarray(T, float), np.asarray(P, float)
+    ok = np.isfinite(T) & (T > 0) & np.isfinite(P) & (P > 0)
+    T, P = T[ok], P[ok]
     if distinct_temperatures(T) < 3:
         return None
     try:

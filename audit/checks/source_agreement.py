@@ -575,8 +575,13 @@ class SourceAgreement_(Check):
         unit_candidate = flagged or mostly_rejected or not rows
         T = np.array([p.T_K for p in rows])
         P = np.array([p.P_Pa for p in rows])
-        for yardstick, against in yardsticks:
-            found = _unit_reading(ctx, record, rows, every, T, P, yardstick, s, unit_candidate, branch, against)
+        for i, (yardstick, against) in enumerate(yardsticks):
+            found = _unit_reading(ctx, record, rows, every, T, P, yardstick, s, unit_candidate, against)
+            if found is None and i == 0 and record.extra.get("not_analysed") and (
+                    unit_candidate or record.extra.get("isolated")):
+                # no curve reads it: its own line's Trouton ratio may (independent of the yardstick)
+                t_printed, same = _printed_scale(every)
+                found = _trouton_reading(ctx, same, t_printed, branch, s) if same else None
             if found is not None:
                 return found
         # the slope test only for sources already off the others: on every source it
@@ -598,13 +603,19 @@ class SourceAgreement_(Check):
         return None
 
 
-def _unit_reading(ctx, record, rows, every, T, P, fit, s, unit_candidate, branch, against):
+def _printed_scale(points) -> tuple[str, list]:
+    """The temperature scale most of `points` are printed in ('K' for none) and those points."""
+    units = [p.T_text_unit for p in points]
+    printed = max(set(units), key=units.count) if units else "K"
+    return printed, [p for p in points if p.T_text_unit == printed]
+
+
+def _unit_reading(ctx, record, rows, every, T, P, fit, s, unit_candidate, against):
     """(cause, explanation, suggestion) when the whole series reads in another pressure unit or
     temperature scale against the curve `fit` (named `against` in the explanation), else None
     (see ``_source_cause``, steps 1–2)."""
     from ..consensus.build import judgeable_range
     from ..diagnose.source_units import source_pressure_unit, source_temperature_unit
-
     from ..thermo.equations import ln_p_where_defined
 
     eq = fit.equation
@@ -632,9 +643,7 @@ def _unit_reading(ctx, record, rows, every, T, P, fit, s, unit_candidate, branch
     # a series no other source reaches in temperature, with pressures the others reach, is
     # what a whole series in °C under a kelvin header looks like: its scale is tried too
     if unit_candidate or record.extra.get("isolated"):
-        t_units = [p.T_text_unit for p in every]
-        t_printed = max(set(t_units), key=t_units.count) if t_units else "K"
-        same = [p for p in every if p.T_text_unit == t_printed]
+        t_printed, same = _printed_scale(every)
         t_reading = source_temperature_unit(
             [p.T_K for p in same], np.log([p.P_Pa for p in same]), t_printed, eq.ln_p,
             judgeable_range(fit), tolerance, math.log1p(s["max_gauge_error_percent"] / 100)) if same else None
@@ -644,10 +653,6 @@ def _unit_reading(ctx, record, rows, every, T, P, fit, s, unit_candidate, branch
             re_read = _slope_departure(np.array(t_reading.T_K), np.array([p.P_Pa for p in same]), fit, s)
             if re_read is None or re_read.beyond:
                 t_reading = None
-        if t_reading is None and record.extra.get("not_analysed") and same:
-            t_reading = _trouton_reading(ctx, same, t_printed, branch, s)
-            if t_reading is not None:
-                return t_reading
         if t_reading is not None:
             real, shown = TEMPERATURE_SYMBOL[t_reading.real_unit], TEMPERATURE_SYMBOL[t_reading.printed_unit]
             cause = {"kind": "temperature-unit", "n_rows": len(same), "printed_unit": shown,
@@ -690,19 +695,23 @@ def _reference_anchor(reference, T_data, T_below=math.inf, points=_ANCHOR_POINTS
     return T[ok], np.exp(ln[ok]), u[ok] * math.sqrt(points / 2)
 
 
+def _covered(source, reference, T, src, keep) -> np.ndarray:
+    """Indices of the source's kept points the reference curve covers."""
+    mine = np.flatnonzero(keep & (np.asarray(src, dtype=object) == source))
+    return mine[reference.covers(T[mine])] if mine.size else mine
+
+
 def _offset_against_reference(source, reference, T, P, sig, src, keep):
     """The source's offset from the reference curve alone (:func:`offset_against_curve`, the
     curve's uncertainty a common level), over its kept points the curve covers; None with
     fewer than three such points."""
     from ..thermo.source_bias import offset_against_curve
 
-    mine = keep & (np.asarray(src, dtype=object) == source)
-    Tm = T[mine]
-    inside = reference.covers(Tm) if Tm.size else np.zeros(0, bool)
-    if inside.sum() < 3:
+    idx = _covered(source, reference, T, src, keep)
+    if idx.size < 3:
         return None
-    Tm = Tm[inside]
-    return offset_against_curve(source, Tm, np.log(P[mine][inside]) - reference.ln_p(Tm), sig[mine][inside],
+    Tm = T[idx]
+    return offset_against_curve(source, Tm, np.log(P[idx]) - reference.ln_p(Tm), sig[idx],
                                 reference.dlnp_dT(Tm), float(np.median(reference.u_ln_p(Tm))))
 
 
@@ -721,19 +730,16 @@ def _pattern(offset, reference, T, P, rounding, src, keep, min_delta_chi2) -> st
     from ..thermo.source_bias import pattern_against_curve
     from ..thermo.stats import mad_scale
 
-    if reference is not None:
-        mine = keep & (np.asarray(src, dtype=object) == offset.source)
-        Tm = T[mine]
-        inside = reference.covers(Tm) if Tm.size else np.zeros(0, bool)
-        if inside.sum() >= 4 and np.unique(Tm[inside]).size >= 3:
-            Tm, lnPm = Tm[inside], np.log(P[mine][inside])
-            line = np.polyval(np.polyfit(1.0 / Tm, lnPm, 1), 1.0 / Tm)
-            own = mad_scale(lnPm - line)
-            sigma = np.maximum(np.maximum(rounding[mine][inside], own), 1e-6)
-            delta = pattern_against_curve(lnPm - reference.ln_p(Tm), sigma, reference.dlnp_dT(Tm),
-                                          float(np.median(reference.u_ln_p(Tm))))
-            if math.isfinite(delta) and abs(delta) >= min_delta_chi2:
-                return "temperature-offset" if delta > 0 else "pressure-scale"
+    idx = _covered(offset.source, reference, T, src, keep) if reference is not None else np.array([], int)
+    if idx.size >= 4 and np.unique(T[idx]).size >= 3:
+        Tm, lnPm = T[idx], np.log(P[idx])
+        line = np.polyval(np.polyfit(1.0 / Tm, lnPm, 1), 1.0 / Tm)
+        own = mad_scale(lnPm - line)
+        sigma = np.maximum(np.maximum(rounding[idx], own), 1e-6)
+        delta = pattern_against_curve(lnPm - reference.ln_p(Tm), sigma, reference.dlnp_dT(Tm),
+                                      float(np.median(reference.u_ln_p(Tm))))
+        if math.isfinite(delta) and abs(delta) >= min_delta_chi2:
+            return "temperature-offset" if delta > 0 else "pressure-scale"
     return offset.preferred_pattern(min_delta_chi2) or (
         "temperature-offset" if offset.delta_chi2 > 0 else "pressure-scale")
 
@@ -927,7 +933,7 @@ def _block_causes(ctx, model, s, whole_sources, references=None, off_sources=fro
                 # a flagged source most of whose rows are another compound's: the others' curve,
                 # refitted without it, shows which of its rows are this substance's
                 fit = c.fit
-                cov = np.asarray(fit.covariance) * max(1.0, fit.scale) ** 2
+                cov = fit.covariance_birge
 
                 def u_fit(T, eq=eq, cov=cov):
                     J = eq.jacobian_ln_p(np.atleast_1d(np.asarray(T, float)))
@@ -1017,9 +1023,7 @@ def _judge_block(run, curve_ln_p, judgeable, s, where: str, against: str) -> dic
         text = (f"{where} form a block printed in {reading.real_unit}, not {reading.printed_unit}: "
                 f"×{reading.factor:.6g} puts them on {against} within {reading.remaining_percent:+.2g} %")
         return {p.row: Cause("pressure-unit", text, None, p.P_Pa * reading.factor) for p in run}
-    t_units = [p.T_text_unit for p in run]
-    t_printed = max(set(t_units), key=t_units.count)
-    same = [p for p in run if p.T_text_unit == t_printed]
+    t_printed, same = _printed_scale(run)
     t_reading = source_temperature_unit([p.T_K for p in same], np.log([p.P_Pa for p in same]),
                                         t_printed, curve_ln_p, judgeable, tolerance)
     if t_reading is not None and len(same) == len(run):

@@ -164,6 +164,12 @@ class VaporPressureFit:
         return self.sigma_lnP * (self.scale if self.scale_estimated else 1.0)
 
     @property
+    def covariance_birge(self) -> np.ndarray:
+        """The parameter covariance times max(1, scale)²: never narrower than the scatter the
+        fit's points show about it (Birge, Phys. Rev. 40, 207 (1932)) [units of the parameters²]."""
+        return np.asarray(self.covariance) * max(1.0, self.scale) ** 2
+
+    @property
     def standardized_residuals(self) -> np.ndarray:
         """Residuals divided by σ and by the scale (about N(0, 1) for good points)."""
         s = self.scale if (self.scale_estimated and self.scale > 0) else 1.0

@@ -391,7 +391,7 @@ def source_offsets(T, P, sigma_lnP, sources: Sequence[str | None], form, *, keep
         Ts = T[mine]
         r = np.log(P[mine]) - fit.equation.ln_p(Ts)
         J = fit.equation.jacobian_ln_p(Ts)
-        cov = np.asarray(fit.covariance) * max(1.0, fit.scale) ** 2
+        cov = fit.covariance_birge
         # the others' curve uncertainty correlates the source's points; V is
         # diagonal plus rank k (k parameters), never formed as an n×n matrix
         V = LowRankCovariance(sig[mine] ** 2, J, cov)

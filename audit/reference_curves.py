@@ -143,7 +143,7 @@ def reference_curves(dataset, floor_u_lnP: float) -> dict[str, ReferenceCurve]:
         branch of unknown phase gets every set, each where it is valid (the
         liquid's only above the triple or melting point, when one is known).
     """
-    from .checks.fits import WATER_CAS, WATER_NAMES
+    from .checks.fits import names_water
 
     md = dataset.metadata
     floor = float(floor_u_lnP)
@@ -156,11 +156,11 @@ def reference_curves(dataset, floor_u_lnP: float) -> dict[str, ReferenceCurve]:
         for table in (given if isinstance(given, list) else [given]):
             branch, (eq, lo, hi, name) = _from_metadata(table, dataset.file_name)
             (solid if branch == "solid" else liquid).append(ReferenceSet(eq, lo, hi, floor, name))
-    elif (md.cas or "").strip() == WATER_CAS or (md.substance or "").strip().lower() in WATER_NAMES:
+    elif names_water(md):
         from .thermo.reference import IceSublimationIAPWS2011, WaterSaturationWagnerPruss
 
         liq, ice = WaterSaturationWagnerPruss(), IceSublimationIAPWS2011()
-        liquid.append(ReferenceSet(liq, liq.T_min, liq.T_max, max(IAPWS_LIQUID_U_LNP, 0.0),
+        liquid.append(ReferenceSet(liq, liq.T_min, liq.T_max, IAPWS_LIQUID_U_LNP,
                                    "IAPWS-95 auxiliary saturation equation (Wagner & Pruss)"))
         solid.append(ReferenceSet(ice, ice.T_min, ice.T_max, IAPWS_ICE_U_LNP,
                                   "IAPWS R14-08(2011) sublimation equation"))

@@ -32,8 +32,12 @@ def branch_data(ctx: AuditContext, branch: str) -> BranchData:
 
 
 def is_water(ctx: AuditContext) -> bool:
-    md = ctx.dataset.metadata
-    return (md.cas or "").strip() == WATER_CAS or (md.substance or "").strip().lower() in WATER_NAMES
+    return names_water(ctx.dataset.metadata)
+
+
+def names_water(metadata) -> bool:
+    """Does the metadata name water (its CAS number, or a name of water or ice)?"""
+    return (metadata.cas or "").strip() == WATER_CAS or (metadata.substance or "").strip().lower() in WATER_NAMES
 
 
 @dataclass(frozen=True)

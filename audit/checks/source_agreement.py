@@ -165,6 +165,12 @@ class SourceAgreement_(Check):
     than the others' curve's.  The unit readings in (5) are tried against
     the reference too when the others' curve gives none.
 
+    A source more than ``remnant_share`` of whose rows the outliers check
+    rejected is no yardstick for the others: its rows left near the curve
+    are the remnant of a series wrong as a whole (a series in mmHg under a
+    kPa header meets the curve at one end), and a series beside it must
+    not be judged against them.
+
     Within a source, a run of rows that forms a series of its own is
     diagnosed as a block (another unit, scale or compound): among rows
     rejected one by one against the consensus; against the reference, when
@@ -176,7 +182,7 @@ class SourceAgreement_(Check):
     **Options.** ``k``, ``tolerance_percent``, ``reject_tolerance_percent``,
     ``pattern_delta_chi2``, ``min_points``, ``unit_tolerance_percent``, ``unit_ratio_tolerance``, ``min_block_rows``,
     ``other_compound_dH_percent``, ``max_gauge_error_percent``, ``max_thermometer_error_K``, ``trouton_band``,
-    ``trouton_max_sublimation``, ``reference_u_floor_percent``.
+    ``trouton_max_sublimation``, ``reference_u_floor_percent``, ``remnant_share``.
     """
 
     id = "source-agreement"
@@ -221,6 +227,8 @@ class SourceAgreement_(Check):
                                                    "more yardstick of the sources)", "%", 0.01, 50),
         "trouton_max_sublimation": Option(float, "the band's upper end for a solid or unknown branch (sublimation "
                                                  "adds the entropy of fusion)", "J mol⁻¹ K⁻¹", 55, 1000),
+        "remnant_share": Option(float, "share of a source's rows rejected by the outliers check beyond which "
+                                       "its other rows are no yardstick for the other sources [-]", "", 0, 1),
     }
 
     def run(self, ctx):
@@ -373,7 +381,11 @@ class SourceAgreement_(Check):
             P = np.array([p.P_Pa for p in pts])
             sig = sigmas(pts)
             rounding = np.nan_to_num([pressure_rounding_u_lnP(p.P_text, p.P_text_unit) for p in pts], nan=0.0)
-            keep = np.array([ctx.status[p.row] != "reject" for p in pts])
+            # the few rows the outliers check left of a source it mostly rejected are the remnant of
+            # a series wrong as a whole (another unit or compound lying near the curve at one end),
+            # not a yardstick: they neither make another source overlap nor pull its comparison
+            remnant = _mostly_rejected(ctx, branch, s["remnant_share"])
+            keep = np.array([ctx.status[p.row] != "reject" and p.source not in remnant for p in pts])
             eq = branch_model.fit.equation
             fixed = eq.fixed_parameters()
             form = type(eq)
@@ -383,7 +395,8 @@ class SourceAgreement_(Check):
                         and p.source not in dropped]
             T_all = np.array([p.T_K for p in everyone])
             src_all = np.array([p.source for p in everyone], dtype=object)
-            kept_all = np.array([ctx.status[p.row] in ("ok", "suspect") for p in everyone])
+            kept_all = np.array([ctx.status[p.row] in ("ok", "suspect") and p.source not in remnant
+                                 for p in everyone])
             reference = references.get(branch)
             # over the usable points' span, below a fixed critical temperature of the form
             anchor = (_reference_anchor(reference, T, fixed.get("Tc", math.inf))
@@ -601,6 +614,17 @@ class SourceAgreement_(Check):
                     "ratio explains its level: likely another compound's data — exclude it")
             return cause, text, lambda p: (None, None)
         return None
+
+
+def _mostly_rejected(ctx, branch, share) -> frozenset:
+    """Sources more than ``share`` [-] of whose readable rows in ``branch`` are rejected."""
+    counts: dict[str, list[int]] = {}
+    for p in ctx.dataset.points:
+        if p.readable and p.source and ctx.phase(p) == branch:
+            c = counts.setdefault(p.source, [0, 0])
+            c[0] += ctx.status[p.row] == "reject"
+            c[1] += 1
+    return frozenset(name for name, (bad, n) in counts.items() if bad > share * n)
 
 
 def _printed_scale(points) -> tuple[str, list]:

@@ -60,6 +60,8 @@ __all__ = [
 
 #: Φ⁻¹(3/4): MAD / this is a consistent estimate of a normal standard deviation.
 _MAD_NORMAL = 0.6744897501960817
+#: Most reweighting steps [-] of the Huber phase that starts a Tukey fit.
+START_BUDGET = 50
 #: Huber tuning constant (95 % efficiency at the normal; Huber 1964).
 HUBER_C = 1.345
 #: Tukey biweight tuning constant (95 % efficiency at the normal).
@@ -500,10 +502,29 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     converged = False
     it = 0
     prev_lnp = eq.ln_p(T)
+    # Reweighting converges linearly, so the tolerance and the iteration budget decide
+    # what a fit costs and, where convergence is slow, what it returns.  Tolerances are
+    # set against the scatter of the first fit's residuals: a curve that moves by a
+    # millionth of the scatter has converged for any statistic drawn from it.  Antoine's
+    # one-dimensional search for C is itself only good to about 1e-8 in ln P (the sum
+    # of squares is flat along C), so its fits stop at a ten-thousandth.  The Huber
+    # phase that only starts the redescending one stops at a thousandth, or after
+    # START_BUDGET steps: with many points clipped it can shrink its change by only
+    # 3 % a step, and the Tukey phase then gets the whole budget of its own.
+    scatter = float(np.median(np.abs(y[active] - prev_lnp[active]))) / _MAD_NORMAL
+    if cls.linear:
+        final_tolerance = min(max(1e-6 * scatter, 1e-13), 1e-9)
+    else:
+        final_tolerance = min(max(1e-4 * scatter, 1e-10), 1e-6)
+    start_tolerance = max(1e-3 * scatter, final_tolerance)
     # each nonlinear (Antoine) solve is itself iterative: bound the outer loop so that
     # a data set the form cannot describe (e.g. P falling with T) ends in seconds
-    outer = max_iter if cls.linear else min(max_iter, 40)
-    for it in range(1, outer + 1):
+    budget = max_iter if cls.linear else min(max_iter, 40)
+    starting = robust == "tukey"
+    phase_it = 0
+    while phase_it < budget:
+        it += 1
+        phase_it += 1
         sigma = np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2) if given else np.ones(n)
         z = (y - eq.ln_p(T)) / sigma
         if phase is not None:
@@ -528,14 +549,15 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
         lnp = eq.ln_p(T)
         change = float(np.max(np.abs(lnp - prev_lnp)))
         prev_lnp = lnp
-        if change < 1e-11:
-            if phase == "huber" and robust == "tukey":
+        if starting:
+            if change < start_tolerance or phase_it >= min(budget, START_BUDGET):
                 # Hold the scale for the redescending phase at Qn of the Huber
                 # residuals: as robust as the MAD but about twice as efficient,
                 # so fewer good points are cut off by a scale that came out low.
-                phase = "tukey"
+                phase, starting, phase_it = "tukey", False, 0
                 mad = _qn_scale(z_stud[active]) or mad
-                continue
+            continue
+        if change < final_tolerance:
             converged = True
             break
 

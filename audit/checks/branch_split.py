@@ -462,7 +462,7 @@ def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, floa
     *curved* branch.  Huber-weighted fits keep a gross error from faking a
     kink; the p-value is Bonferroni-adjusted over the splits tried.
     """
-    from scipy import stats
+    from ..thermo.distributions import f_sf
 
     from ..thermo.fitting import distinct_temperatures, fit_equation
 
@@ -482,7 +482,7 @@ def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, floa
     if rss2 <= 0:
         return float("inf"), 0.0
     F = ((rss(one) - rss2) / extra) / (rss2 / dof)
-    p = float(stats.f.sf(F, extra, dof)) if F > 0 else 1.0
+    p = float(f_sf(F, extra, dof)) if F > 0 else 1.0
     return float(F), min(1.0, p * max(n_tested, 1))
 
 

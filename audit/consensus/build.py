@@ -223,12 +223,12 @@ def _understated(inf, dof: int, alpha: float) -> bool:
     stated u in charge (normal critical values); a significant excess makes
     the scale estimated (Birge ratio, t critical values).
     """
-    from scipy.stats import chi2
+    from ..thermo.distributions import chi2_sf
 
     if dof < 1 or not inf.in_fit.any():
         return False
     s_min = float(np.min(inf.scale_loo[inf.in_fit]))
-    return bool(chi2.sf(s_min ** 2 * dof, dof) < alpha)
+    return bool(chi2_sf(s_min ** 2 * dof, dof) < alpha)
 
 
 class _BranchAnalysis:
@@ -474,7 +474,7 @@ class _BranchAnalysis:
         and measured about the consensus that trend would pass for scatter
         and the series would certify itself.
         """
-        from scipy.stats import levene
+        from ..thermo.distributions import f_sf, levene_median_pvalue
 
         pooled = mad_scale(r[active])
         pooled = pooled if pooled > 0 else 1e-6
@@ -498,13 +498,11 @@ class _BranchAnalysis:
         nu0 = mad_degrees_of_freedom(s["min_points_source_scale"])
         # effective degrees of freedom of each point's scale: the pooled one's are many (∞ here)
         dof = np.full(r.size, np.inf)
-        if len(groups) < 2 or levene(*groups, center="median").pvalue >= s["source_scale_alpha"]:
+        if len(groups) < 2 or levene_median_pvalue(*groups) >= s["source_scale_alpha"]:
             # one shared scatter, as far as the test can tell — yet a source is never judged by
             # a scatter smaller than its own: a 12 % series beside 0.01 % ones can pass the test
             # (the others' residuals carry the curve's misfit, and a few-row source is not in
             # it), so each source's own scale, shrunk toward the pooled one, raises its σ
-            from scipy.stats import f as f_dist
-
             nu_pooled = MAD_EFFICIENCY * max(int(np.count_nonzero(active)) - 1, 1)
             for name, mine_scale in own.items():
                 mine = src == name
@@ -515,7 +513,7 @@ class _BranchAnalysis:
                 # (numpy floats: a scale ratio of 1e200 from a garbage fit squares to inf, not an error)
                 ratio = np.float64(mine_scale) / np.float64(pooled)
                 with np.errstate(over="ignore"):
-                    if mine_scale > pooled and f_dist.sf(ratio * ratio, nu, nu_pooled) < s["source_scale_alpha"]:
+                    if mine_scale > pooled and f_sf(ratio * ratio, nu, nu_pooled) < s["source_scale_alpha"]:
                         out[mine] = np.sqrt((nu * np.float64(mine_scale) ** 2 + nu0 * np.float64(pooled) ** 2)
                                             / (nu + nu0))
                 # whichever scale it keeps, whether this source shares the pooled scatter is known only

@@ -42,6 +42,7 @@ import numpy as np
 from scipy import optimize
 
 from .data import InsufficientData, as_data, as_uncertainty, readonly, weighted_lstsq
+from .distributions import qn_scale
 from .slope import apparent_enthalpy, heat_capacity_change
 from .ratios import percent_from_log_ratio
 from .equations import (Antoine, ClarkeGlew, ClausiusClapeyron2, VaporPressureEquation, Wagner,
@@ -302,9 +303,7 @@ def _mad_scale(z, active):
 
 
 def _qn_scale(z) -> float:
-    from statsmodels.robust.scale import qn_scale
-
-    return float(qn_scale(np.asarray(z, dtype=float))) if z.size > 1 else 0.0
+    return qn_scale(z) if z.size > 1 else 0.0
 
 
 def _antoine_start(T, y, w, fixed) -> Antoine:

@@ -18,8 +18,8 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import stats
 
+from .distributions import chi2_sf, durbin_watson, f_sf, normal_cdf, normal_isf, normal_sf, t_isf
 from .enthalpy import heat_capacity_change
 
 __all__ = ["family_wise_critical", "CurvatureTest", "curvature_test", "curvature_test_with_levels", "RunsTest",
@@ -100,9 +100,9 @@ def curvature_test(fit2, fit3) -> CurvatureTest:
     d_chi2 = max(fit2.chi2 - fit3.chi2, 0.0)
     if fit3.scale_estimated:
         F = (d_chi2 / dk) / (fit3.chi2 / fit3.dof) if fit3.chi2 > 0 else math.inf
-        stat, p, df, method = F, float(stats.f.sf(F, dk, fit3.dof)), (dk, fit3.dof), "F"
+        stat, p, df, method = F, float(f_sf(F, dk, fit3.dof)), (dk, fit3.dof), "F"
     else:
-        stat, p, df, method = d_chi2, float(stats.chi2.sf(d_chi2, dk)), (dk,), "chi2"
+        stat, p, df, method = d_chi2, float(chi2_sf(d_chi2, dk)), (dk,), "chi2"
     cp = heat_capacity_change(fit3, fit3.T_ref)
     return CurvatureTest(method=method, statistic=float(stat), p_value=p, df=df, dCp=float(cp.value),
                          u_dCp=float(cp.uncertainty), T_ref=fit3.T_ref)
@@ -195,11 +195,11 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups, scale_known: bool =
         raise ValueError(f"the least-squares problem failed: {exc}") from None
     d_chi2 = max(chi2_2 - chi2_3, 0.0)
     if scale_known:
-        s2, stat, p, df, method = 1.0, d_chi2, float(stats.chi2.sf(d_chi2, 1)), (1,), "chi2"
+        s2, stat, p, df, method = 1.0, d_chi2, float(chi2_sf(d_chi2, 1)), (1,), "chi2"
     else:
         s2 = chi2_3 / dof3
         stat = d_chi2 / s2 if s2 > 0 else math.inf
-        p, df, method = float(stats.f.sf(stat, 1, dof3)), (1, dof3), "F"
+        p, df, method = float(f_sf(stat, 1, dof3)), (1, dof3), "F"
     try:
         cov = s2 * np.linalg.inv((X3 * w[:, None]).T @ X3)
     except np.linalg.LinAlgError as exc:
@@ -294,8 +294,6 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
     (cutoff 0, no correction) and ``statsmodels.stats.stattools.durbin_watson``
     in ``tests/thermo/test_stats_runs.py``.
     """
-    from statsmodels.stats.stattools import durbin_watson
-
     r = np.asarray(residuals_sorted_by_T, dtype=float).ravel()
     if r.size < 2 or not np.all(np.isfinite(r)):
         raise ValueError("need at least two finite residuals")
@@ -308,7 +306,7 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
     if n_pos and n_neg and n > 1:
         mu, var = _runs_moments(n_pos, n_neg)
         z = (runs - mu) / math.sqrt(var) if var > 0 else 0.0
-        p2, p1 = float(2 * stats.norm.sf(abs(z))), float(stats.norm.cdf(z))
+        p2, p1 = float(2 * normal_sf(abs(z))), float(normal_cdf(z))
     else:  # all residuals of one sign: a single run, maximal structure
         mu, z, p2, p1 = 1.0, math.nan, math.nan, math.nan
     if n:
@@ -388,10 +386,8 @@ def grouped_residual_runs(residuals_sorted_by_T, groups) -> RunsTest:
         if part.longest_run > len(best):
             best = tuple(int(idx[i]) for i in part.longest_run_members)
     z = (runs - mu) / math.sqrt(var) if var > 0 else math.nan
-    p2 = float(2 * stats.norm.sf(abs(z))) if var > 0 else math.nan
-    p1 = float(stats.norm.cdf(z)) if var > 0 else math.nan
-    from statsmodels.stats.stattools import durbin_watson
-
+    p2 = float(2 * normal_sf(abs(z))) if var > 0 else math.nan
+    p1 = float(normal_cdf(z)) if var > 0 else math.nan
     by_group = r[np.array(order)]
     return RunsTest(n_pos=n_pos, n_neg=n_neg, runs=runs, expected_runs=float(mu), z=float(z), p_value=p2,
                     p_value_too_few=p1,
@@ -440,7 +436,7 @@ def coverage_for_estimated_scale(k: float, dof: float) -> float:
     """
     if not dof < 1e6:
         return k
-    return float(stats.t.isf(stats.norm.sf(k), max(dof, 1.0)))
+    return float(t_isf(normal_sf(k), max(dof, 1.0)))
 
 
 def mad_degrees_of_freedom(n: int) -> float:
@@ -632,5 +628,5 @@ def family_wise_critical(alpha: float, n: int, correction: str, dof: float | Non
     n = max(1, int(n))
     a = 1 - (1 - alpha) ** (1 / n) if correction == "sidak" else alpha / n
     if dof is None or not math.isfinite(dof):
-        return float(stats.norm.isf(a / 2))
-    return float(stats.t.isf(a / 2, max(dof, 1.0)))
+        return float(normal_isf(a / 2))
+    return float(t_isf(a / 2, max(dof, 1.0)))

@@ -396,11 +396,14 @@ def _antoine_profile_C(eq: Antoine, T, y, w) -> tuple[float, float, float]:
     return A, B, C
 
 
-def _solve(cls, template, T, y, w, current):
-    """One weighted solve; returns (equation, unscaled covariance)."""
+def _solve(cls, template, T, y, w, current, design=None):
+    """One weighted solve; returns (equation, unscaled covariance).
+
+    ``design``, for a linear form, is its (design matrix, offset) at T, computed once per fit.
+    """
     if cls.linear:
-        X = template.design_matrix(T)
-        b, cov = weighted_lstsq(X, y - template.design_offset(T), w)
+        X, offset = design if design is not None else (template.design_matrix(T), template.design_offset(T))
+        b, cov = weighted_lstsq(X, y - offset, w)
         return cls.from_coefficients(b, **template.fixed_parameters()), cov
     # Antoine is linear in (A, B) once C is fixed: minimise the profiled weighted sum of
     # squares over C alone (variable projection), on the positive side of the pole.  A
@@ -416,6 +419,15 @@ def _solve(cls, template, T, y, w, current):
     _, s, Vt = np.linalg.svd(J / norms, full_matrices=False)
     cov = ((Vt.T / s ** 2) @ Vt) / np.outer(norms, norms)
     return eq, cov
+
+
+def _sigma_lnP(eq, T, rel_uP, uT, given: bool, temperature_given: bool):
+    """Each point's σ in ln P: u(P)/P and the curve's slope times u(T) (effective variance)."""
+    if not given:
+        return np.ones(T.size)
+    if not temperature_given:
+        return np.sqrt(rel_uP ** 2)
+    return np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2)
 
 
 def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=None,
@@ -485,12 +497,14 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
         raise ValueError("robust must be True, False, 'huber' or 'tukey'")
     y = np.log(P)
     rel_uP = uP / P
+    temperature_given = bool(np.any(uT > 0))
 
     if cls.linear:
         template = cls.from_coefficients(np.zeros(k), **fixed)
-        eq, cov = _solve(cls, template, T, y, prior, None)
+        design = (template.design_matrix(T), template.design_offset(T))
+        eq, cov = _solve(cls, template, T, y, prior, None, design)
     else:
-        template = None
+        template = design = None
         eq = _antoine_start(T, y, prior, fixed)
         eq, cov = _solve(cls, None, T, y, prior, eq)
 
@@ -524,14 +538,14 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
     while phase_it < budget:
         it += 1
         phase_it += 1
-        sigma = np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2) if given else np.ones(n)
-        z = (y - eq.ln_p(T)) / sigma
+        sigma = _sigma_lnP(eq, T, rel_uP, uT, given, temperature_given)
+        z = (y - prev_lnp) / sigma
         if phase is not None:
             # Studentize by leverage for the redescending phase: an end point of
             # a flexible curve pulls the curve towards itself, so its raw
             # residual understates how far off it is.  (The Huber phase uses
             # raw residuals, exactly as statsmodels' RLM does.)
-            J = template.design_matrix(T) if cls.linear else eq.jacobian_ln_p(T)
+            J = design[0] if cls.linear else eq.jacobian_ln_p(T)
             h = np.clip(w * np.einsum("ij,jk,ik->i", J, cov, J), 0.0, 0.99)
             z_stud = z / np.sqrt(1.0 - h)
         if phase == "huber":
@@ -544,7 +558,7 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
             if kept.sum() <= k or distinct_temperatures(T[kept]) < k:
                 robust_w = _robust_weights(z / mad, "huber")  # too few left: stay with Huber
         w = prior * robust_w / sigma ** 2
-        eq, cov = _solve(cls, template, T, y, w, eq)
+        eq, cov = _solve(cls, template, T, y, w, eq, design)
         lnp = eq.ln_p(T)
         change = float(np.max(np.abs(lnp - prev_lnp)))
         prev_lnp = lnp
@@ -560,7 +574,7 @@ def fit_equation(T, P, form, u_T=None, u_P=None, robust=True, *, point_weights=N
             converged = True
             break
 
-    sigma = np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2) if given else np.ones(n)
+    sigma = _sigma_lnP(eq, T, rel_uP, uT, given, temperature_given)
     resid = y - eq.ln_p(T)
     weights = prior * robust_w
     used = weights > 0

@@ -27,6 +27,7 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
+from functools import lru_cache
 
 __all__ = [
     "PrintedNumber",
@@ -88,6 +89,7 @@ def _normalize(text: str) -> str:
     return s
 
 
+@lru_cache(maxsize=8192)  # a cell's text is read by several checks; the result is immutable
 def parse_printed_number(text: str) -> PrintedNumber:
     """Read a printed number and the unit of its last digit.
 

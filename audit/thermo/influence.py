@@ -221,8 +221,9 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
 
     The multi-point form of the deletion residual: with H̃_GG = J_G A⁻¹ J_Gᵀ W_G
     (A = JᵀWJ over the fit), deleting the group's fitted points changes the
-    parameters by δβ = −A⁻¹ J_Gᵀ W_G (I − H̃_GG)⁻¹ r_G, so every point i of the
-    group has r_i(−G) = r_i + J_i A⁻¹ J_Gᵀ W_G (I − H̃_GG)⁻¹ r_G.  Exact for a
+    parameters by δβ = −A⁻¹ J_Gᵀ W_G (I − H̃_GG)⁻¹ r_G = −A₋⁻¹ J_Gᵀ W_G r_G
+    (A₋ = A − J_Gᵀ W_G J_G, the kept points' normal matrix), so every point i
+    of the group has r_i(−G) = r_i + J_i A₋⁻¹ J_Gᵀ W_G r_G.  Exact for a
     linear model, first order for a nonlinear one linearised at the solution.
     Used to judge a whole source against the curve of the others without a
     refit per source.
@@ -265,13 +266,13 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     A_minus = (J[keep] * w[keep, None]).T @ J[keep]
     # refitting without the group equals solving the kept points' normal equations; the
     # parameter change follows from the group's fitted residuals
+    # A⁻¹ J_Gᵀ W_G (I − H̃_GG)⁻¹ = A₋⁻¹ J_Gᵀ W_G with A₋ = A − J_Gᵀ W_G J_G (the push-through
+    # identity): a p × p solve, where the n_G × n_G one cost O(n_G³) — minutes for a
+    # source of 5 000 rows
     fitted = g & (w > 0)
     Jg = J[fitted]
-    A = A_minus + (Jg * w[fitted, None]).T @ Jg
     try:
-        M = np.eye(int(fitted.sum())) - Jg @ np.linalg.solve(A, Jg.T * w[fitted])
-        delta = np.linalg.solve(A, Jg.T @ (w[fitted] * np.linalg.solve(M, r[fitted]))) if fitted.any() \
-            else np.zeros(p)
+        delta = np.linalg.solve(A_minus, Jg.T @ (w[fitted] * r[fitted])) if fitted.any() else np.zeros(p)
     except np.linalg.LinAlgError:
         return None
     Jall = J[g]

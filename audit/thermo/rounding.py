@@ -89,7 +89,7 @@ def _normalize(text: str) -> str:
     return s
 
 
-@lru_cache(maxsize=8192)  # a cell's text is read by several checks; the result is immutable
+@lru_cache(maxsize=1 << 16)  # a cell's text is read by several checks; the result is immutable
 def parse_printed_number(text: str) -> PrintedNumber:
     """Read a printed number and the unit of its last digit.
 

@@ -74,6 +74,74 @@ def _relabel_blocks(diagnoses, points_by_row, branch_rows):
     return out
 
 
+def _extend_unit_blocks(diagnoses, c, pts, k: float):
+    """Rejected rows beside a row read in another pressure unit, with no cause of their own.
+
+    A block of rows typed in another unit often runs to one end of the range,
+    where the consensus curve is an extrapolation: the row nearest the data
+    reads right in the other unit, the far ones miss by the curve's own
+    error there.  For a run of neighbouring rejected rows (input order) that
+    holds one such reading and rows with none, all the run's rows are read
+    in that unit and fitted together with the branch's kept rows (three
+    Clausius–Clapeyron constants, each row weighed by its σ in the
+    consensus): when every row of the run then lies within ``k`` σ of that
+    curve and no kept row moves beyond ``k`` σ, the rows without a cause get
+    the block's.
+    """
+    from ..diagnose.choose import ScoredHypothesis
+    from ..thermo.fitting import distinct_temperatures, fit_equation
+
+    index = {p.row: i for i, p in enumerate(pts)}
+    order = sorted(index)
+    out = dict(diagnoses)
+    runs, run = [], []
+    for row in order:
+        if c.reject[index[row]]:
+            run.append(row)
+        else:
+            runs.append(run)
+            run = []
+    runs.append(run)
+    kept = np.array([not c.reject[i] for i in range(len(pts))])
+    T_all = np.array([p.T_K for p in pts])
+    P_all = np.array([p.P_Pa for p in pts]) * np.exp(-np.asarray(c.offsets_lnP, float))
+    sig_all = np.asarray(c.sigma, float)
+    for run in runs:
+        units = [r for r in run if out.get(r) is not None and out[r].best is not None
+                 and out[r].best.hypothesis.kind == "pressure-unit" and out[r].best.hypothesis.quantity == "P"]
+        bare = [r for r in run if out.get(r) is not None and out[r].best is None]
+        factors = {round(math.log10(out[r].best.hypothesis.factor), 6) for r in units}
+        if not units or not bare or len(factors) != 1:
+            continue
+        factor = out[units[0]].best.hypothesis.factor
+        idx = np.array([index[r] for r in run])
+        use = kept.copy()
+        use[idx] = True
+        T, P, sig = T_all[use], P_all.copy(), sig_all[use]
+        P[idx] *= factor
+        P = P[use]
+        if not (np.all(np.isfinite(sig)) and np.all(sig > 0)) or distinct_temperatures(T) < 5:
+            continue
+        try:
+            fit = fit_equation(T, P, "cc3", u_P=sig * P, robust=False)
+        except (ValueError, np.linalg.LinAlgError):
+            continue
+        z = np.full(len(pts), np.nan)
+        z[use] = np.asarray(fit.residuals_lnP) / sig
+        if not (np.all(np.abs(z[idx]) <= k) and np.all(np.abs(z[kept]) <= k)):
+            continue
+        template = out[units[0]].best.hypothesis
+        reading = template.reading.split(" (rows ")[0]
+        for r in bare:
+            p, d = pts[index[r]], out[r]
+            h = type(template)("pressure-unit", p.T_K, p.P_Pa * factor, "P", p.P_text,
+                               reading.replace(f"'{template.printed}'", f"'{p.P_text}'")
+                               + f" (rows {run[0]}–{run[-1]} share this slip; read together with the kept rows)",
+                               factor)
+            out[r] = type(d)(d.row, d.z_before, ScoredHypothesis(h, float(z[index[r]])), d.ranked, d.reason)
+    return out
+
+
 def _causes_of_rows_set_aside(ctx, branches, s) -> dict[int, Cause]:
     """Causes of rows rejected before the consensus (``physical-range``: T ≤ 0 K, P ≤ 0, …).
 
@@ -173,8 +241,11 @@ class Outliers(Check):
     when its corrected point lies within ``cause_k`` σ and the next-best
     reading and the printed value are ``cause_ratio`` times worse; a
     contiguous block of two rows or more sharing one power-of-ten slip is
-    renamed a pressure-unit slip, and rows the physical-range check rejected
-    are diagnosed against their branch's curve too.
+    renamed a pressure-unit slip; rejected rows with no cause beside a row read
+    in another pressure unit (a block running off the end of the data, where the
+    curve is extrapolated) take that reading when the whole run, so read, and
+    the kept rows fit one three-constant curve within ``cause_k`` σ; and rows
+    the physical-range check rejected are diagnosed against their branch's curve too.
 
     **Example.** Water, 20 points 280–370 K; row 12 printed 47.37 kPa where
     the curve gives 47.73 kPa → reject, "digit-swap: P printed '47.37' would
@@ -268,6 +339,7 @@ class Outliers(Check):
                 if c.reject[i] or c.suspect[i]:
                     diagnoses[p.row] = diagnose_point(p, c.corrected_z(i), s["cause_k"], s["cause_ratio"])
             diagnoses = _relabel_blocks(diagnoses, by_row, [p.row for p in pts])
+            diagnoses = _extend_unit_blocks(diagnoses, c, pts, s["cause_k"])
             for i, p in enumerate(pts):
                 if not (c.reject[i] or c.suspect[i]):
                     continue

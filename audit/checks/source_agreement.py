@@ -495,7 +495,9 @@ class SourceAgreement_(Check):
                     best[o.source] = rec
             for name in dict.fromkeys(src_all):
                 if not kept_all[src_all == name].any():
-                    isolated.setdefault(name, "every row rejected before the sources were compared")
+                    isolated.setdefault(name, f"more than {s['remnant_share']:.0%} of its rows rejected before the "
+                                              "sources were compared: judged as a whole, not as a yardstick"
+                                        if name in remnant else "every row rejected before the sources were compared")
             for name, why in isolated.items():
                 best.setdefault(name, SourceAgreement(name, int((src_all == name).sum()), None, None, None,
                                                       "none", "ok", {"branch": branch, "not_analysed": why,

@@ -85,3 +85,7 @@ def test_isolated_series_in_mmhg_is_a_unit_not_another_compound(default_profile)
     # 1 mmHg = 133.322 387 415 Pa (NIST SP 811, B.8): kPa read as mmHg is ×0.133322
     assert cause["factor"] == pytest.approx(0.133322387415, rel=1e-9)
     assert [p.status for p in result.points if p.source == "Jensen 1956"] == ["reject"] * 16
+    # the right series just above it (IAPWS-IF97 at 351-361 K) is not judged against the two mmHg
+    # rows the outliers check had left of Jensen's (remnant_share): it keeps every row
+    assert {s.source: s for s in result.sources}["Chen 1905"].status == "ok"
+    assert all(p.status == "ok" for p in result.points if p.source == "Chen 1905")

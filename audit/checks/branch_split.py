@@ -482,7 +482,7 @@ def _kink_beyond_curvature(T, P, split: int, n_tested: int) -> tuple[float, floa
     if rss2 <= 0:
         return float("inf"), 0.0
     F = ((rss(one) - rss2) / extra) / (rss2 / dof)
-    p = float(f_sf(F, extra, dof)) if F > 0 else 1.0
+    p = f_sf(F, extra, dof) if F > 0 else 1.0
     return float(F), min(1.0, p * max(n_tested, 1))
 
 

@@ -12,6 +12,7 @@ values are flagged, and each gets the cause hypotheses of
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 
 import numpy as np
 
@@ -89,6 +90,7 @@ def _extend_unit_blocks(diagnoses, c, pts, k: float):
     the block's.
     """
     from ..diagnose.choose import ScoredHypothesis
+    from ..diagnose.hypotheses import pressure_unit_hypotheses
     from ..thermo.fitting import distinct_temperatures, fit_equation
 
     index = {p.row: i for i, p in enumerate(pts)}
@@ -102,7 +104,7 @@ def _extend_unit_blocks(diagnoses, c, pts, k: float):
             runs.append(run)
             run = []
     runs.append(run)
-    kept = np.array([not c.reject[i] for i in range(len(pts))])
+    kept = ~np.asarray(c.reject, bool)
     T_all = np.array([p.T_K for p in pts])
     P_all = np.array([p.P_Pa for p in pts]) * np.exp(-np.asarray(c.offsets_lnP, float))
     sig_all = np.asarray(c.sigma, float)
@@ -130,14 +132,13 @@ def _extend_unit_blocks(diagnoses, c, pts, k: float):
         z[use] = np.asarray(fit.residuals_lnP) / sig
         if not (np.all(np.abs(z[idx]) <= k) and np.all(np.abs(z[kept]) <= k)):
             continue
-        template = out[units[0]].best.hypothesis
-        reading = template.reading.split(" (rows ")[0]
         for r in bare:
             p, d = pts[index[r]], out[r]
-            h = type(template)("pressure-unit", p.T_K, p.P_Pa * factor, "P", p.P_text,
-                               reading.replace(f"'{template.printed}'", f"'{p.P_text}'")
-                               + f" (rows {run[0]}–{run[-1]} share this slip; read together with the kept rows)",
-                               factor)
+            h = next((h for h in pressure_unit_hypotheses(p) if abs(h.factor / factor - 1) < 1e-9), None)
+            if h is None:
+                continue
+            h = replace(h, reading=h.reading + f" (rows {run[0]}–{run[-1]} share this slip; read together with "
+                                               "the kept rows)")
             out[r] = type(d)(d.row, d.z_before, ScoredHypothesis(h, float(z[index[r]])), d.ranked, d.reason)
     return out
 

@@ -999,7 +999,7 @@ def enthalpy_steps(T, P, u_T=None, u_P=None, min_points_per_side: int = 4, group
     dof = n - X0.shape[1] - 1
     s2 = rss1 / dof
     F = max(rss0 - rss1, 0.0) / s2 if s2 > 0 else math.inf
-    p = float(f_sf(F, 1, dof))
+    p = f_sf(F, 1, dof)
     return EnthalpyStep(T_step=float(1.0 / inv_k), split=int(k), dH_step=float(-R * b[-1]),
                         u_dH_step=float(R * math.sqrt(cov[-1, -1] * s2)), F=float(F), p_value=p,
                         p_value_adjusted=min(1.0, p * tested), n_tested=tested)

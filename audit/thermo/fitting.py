@@ -426,7 +426,7 @@ def _sigma_lnP(eq, T, rel_uP, uT, given: bool, temperature_given: bool):
     if not given:
         return np.ones(T.size)
     if not temperature_given:
-        return np.sqrt(rel_uP ** 2)
+        return np.sqrt(rel_uP ** 2)  # the line below with u(T) = 0, to the last bit
     return np.sqrt(rel_uP ** 2 + (eq.dlnp_dT(T) * uT) ** 2)
 
 

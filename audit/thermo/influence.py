@@ -264,11 +264,9 @@ def group_deletion(jacobian, residuals, sigma, weights, group) -> GroupDeletion 
     if keep.sum() <= p:
         return None
     A_minus = (J[keep] * w[keep, None]).T @ J[keep]
-    # refitting without the group equals solving the kept points' normal equations; the
-    # parameter change follows from the group's fitted residuals
-    # A⁻¹ J_Gᵀ W_G (I − H̃_GG)⁻¹ = A₋⁻¹ J_Gᵀ W_G with A₋ = A − J_Gᵀ W_G J_G (the push-through
-    # identity): a p × p solve, where the n_G × n_G one cost O(n_G³) — minutes for a
-    # source of 5 000 rows
+    # refitting without the group solves the kept points' normal equations, A₋ δ = J_Gᵀ W_G r_G
+    # (the push-through identity turns the textbook n_G × n_G form into this p × p one: the
+    # former cost O(n_G³), minutes for a source of 5 000 rows)
     fitted = g & (w > 0)
     Jg = J[fitted]
     try:

@@ -100,9 +100,9 @@ def curvature_test(fit2, fit3) -> CurvatureTest:
     d_chi2 = max(fit2.chi2 - fit3.chi2, 0.0)
     if fit3.scale_estimated:
         F = (d_chi2 / dk) / (fit3.chi2 / fit3.dof) if fit3.chi2 > 0 else math.inf
-        stat, p, df, method = F, float(f_sf(F, dk, fit3.dof)), (dk, fit3.dof), "F"
+        stat, p, df, method = F, f_sf(F, dk, fit3.dof), (dk, fit3.dof), "F"
     else:
-        stat, p, df, method = d_chi2, float(chi2_sf(d_chi2, dk)), (dk,), "chi2"
+        stat, p, df, method = d_chi2, chi2_sf(d_chi2, dk), (dk,), "chi2"
     cp = heat_capacity_change(fit3, fit3.T_ref)
     return CurvatureTest(method=method, statistic=float(stat), p_value=p, df=df, dCp=float(cp.value),
                          u_dCp=float(cp.uncertainty), T_ref=fit3.T_ref)
@@ -195,11 +195,11 @@ def curvature_test_with_levels(T_K, ln_P, sigma_lnP, groups, scale_known: bool =
         raise ValueError(f"the least-squares problem failed: {exc}") from None
     d_chi2 = max(chi2_2 - chi2_3, 0.0)
     if scale_known:
-        s2, stat, p, df, method = 1.0, d_chi2, float(chi2_sf(d_chi2, 1)), (1,), "chi2"
+        s2, stat, p, df, method = 1.0, d_chi2, chi2_sf(d_chi2, 1), (1,), "chi2"
     else:
         s2 = chi2_3 / dof3
         stat = d_chi2 / s2 if s2 > 0 else math.inf
-        p, df, method = float(f_sf(stat, 1, dof3)), (1, dof3), "F"
+        p, df, method = f_sf(stat, 1, dof3), (1, dof3), "F"
     try:
         cov = s2 * np.linalg.inv((X3 * w[:, None]).T @ X3)
     except np.linalg.LinAlgError as exc:
@@ -306,7 +306,7 @@ def residual_runs(residuals_sorted_by_T) -> RunsTest:
     if n_pos and n_neg and n > 1:
         mu, var = _runs_moments(n_pos, n_neg)
         z = (runs - mu) / math.sqrt(var) if var > 0 else 0.0
-        p2, p1 = float(2 * normal_sf(abs(z))), float(normal_cdf(z))
+        p2, p1 = 2 * normal_sf(abs(z)), normal_cdf(z)
     else:  # all residuals of one sign: a single run, maximal structure
         mu, z, p2, p1 = 1.0, math.nan, math.nan, math.nan
     if n:
@@ -386,8 +386,8 @@ def grouped_residual_runs(residuals_sorted_by_T, groups) -> RunsTest:
         if part.longest_run > len(best):
             best = tuple(int(idx[i]) for i in part.longest_run_members)
     z = (runs - mu) / math.sqrt(var) if var > 0 else math.nan
-    p2 = float(2 * normal_sf(abs(z))) if var > 0 else math.nan
-    p1 = float(normal_cdf(z)) if var > 0 else math.nan
+    p2 = 2 * normal_sf(abs(z)) if var > 0 else math.nan
+    p1 = normal_cdf(z) if var > 0 else math.nan
     by_group = r[np.array(order)]
     return RunsTest(n_pos=n_pos, n_neg=n_neg, runs=runs, expected_runs=float(mu), z=float(z), p_value=p2,
                     p_value_too_few=p1,
@@ -436,7 +436,7 @@ def coverage_for_estimated_scale(k: float, dof: float) -> float:
     """
     if not dof < 1e6:
         return k
-    return float(t_isf(normal_sf(k), max(dof, 1.0)))
+    return t_isf(normal_sf(k), max(dof, 1.0))
 
 
 def mad_degrees_of_freedom(n: int) -> float:
@@ -648,5 +648,5 @@ def family_wise_critical(alpha: float, n: int, correction: str, dof: float | Non
     n = max(1, int(n))
     a = 1 - (1 - alpha) ** (1 / n) if correction == "sidak" else alpha / n
     if dof is None or not math.isfinite(dof):
-        return float(normal_isf(a / 2))
-    return float(t_isf(a / 2, max(dof, 1.0)))
+        return normal_isf(a / 2)
+    return t_isf(a / 2, max(dof, 1.0))

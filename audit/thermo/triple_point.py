@@ -356,7 +356,7 @@ def find_slope_break(T, P, min_points_per_side: int = 4, u_T=None, u_P=None) -> 
     rss2, _, (k, a1, b1, a2, b2) = found
     dof = n - 4
     F = ((rss1 - rss2) / 2) / (rss2 / dof) if rss2 > 0 else math.inf
-    p = float(f_sf(F, 2, dof))
+    p = f_sf(F, 2, dof)
     x_lo, x_hi = x[k], x[k - 1]  # 1/T just above and just below the split
     x_cross = (a2 - a1) / (b1 - b2) if b1 != b2 else math.nan
     x_break = x_cross if (math.isfinite(x_cross) and x_lo <= x_cross <= x_hi) else 0.5 * (x_lo + x_hi)
